@@ -1,0 +1,59 @@
+import { ConfigError, loadConfig, type Config } from './config.js';
+import { DEMO_SIGN_IN_NOTE } from './db/demo-data.js';
+import { createLogger } from './logger.js';
+import { startServer, type RunningServer } from './server.js';
+
+function configOrExit(): Config {
+  try {
+    return loadConfig();
+  } catch (err) {
+    if (!(err instanceof ConfigError)) throw err;
+    console.error(err.message);
+    process.exit(1);
+  }
+}
+
+async function main(): Promise<void> {
+  const config = configOrExit();
+  const logger = createLogger(config.logLevel);
+
+  // Handlers go in before anything starts: a signal during start-up must still close the
+  // database cleanly instead of killing the process mid-write.
+  let server: RunningServer | undefined;
+  let stopping = false;
+  const shutdown = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'shutting down');
+    if (server) void stop(server);
+  };
+  const stop = (running: RunningServer) =>
+    running.close().then(
+      () => process.exit(0),
+      (err) => {
+        logger.error({ err }, 'shutdown failed');
+        process.exit(1);
+      },
+    );
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+  process.on('SIGINT', () => shutdown('SIGINT'));
+
+  server = await startServer(config, logger);
+  if (stopping) return void stop(server);
+
+  const where = config.databaseUrl ? 'PostgreSQL (DATABASE_URL)' : `PGlite in ${config.dataDir}`;
+  // Plain lines on stdout, written at once, so a person starting the demo sees where to go.
+  const lines = [
+    `Treadwise is running at ${server.url}  (database: ${where})`,
+    `  Console:  ${server.url}/`,
+    `  API docs: ${server.url}/docs   (OpenAPI: ${server.url}/openapi.json)`,
+  ];
+  if (server.seed.seeded) lines.push(`  Demo data seeded. ${DEMO_SIGN_IN_NOTE}`);
+  else if (config.seedDemo) lines.push(`  Demo data already present. ${DEMO_SIGN_IN_NOTE}`);
+  process.stdout.write(`${lines.join('\n')}\n`);
+}
+
+main().catch((err) => {
+  console.error(`Treadwise failed to start: ${err instanceof Error ? err.message : String(err)}`);
+  process.exit(1);
+});

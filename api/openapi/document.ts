@@ -1,0 +1,33 @@
+import { OpenAPIRegistry, OpenApiGeneratorV31 } from '@asteasolutions/zod-to-openapi';
+import { problemSchema } from '../../shared/schemas/problem.js';
+import { API_VERSION } from '../version.js';
+
+/** Each route module documents its own paths next to its handlers. */
+export type DocsRegistrar = (registry: OpenAPIRegistry) => void;
+
+export const problemResponse = (description: string) => ({
+  description,
+  content: { 'application/problem+json': { schema: problemSchema } },
+});
+
+export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
+  const registry = new OpenAPIRegistry();
+  for (const register of registrars) register(registry);
+  return new OpenApiGeneratorV31(registry.definitions).generateDocument({
+    openapi: '3.1.0',
+    info: {
+      title: 'Treadwise API',
+      version: API_VERSION,
+      description:
+        'Sizing for motion-activated LED lighting on stairs and corridors: strip per tread, ' +
+        'controller outputs, drivers, cable and voltage drop, pixel data, reels, sensors and the ' +
+        'bill of materials. Errors are RFC 9457 problem+json; every response carries `Request-Id`.\n\n' +
+        'Figures are estimates from nominal data. Mains work is for a licensed electrician; local codes prevail.',
+    },
+    servers: [{ url: '/' }],
+    tags: [
+      { name: 'Health', description: 'Liveness and readiness.' },
+      { name: 'Calculations', description: 'Stateless sizing calculations.' },
+    ],
+  });
+}

@@ -1,0 +1,29 @@
+/** A failure the API reports as RFC 9457 problem+json; thrown anywhere, rendered in one place. */
+export interface FieldError {
+  path: string;
+  message: string;
+}
+
+export class HttpProblem extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    readonly title: string,
+    readonly detail?: string,
+    readonly extra: { errors?: FieldError[]; headers?: Record<string, string> } = {},
+  ) {
+    super(detail ?? title);
+  }
+}
+
+export const problems = {
+  validation: (errors: FieldError[], detail = 'The request does not match the schema.') =>
+    new HttpProblem(400, 'validation_failed', 'Invalid request', detail, { errors }),
+  notFound: (detail = 'No such resource.') => new HttpProblem(404, 'not_found', 'Not found', detail),
+  notReady: (detail: string) => new HttpProblem(503, 'not_ready', 'Service not ready', detail),
+};
+
+/** The `type` URI of a problem: documented per code on the docs page. */
+export function problemType(code: string): string {
+  return `https://treadwise.test/problems/${code.replace(/_/g, '-')}`;
+}

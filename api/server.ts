@@ -1,0 +1,46 @@
+import type { AddressInfo } from 'node:net';
+import type { Server } from 'node:http';
+import path from 'node:path';
+import type { Logger } from 'pino';
+import { createApp } from './app.js';
+import type { Config } from './config.js';
+import { openDatabase, type Database } from './db/client.js';
+import { migrateDatabase } from './db/migrate.js';
+import { seedDemo, type SeedResult } from './db/seed.js';
+
+export interface RunningServer {
+  url: string;
+  database: Database;
+  seed: SeedResult;
+  /** Stops accepting connections, finishes in-flight requests, then closes the database. */
+  close(): Promise<void>;
+}
+
+export async function startServer(config: Config, logger: Logger): Promise<RunningServer> {
+  const database = await openDatabase({
+    url: config.databaseUrl,
+    dataDir: path.join(config.dataDir, 'pglite'),
+  });
+  await migrateDatabase(database);
+  const seed = await seedDemo(database, config.seedDemo);
+  const app = createApp({ config, database, logger, clock: () => new Date() });
+
+  const server: Server = await new Promise((resolve, reject) => {
+    const s = app.listen(config.port, config.host, (err?: Error) => (err ? reject(err) : resolve(s)));
+  });
+  const { port } = server.address() as AddressInfo;
+  const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host;
+
+  let closing: Promise<void> | undefined;
+  const close = () =>
+    (closing ??= (async () => {
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        // Idle keep-alive sockets would hold close() open; in-flight requests still finish.
+        server.closeIdleConnections();
+      });
+      await database.close();
+    })());
+
+  return { url: `http://${host}:${port}`, database, seed, close };
+}

@@ -1,0 +1,21 @@
+import type { Express } from 'express';
+import { createApp } from '../../api/app.js';
+import { loadConfig, type Config } from '../../api/config.js';
+import type { Database } from '../../api/db/client.js';
+import { createLogger } from '../../api/logger.js';
+import { createTestDatabase } from './test-database.js';
+
+export interface TestApp {
+  app: Express;
+  database: Database;
+  config: Config;
+  close(): Promise<void>;
+}
+
+/** createApp with an in-memory (or per-worker PostgreSQL) database and a silent logger. */
+export async function createTestApp(env: NodeJS.ProcessEnv = {}, clock: () => Date = () => new Date()): Promise<TestApp> {
+  const config = loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', CONSOLE_DIR: '/nonexistent', ...env });
+  const database = await createTestDatabase();
+  const app = createApp({ config, database, logger: createLogger('silent'), clock });
+  return { app, database, config, close: () => database.close() };
+}
