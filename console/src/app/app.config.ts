@@ -1,0 +1,23 @@
+import { provideHttpClient, withFetch } from '@angular/common/http';
+import {
+  type ApplicationConfig,
+  ErrorHandler,
+  provideBrowserGlobalErrorListeners,
+  provideZonelessChangeDetection,
+} from '@angular/core';
+import { provideRouter } from '@angular/router';
+
+import { routes } from './app.routes.js';
+import { AppErrorHandler } from './core/app-error-handler.js';
+import { provideConsoleIcons } from './core/console-icons.js';
+
+export const appConfig: ApplicationConfig = {
+  providers: [
+    provideZonelessChangeDetection(),
+    provideBrowserGlobalErrorListeners(),
+    { provide: ErrorHandler, useClass: AppErrorHandler },
+    provideHttpClient(withFetch()),
+    provideRouter(routes),
+    provideConsoleIcons(),
+  ],
+};
