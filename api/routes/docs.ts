@@ -25,6 +25,7 @@ export function docsRouter(): Router {
     '/',
     swaggerUi.setup(undefined, {
       customSiteTitle: 'Treadwise API',
+      customCss: '.swagger-ui .topbar { display: none }',
       swaggerOptions: { url: '/openapi.json', persistAuthorization: true, displayRequestDuration: true },
     }),
   );
