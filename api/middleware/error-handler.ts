@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
-import { HttpProblem, problemType } from '../problem.js';
+import { SizingInputError } from '../../shared/sizing/errors.js';
+import { HttpProblem, problems, problemType } from '../problem.js';
 
 interface BodyParserError {
   type?: string;
@@ -27,7 +28,9 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const problem =
     err instanceof HttpProblem
       ? err
-      : (fromBodyParser(err as BodyParserError) ??
+      : err instanceof SizingInputError
+        ? problems.validation([{ path: err.path.join('.'), message: err.message }], 'The engine cannot size this input.')
+        : (fromBodyParser(err as BodyParserError) ??
         new HttpProblem(500, 'internal_error', 'Internal server error', 'Something went wrong on our side.'));
   if (problem.status >= 500) req.log?.error({ err }, 'request failed');
   if (res.headersSent) return;

@@ -1,0 +1,188 @@
+import { z } from 'zod';
+import { controllerProfileSchema } from './controller.js';
+import { pixelProtocolSchema } from './pixels.js';
+
+/**
+ * A shop's catalog sent inline with an estimate: what it sells and at what price. The estimate
+ * matches each bill-of-materials line to an item by kind and fields, so prices are optional
+ * knowledge — a line without a match keeps its quantity and says so.
+ */
+
+/** Digits after the decimal point of a currency's minor unit (EUR 2, JPY 0, KWD 3). */
+export function minorUnitDigits(currency: string): number {
+  let digits = minorDigitsCache.get(currency);
+  if (digits === undefined) {
+    try {
+      digits = new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
+    } catch {
+      digits = 2;
+    }
+    minorDigitsCache.set(currency, digits);
+  }
+  return digits;
+}
+const minorDigitsCache = new Map<string, number>();
+
+const skuSchema = z
+  .string()
+  .min(1)
+  .max(64)
+  .regex(/^[A-Za-z0-9][A-Za-z0-9._\-/]*$/, 'letters, digits and . _ - / only')
+  .meta({ description: 'The shop’s stock-keeping unit.', example: 'HL-S24-10' });
+
+const base = {
+  sku: skuSchema,
+  description: z.string().min(1).max(200).optional().meta({ description: 'Name shown on the bill of materials; a generated one is used when absent.' }),
+  unitPrice: z
+    .number()
+    .min(0)
+    .max(10_000_000)
+    .meta({ description: 'Price of one unit (one reel, one driver, one metre of cable …) in the catalog currency, in whole minor units (e.g. 39.00).', example: 39 }),
+};
+
+const reelLengthMm = z.number().min(100).max(1_000_000).optional().meta({ description: 'Length of one reel, mm. Default 5000.', default: 5000 });
+
+export const catalogStripSchema = z
+  .object({
+    ...base,
+    kind: z.literal('strip'),
+    voltageV: z.number().positive().max(1000).meta({ description: 'Strip voltage, V DC.' }),
+    powerWPerM: z.number().positive().max(1000).meta({ description: 'Power per metre, W/m.' }),
+    cutPitchMm: z.number().min(1).max(1000).optional().meta({ description: 'Cut pitch, mm.' }),
+    reelLengthMm,
+  })
+  .meta({ id: 'CatalogStrip', description: 'Constant-voltage strip, sold by the reel.' });
+
+export const catalogPixelStripSchema = z
+  .object({
+    ...base,
+    kind: z.literal('pixel-strip'),
+    voltageV: z.number().positive().max(1000).meta({ description: 'Strip voltage, V DC.' }),
+    pixelsPerM: z.number().positive().max(1000).meta({ description: 'Pixels (driver ICs) per metre.' }),
+    protocol: pixelProtocolSchema.optional(),
+    reelLengthMm,
+  })
+  .meta({ id: 'CatalogPixelStrip', description: 'Addressable pixel strip, sold by the reel.' });
+
+export const catalogDriverSchema = z
+  .object({
+    ...base,
+    kind: z.literal('driver'),
+    voltageV: z.number().positive().max(1000).meta({ description: 'Constant-voltage output, V DC.' }),
+    ratingW: z.number().min(1).max(100_000).meta({ description: 'Rated output power, W.' }),
+  })
+  .meta({ id: 'CatalogDriver', description: 'LED driver (constant-voltage power supply).' });
+
+export const catalogCableSchema = z
+  .object({
+    ...base,
+    kind: z.literal('cable'),
+    crossSectionMm2: z.number().positive().max(1000).optional().meta({ description: 'Cross-section of one conductor, mm² (metric tables).' }),
+    awg: z.int().min(0).max(40).optional().meta({ description: 'Gauge of one conductor (AWG tables).' }),
+    cores: z.int().min(2).max(8).optional().meta({ description: 'Conductors in the cable. Default 2.', default: 2 }),
+  })
+  .refine((c) => (c.crossSectionMm2 === undefined) !== (c.awg === undefined), {
+    message: 'give exactly one of crossSectionMm2 or awg',
+    path: ['crossSectionMm2'],
+  })
+  .meta({ id: 'CatalogCable', description: 'Copper cable, priced per metre.' });
+
+export const catalogControllerSchema = z
+  .object({
+    ...base,
+    kind: z.literal('controller'),
+    profileId: z.string().min(1).max(64).optional().meta({ description: 'Id a request names in controller.profileId. Default: the SKU.' }),
+    profile: controllerProfileSchema,
+  })
+  .meta({ id: 'CatalogController', description: 'A stair controller and its profile.' });
+
+export const catalogMotionSensorSchema = z
+  .object({
+    ...base,
+    kind: z.literal('motion-sensor'),
+    outputType: z.enum(['pnp', 'npn']).meta({ description: 'Output type: pnp (sourcing) or npn (sinking).' }),
+    supplyV: z.number().positive().max(60).meta({ description: 'Supply voltage the sensor runs on, V.' }),
+    currentMa: z.number().positive().max(1000).meta({ description: 'Current the sensor draws, mA.' }),
+  })
+  .meta({ id: 'CatalogMotionSensor', description: 'PIR motion sensor.' });
+
+export const catalogDaylightSensorSchema = z
+  .object({ ...base, kind: z.literal('daylight-sensor') })
+  .meta({ id: 'CatalogDaylightSensor', description: 'Ambient-light (daylight) sensor for the lux cut-off.' });
+
+export const catalogAluminiumProfileSchema = z
+  .object({
+    ...base,
+    kind: z.literal('aluminium-profile'),
+    lengthMm: z.number().min(100).max(10_000).meta({ description: 'Length of one profile bar, mm.' }),
+  })
+  .meta({ id: 'CatalogAluminiumProfile', description: 'Aluminium profile with diffuser, cut to each tread’s strip.' });
+
+export const catalogEndCapsSchema = z
+  .object({ ...base, kind: z.literal('end-caps') })
+  .meta({ id: 'CatalogEndCaps', description: 'A pair of end caps: one pair closes one profile piece.' });
+
+export const catalogItemSchema = z
+  .discriminatedUnion('kind', [
+    catalogStripSchema,
+    catalogPixelStripSchema,
+    catalogDriverSchema,
+    catalogCableSchema,
+    catalogControllerSchema,
+    catalogMotionSensorSchema,
+    catalogDaylightSensorSchema,
+    catalogAluminiumProfileSchema,
+    catalogEndCapsSchema,
+  ])
+  .meta({ id: 'CatalogItem', description: 'One item a shop sells; `kind` says which fields it carries.' });
+
+export const catalogSchema = z
+  .object({
+    currency: z
+      .string()
+      .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
+      .meta({ description: 'ISO 4217 currency of every unitPrice.', example: 'EUR' }),
+    items: z.array(catalogItemSchema).min(1).max(1000),
+  })
+  .superRefine((catalog, ctx) => {
+    const digits = minorUnitDigits(catalog.currency);
+    const scale = 10 ** digits;
+    const seen = new Set<string>();
+    catalog.items.forEach((item, i) => {
+      if (seen.has(item.sku)) ctx.addIssue({ code: 'custom', path: ['items', i, 'sku'], message: `SKU ${item.sku} appears twice.` });
+      seen.add(item.sku);
+      const minor = item.unitPrice * scale;
+      if (Math.abs(minor - Math.round(minor)) > 1e-6) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['items', i, 'unitPrice'],
+          message: `${catalog.currency} prices have ${digits} decimal place(s); ${item.unitPrice} is not a whole number of minor units.`,
+        });
+      }
+    });
+  })
+  .meta({
+    id: 'Catalog',
+    description:
+      'An inline catalog: the estimate matches SKUs to its bill of materials by kind and fields (strip by SKU or voltage and power, drivers by rating and voltage, cable by size, controller by profileId) and prices the lines in integer minor units.',
+    example: {
+      currency: 'EUR',
+      items: [
+        { sku: 'HL-S24-10', kind: 'strip', unitPrice: 39, voltageV: 24, powerWPerM: 10, cutPitchMm: 50, reelLengthMm: 5000 },
+        { sku: 'HL-D24-150', kind: 'driver', unitPrice: 46, voltageV: 24, ratingW: 150 },
+        { sku: 'HL-C050', kind: 'cable', unitPrice: 0.6, crossSectionMm2: 0.5 },
+      ],
+    },
+  });
+
+export type Catalog = z.output<typeof catalogSchema>;
+export type CatalogItem = z.output<typeof catalogItemSchema>;
+export type CatalogStrip = z.output<typeof catalogStripSchema>;
+export type CatalogPixelStrip = z.output<typeof catalogPixelStripSchema>;
+export type CatalogDriver = z.output<typeof catalogDriverSchema>;
+export type CatalogCable = z.output<typeof catalogCableSchema>;
+export type CatalogController = z.output<typeof catalogControllerSchema>;
+export type CatalogMotionSensor = z.output<typeof catalogMotionSensorSchema>;
+export type CatalogDaylightSensor = z.output<typeof catalogDaylightSensorSchema>;
+export type CatalogAluminiumProfile = z.output<typeof catalogAluminiumProfileSchema>;
+export type CatalogEndCaps = z.output<typeof catalogEndCapsSchema>;

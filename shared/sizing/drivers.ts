@@ -1,0 +1,253 @@
+import type { DriverGroup, DriverInput, DriverResult } from '../schemas/driver.js';
+import { chooseDriverMix } from './driver-mix.js';
+import { SizingInputError } from './errors.js';
+import { round, type TraceEntry, type Warning } from './trace.js';
+import { ENGINE_VERSION } from './version.js';
+
+/** A common driver series; used when the request names none. */
+export const DEFAULT_DRIVER_RATINGS_W: readonly number[] = [30, 60, 100, 150, 200, 240, 320, 480];
+export const DEFAULT_MAX_LOADING_PERCENT = 80;
+export const DEFAULT_MAINS_VOLTAGE_V = 230;
+export const DEFAULT_POWER_FACTOR = 0.9;
+
+const LOADING_REFERENCE =
+  'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load';
+const CLASS2_REFERENCE =
+  'NEC Chapter 9 Table 11(B), DC not inherently limited: over 20–60 V 100 VA; 0–20 V 5.0 × V VA and 5 A (from memory); UL 1310';
+const SELV_REFERENCE = 'IEC 60598-1 8.2.3 (exposed live parts of Class III luminaires ≤ 60 V ripple-free DC); IEC 61140 / IEC 60364-4-41 (SELV ≤ 120 V ripple-free DC)';
+
+/** Prices for the catalog case: aligned with availableRatingsW, or keyed by rating. */
+export type DriverPrices = readonly number[] | ReadonlyMap<number, number>;
+
+export type DriverSelectionInput = DriverInput & { prices?: DriverPrices | undefined };
+
+/** Largest Class 2 supply at this voltage, VA; null above 60 V, where Class 2 does not exist. */
+export function class2MaxVA(outputVoltageV: number): number | null {
+  if (outputVoltageV <= 20) return 5 * outputVoltageV;
+  if (outputVoltageV <= 60) return 100;
+  return null;
+}
+
+/** Rating the drivers must add up to: load / (maxLoadingPercent / 100). */
+export function requiredRatingW(loadW: number, maxLoadingPercent = DEFAULT_MAX_LOADING_PERCENT): number {
+  // Multiply first: 216 × 100 / 80 is exactly 270, 216 / 0.8 is not.
+  return (loadW * 100) / maxLoadingPercent;
+}
+
+function alignPrices(ratingsW: readonly number[], prices: DriverPrices | undefined): number[] | undefined {
+  if (prices === undefined) return undefined;
+  const aligned =
+    'get' in prices
+      ? ratingsW.map((r) => {
+          const price = prices.get(r);
+          if (price === undefined) throw new SizingInputError(['prices'], `No price for the ${r} W rating`, 'driver_price_missing');
+          return price;
+        })
+      : [...prices];
+  if (aligned.length !== ratingsW.length) {
+    throw new SizingInputError(['prices'], `${aligned.length} prices for ${ratingsW.length} ratings`, 'driver_price_missing');
+  }
+  if (aligned.some((p) => !Number.isFinite(p) || p < 0)) {
+    throw new SizingInputError(['prices'], 'Prices must be finite and not negative', 'driver_price_invalid');
+  }
+  return aligned;
+}
+
+export function chooseDrivers(input: DriverSelectionInput): DriverResult {
+  const maxLoadingPercent = input.maxLoadingPercent ?? DEFAULT_MAX_LOADING_PERCENT;
+  const ratingsW = input.availableRatingsW ?? DEFAULT_DRIVER_RATINGS_W;
+  // The schema rules these out; callers that skip it (the estimate's catalog) get a field error, not an endless search.
+  if (!(maxLoadingPercent > 0 && maxLoadingPercent <= 100)) {
+    throw new SizingInputError(['maxLoadingPercent'], 'maxLoadingPercent must be above 0 and at most 100', 'invalid_loading');
+  }
+  if (ratingsW.some((r) => !(Number.isFinite(r) && r > 0))) {
+    throw new SizingInputError(['availableRatingsW'], 'Driver ratings must be finite and above 0 W', 'invalid_driver_rating');
+  }
+  const prices = alignPrices(ratingsW, input.prices);
+  const requiredW = requiredRatingW(input.loadW, maxLoadingPercent);
+  const warnings: Warning[] = [];
+
+  // Cap on one supply: Class 2 by voltage, and/or an explicit VA cap (VA = W on the DC side).
+  const class2Cap = input.class2 ? class2MaxVA(input.outputVoltageV) : null;
+  if (input.class2 && class2Cap === null) {
+    warnings.push({
+      code: 'class2_not_available',
+      message: `Class 2 supplies stop at 60 V DC (30 V in wet locations); ${input.outputVoltageV} V cannot be Class 2, so no Class 2 cap was applied.`,
+    });
+  }
+  const caps = [class2Cap, input.maxSupplyVA ?? null].filter((c): c is number => c !== null);
+  const maxSupplyW = caps.length > 0 ? Math.min(...caps) : null;
+  const usableRatings: number[] = [];
+  const usablePrices: number[] = [];
+  const unusableRatingsW: number[] = [];
+  ratingsW.forEach((r, i) => {
+    if (maxSupplyW !== null && r > maxSupplyW * (1 + 1e-9)) {
+      unusableRatingsW.push(r);
+    } else {
+      usableRatings.push(r);
+      if (prices) usablePrices.push(prices[i]!);
+    }
+  });
+
+  const mix = chooseDriverMix(requiredW, usableRatings, prices ? usablePrices : undefined);
+  const drivers: DriverGroup[] = [];
+  const loadingPercent = mix ? (input.loadW / mix.totalRatingW) * 100 : null;
+  if (mix) {
+    mix.ratingsW.forEach((ratingW, i) => {
+      drivers.push({
+        ratingW,
+        count: mix.counts[i]!,
+        loadW: round((input.loadW * ratingW) / mix.totalRatingW, 4),
+        loadingPercent: round(loadingPercent!, 4),
+      });
+    });
+    if (!mix.exhaustive) {
+      warnings.push({
+        code: 'driver_search_truncated',
+        message: 'The rating list is too finely spaced to search every mix; the drivers shown cover the load but may not be the cheapest.',
+      });
+    }
+  } else {
+    warnings.push({
+      code: 'no_usable_driver_rating',
+      message: `No available rating is at or below the ${maxSupplyW} W cap per supply: add smaller ratings or lift the cap.`,
+    });
+  }
+
+  if (maxLoadingPercent > DEFAULT_MAX_LOADING_PERCENT) {
+    warnings.push({
+      code: 'loading_above_practice',
+      message: `Drivers loaded up to ${maxLoadingPercent} %: common practice is at most ${DEFAULT_MAX_LOADING_PERCENT} %, more runs them hot and shortens their life.`,
+    });
+  }
+  if (input.outputVoltageV > 120) {
+    warnings.push({ code: 'not_selv', message: `${input.outputVoltageV} V DC is above the 120 V SELV limit (IEC 61140): this is not extra-low-voltage wiring.` });
+  } else if (input.outputVoltageV > 60) {
+    warnings.push({
+      code: 'selv_exposed_parts',
+      message: `${input.outputVoltageV} V DC is above 60 V: exposed live parts of a Class III luminaire are not allowed (IEC 60598-1 8.2.3); enclose the strip and its joints.`,
+    });
+  }
+
+  const trace: TraceEntry[] = [
+    {
+      quantity: 'maxLoadingPercent',
+      value: maxLoadingPercent,
+      unit: '%',
+      formula: input.maxLoadingPercent === undefined ? 'default' : 'as given',
+      inputs: { default: input.maxLoadingPercent === undefined },
+      reference: LOADING_REFERENCE,
+    },
+    {
+      quantity: 'requiredRatingW',
+      value: round(requiredW, 4),
+      unit: 'W',
+      formula: 'P_load / (maxLoadingPercent / 100)',
+      inputs: { loadW: input.loadW, maxLoadingPercent },
+      reference: LOADING_REFERENCE,
+    },
+    {
+      quantity: 'maxSupplyW',
+      value: maxSupplyW ?? 'uncapped',
+      unit: 'W',
+      formula: 'min(Class 2 limit at the output voltage, maxSupplyVA)',
+      inputs: {
+        outputVoltageV: input.outputVoltageV,
+        class2: input.class2 ?? false,
+        class2LimitVA: class2Cap,
+        maxSupplyVA: input.maxSupplyVA ?? null,
+        unusableRatingsW: unusableRatingsW.join(', '),
+      },
+      reference: input.class2 ? CLASS2_REFERENCE : 'request',
+    },
+    {
+      quantity: 'drivers',
+      value: mix ? mix.ratingsW.map((r, i) => `${mix.counts[i]} × ${r} W`).join(' + ') : 'none',
+      unit: '',
+      formula: 'Σ ratings ≥ required; fewest drivers, then least total ' + (prices ? 'price' : 'rating') + ', then fewest distinct ratings',
+      inputs: {
+        requiredRatingW: round(requiredW, 4),
+        availableRatingsW: ratingsW.join(', '),
+        availableRatingsDefault: input.availableRatingsW === undefined,
+        totalPrice: mix && mix.totalPrice !== null ? round(mix.totalPrice, 2) : null,
+      },
+      reference: 'common practice, no published source',
+    },
+    {
+      quantity: 'totalRatingW',
+      value: mix ? mix.totalRatingW : 0,
+      unit: 'W',
+      formula: 'Σ count × ratingW',
+      inputs: { driverCount: mix ? mix.driverCount : 0 },
+      reference: 'common practice, no published source',
+    },
+    {
+      quantity: 'loadingPercent',
+      value: loadingPercent === null ? 'none' : round(loadingPercent, 4),
+      unit: '%',
+      formula: 'P_load / Σ ratings · 100 (load shared in proportion to rating)',
+      inputs: { loadW: input.loadW, totalRatingW: mix ? mix.totalRatingW : 0 },
+      reference: LOADING_REFERENCE,
+    },
+    {
+      quantity: 'selv',
+      value: input.outputVoltageV <= 60 ? 'within 60 V DC' : input.outputVoltageV <= 120 ? 'SELV, live parts must be enclosed' : 'not SELV',
+      unit: '',
+      formula: 'V_out ≤ 60 V DC (exposed live parts); V_out ≤ 120 V DC (SELV)',
+      inputs: { outputVoltageV: input.outputVoltageV },
+      reference: SELV_REFERENCE,
+    },
+  ];
+
+  const result: DriverResult = {
+    requiredRatingW: round(requiredW, 4),
+    maxLoadingPercent,
+    drivers,
+    driverCount: mix ? mix.driverCount : 0,
+    totalRatingW: mix ? mix.totalRatingW : 0,
+    loadingPercent: loadingPercent === null ? null : round(loadingPercent, 4),
+    maxSupplyW,
+    unusableRatingsW,
+    warnings,
+    engineVersion: ENGINE_VERSION,
+    trace,
+  };
+  if (mix && mix.totalPrice !== null) result.totalPrice = round(mix.totalPrice, 2);
+
+  if (input.efficiencyPercent !== undefined) {
+    const mainsVoltageV = input.mainsVoltageV ?? DEFAULT_MAINS_VOLTAGE_V;
+    const powerFactor = input.powerFactor ?? DEFAULT_POWER_FACTOR;
+    const inputPowerW = input.loadW / (input.efficiencyPercent / 100);
+    const mainsCurrentA = inputPowerW / (mainsVoltageV * powerFactor);
+    result.inputPowerW = round(inputPowerW, 4);
+    result.mainsCurrentA = round(mainsCurrentA, 4);
+    trace.push(
+      {
+        quantity: 'inputPowerW',
+        value: result.inputPowerW,
+        unit: 'W',
+        formula: 'P_in = P_load / efficiency',
+        inputs: { loadW: input.loadW, efficiencyPercent: input.efficiencyPercent },
+        reference: 'definition of efficiency',
+      },
+      {
+        quantity: 'mainsCurrentA',
+        value: result.mainsCurrentA,
+        unit: 'A',
+        formula: 'I = P_in / (V_mains · PF)',
+        inputs: {
+          inputPowerW: result.inputPowerW,
+          mainsVoltageV,
+          mainsVoltageDefault: input.mainsVoltageV === undefined,
+          powerFactor,
+          powerFactorDefault: input.powerFactor === undefined,
+        },
+        reference:
+          input.powerFactor === undefined
+            ? 'definition of power factor; PF 0.9 is an assumed default, no published source — use the driver datasheet'
+            : 'definition of power factor',
+      },
+    );
+  }
+  return result;
+}
