@@ -37,7 +37,12 @@ const base = {
     .number()
     .min(0)
     .max(10_000_000)
-    .meta({ description: 'Price of one unit (one reel, one driver, one metre of cable …) in the catalog currency, in whole minor units (e.g. 39.00).', example: 39 }),
+    .optional()
+    .meta({
+      description:
+        'Price of one unit (one reel, one driver, one metre of cable …) in the catalog currency, a whole number of minor units (39.00, not 39.001). Without it the item is matched but its line is not priced.',
+      example: 39,
+    }),
 };
 
 const reelLengthMm = z.number().min(100).max(1_000_000).optional().meta({ description: 'Length of one reel, mm. Default 5000.', default: 5000 });
@@ -51,7 +56,11 @@ export const catalogStripSchema = z
     cutPitchMm: z.number().min(1).max(1000).optional().meta({ description: 'Cut pitch, mm.' }),
     reelLengthMm,
   })
-  .meta({ id: 'CatalogStrip', description: 'Constant-voltage strip, sold by the reel.' });
+  .meta({
+    id: 'CatalogStrip',
+    description: 'Constant-voltage strip, sold by the reel.',
+    example: { sku: 'HL-S24-10', kind: 'strip', unitPrice: 39, voltageV: 24, powerWPerM: 10, cutPitchMm: 50, reelLengthMm: 5000 },
+  });
 
 export const catalogPixelStripSchema = z
   .object({
@@ -62,7 +71,11 @@ export const catalogPixelStripSchema = z
     protocol: pixelProtocolSchema.optional(),
     reelLengthMm,
   })
-  .meta({ id: 'CatalogPixelStrip', description: 'Addressable pixel strip, sold by the reel.' });
+  .meta({
+    id: 'CatalogPixelStrip',
+    description: 'Addressable pixel strip, sold by the reel.',
+    example: { sku: 'HL-P05-60', kind: 'pixel-strip', unitPrice: 45, voltageV: 5, pixelsPerM: 60, protocol: 'one-wire-800k', reelLengthMm: 5000 },
+  });
 
 export const catalogDriverSchema = z
   .object({
@@ -71,7 +84,11 @@ export const catalogDriverSchema = z
     voltageV: z.number().positive().max(1000).meta({ description: 'Constant-voltage output, V DC.' }),
     ratingW: z.number().min(1).max(100_000).meta({ description: 'Rated output power, W.' }),
   })
-  .meta({ id: 'CatalogDriver', description: 'LED driver (constant-voltage power supply).' });
+  .meta({
+    id: 'CatalogDriver',
+    description: 'LED driver (constant-voltage power supply).',
+    example: { sku: 'HL-D24-150', kind: 'driver', unitPrice: 46, voltageV: 24, ratingW: 150 },
+  });
 
 export const catalogCableSchema = z
   .object({
@@ -85,7 +102,7 @@ export const catalogCableSchema = z
     message: 'give exactly one of crossSectionMm2 or awg',
     path: ['crossSectionMm2'],
   })
-  .meta({ id: 'CatalogCable', description: 'Copper cable, priced per metre.' });
+  .meta({ id: 'CatalogCable', description: 'Copper cable, priced per metre.', example: { sku: 'HL-C050', kind: 'cable', unitPrice: 0.6, crossSectionMm2: 0.5 } });
 
 export const catalogControllerSchema = z
   .object({
@@ -94,7 +111,11 @@ export const catalogControllerSchema = z
     profileId: z.string().min(1).max(64).optional().meta({ description: 'Id a request names in controller.profileId. Default: the SKU.' }),
     profile: controllerProfileSchema,
   })
-  .meta({ id: 'CatalogController', description: 'A stair controller and its profile.' });
+  .meta({
+    id: 'CatalogController',
+    description: 'A stair controller and its profile.',
+    example: { sku: 'HL-K36', kind: 'controller', profile: { outputs: 36, maxCurrentPerOutputA: 1.2, dataOutputs: 2, maxPixelsPerOutput: 600 } },
+  });
 
 export const catalogMotionSensorSchema = z
   .object({
@@ -104,11 +125,11 @@ export const catalogMotionSensorSchema = z
     supplyV: z.number().positive().max(60).meta({ description: 'Supply voltage the sensor runs on, V.' }),
     currentMa: z.number().positive().max(1000).meta({ description: 'Current the sensor draws, mA.' }),
   })
-  .meta({ id: 'CatalogMotionSensor', description: 'PIR motion sensor.' });
+  .meta({ id: 'CatalogMotionSensor', description: 'PIR motion sensor.', example: { sku: 'HL-M05', kind: 'motion-sensor', outputType: 'pnp', supplyV: 5, currentMa: 8 } });
 
 export const catalogDaylightSensorSchema = z
   .object({ ...base, kind: z.literal('daylight-sensor') })
-  .meta({ id: 'CatalogDaylightSensor', description: 'Ambient-light (daylight) sensor for the lux cut-off.' });
+  .meta({ id: 'CatalogDaylightSensor', description: 'Ambient-light (daylight) sensor for the lux cut-off.', example: { sku: 'HL-L01', kind: 'daylight-sensor' } });
 
 export const catalogAluminiumProfileSchema = z
   .object({
@@ -116,11 +137,15 @@ export const catalogAluminiumProfileSchema = z
     kind: z.literal('aluminium-profile'),
     lengthMm: z.number().min(100).max(10_000).meta({ description: 'Length of one profile bar, mm.' }),
   })
-  .meta({ id: 'CatalogAluminiumProfile', description: 'Aluminium profile with diffuser, cut to each tread’s strip.' });
+  .meta({
+    id: 'CatalogAluminiumProfile',
+    description: 'Aluminium profile with diffuser, cut to each tread’s strip.',
+    example: { sku: 'HL-A100', kind: 'aluminium-profile', unitPrice: 8.5, lengthMm: 1000 },
+  });
 
 export const catalogEndCapsSchema = z
   .object({ ...base, kind: z.literal('end-caps') })
-  .meta({ id: 'CatalogEndCaps', description: 'A pair of end caps: one pair closes one profile piece.' });
+  .meta({ id: 'CatalogEndCaps', description: 'A pair of end caps: one pair closes one profile piece.', example: { sku: 'HL-E02', kind: 'end-caps', unitPrice: 0.9 } });
 
 export const catalogItemSchema = z
   .discriminatedUnion('kind', [
@@ -134,7 +159,11 @@ export const catalogItemSchema = z
     catalogAluminiumProfileSchema,
     catalogEndCapsSchema,
   ])
-  .meta({ id: 'CatalogItem', description: 'One item a shop sells; `kind` says which fields it carries.' });
+  .meta({
+    id: 'CatalogItem',
+    description: 'One item a shop sells; `kind` says which fields it carries.',
+    example: { sku: 'HL-D24-100', kind: 'driver', unitPrice: 34, voltageV: 24, ratingW: 100 },
+  });
 
 export const catalogSchema = z
   .object({
@@ -151,6 +180,7 @@ export const catalogSchema = z
     catalog.items.forEach((item, i) => {
       if (seen.has(item.sku)) ctx.addIssue({ code: 'custom', path: ['items', i, 'sku'], message: `SKU ${item.sku} appears twice.` });
       seen.add(item.sku);
+      if (item.unitPrice === undefined) return;
       const minor = item.unitPrice * scale;
       if (Math.abs(minor - Math.round(minor)) > 1e-6) {
         ctx.addIssue({

@@ -1,0 +1,683 @@
+import { z } from 'zod';
+import { flightsMismatch } from '../sizing/geometry.js';
+import { catalogSchema } from './catalog.js';
+import { engineVersionSchema, traceEntrySchema } from './common.js';
+import { conductorTableSchema, maxDropPercentSchema, temperatureSchema } from './conductor.js';
+import { controllerProfileSchema } from './controller.js';
+import { minCrossSectionSchema } from './cable.js';
+import { driverGroupSchema } from './driver.js';
+import { pixelProtocolSchema } from './pixels.js';
+import { reelCutSchema } from './reels.js';
+import {
+  alderRowCornerUnit,
+  alderRowTownhouse,
+  alderRowTreadPixels,
+  alderRowTownhouseResponse,
+  alderRowWithRail,
+  harborLaneCheckout,
+  quaysideCorridor,
+} from './estimate-examples.js';
+
+// ---------------------------------------------------------------------------------------------
+// Request: POST /v1/estimates
+// ---------------------------------------------------------------------------------------------
+
+export const MAX_TREADS = 200;
+
+const flightSchema = z
+  .object({
+    treads: z.int().min(1).max(MAX_TREADS).meta({ description: 'Treads in this flight.' }),
+    landingLengthMm: z
+      .number()
+      .min(0)
+      .max(20_000)
+      .optional()
+      .meta({ description: 'Cable length across the landing at the head of this flight, mm (both legs for a corner). Default: the tread width.' }),
+  })
+  .meta({ id: 'Flight', description: 'A run of treads between landings, foot first.', example: { treads: 7, landingLengthMm: 900 } });
+
+export const staircaseSchema = z
+  .object({
+    treads: z.int().min(1).max(MAX_TREADS).meta({ description: 'Treads in the whole stair, numbered from 1 at the foot.' }),
+    treadWidthMm: z.number().min(100).max(5000).meta({ description: 'Tread width, side to side, mm.' }),
+    riserHeightMm: z.number().min(50).max(400).meta({ description: 'Riser height, mm.' }),
+    goingMm: z.number().min(50).max(1000).meta({ description: 'Going (tread depth, front to back), mm.' }),
+    flights: z.array(flightSchema).min(1).max(20).optional().meta({ description: 'Flights foot first; they must add up to `treads`. Default: one straight flight.' }),
+  })
+  .superRefine((stair, ctx) => {
+    const issue = flightsMismatch(stair);
+    if (issue) ctx.addIssue({ code: 'custom', path: ['flights'], message: issue });
+  })
+  .meta({ id: 'Staircase', description: 'The stair as measured.', example: { treads: 14, treadWidthMm: 900, riserHeightMm: 185, goingMm: 250 } });
+
+const endClearanceSchema = z
+  .number()
+  .min(0)
+  .max(500)
+  .optional()
+  .meta({ description: 'Gap left at each end of the tread, mm. Default 20 (common practice).', default: 20 });
+
+const skuField = z.string().min(1).max(64).optional().meta({ description: 'SKU of this part in the catalog, when one is sent.' });
+
+export const treadStripSchema = z
+  .object({
+    voltageV: z.number().min(1).max(400).meta({ description: 'Strip voltage, V DC.' }),
+    powerWPerM: z.number().positive().max(200).meta({ description: 'Strip power per metre, W/m.' }),
+    cutPitchMm: z.number().min(1).max(1000).meta({ description: 'Cut pitch: the strip may only be cut at these marks, mm.' }),
+    endClearanceMm: endClearanceSchema,
+    sku: skuField,
+  })
+  .meta({ id: 'TreadStrip', description: 'The constant-voltage strip fitted on each tread.', example: { voltageV: 24, powerWPerM: 10, cutPitchMm: 50, sku: 'HL-S24-10' } });
+
+const pixelCommon = {
+  pixelsPerM: z.number().min(1).max(500).meta({ description: 'Pixels (driver ICs) per metre; on 12 V / 24 V strip one pixel often drives 3 or 6 LEDs.' }),
+  voltageV: z.number().min(1).max(60).meta({ description: 'Strip voltage, V DC.' }),
+  protocol: pixelProtocolSchema,
+  bitsPerPixel: z.literal([24, 32]).optional().meta({ description: 'One-wire bits per pixel: 24 RGB, 32 RGBW.', default: 24 }),
+  currentPerPixelMa: z
+    .number()
+    .min(0)
+    .max(1000)
+    .optional()
+    .meta({ description: 'Current of one pixel at full white, mA. Default 60 (a 5 V RGB pixel).', default: 60 }),
+  brightnessPercent: z
+    .number()
+    .min(1)
+    .max(100)
+    .optional()
+    .meta({ description: 'Added field: brightness cap the controller enforces; current scales linearly. Default 100.', default: 100 }),
+  maxFeedLengthM: z
+    .number()
+    .min(0.1)
+    .max(100)
+    .optional()
+    .meta({ description: 'Longest strip the datasheet allows from one feed point, m. Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory).' }),
+  sku: skuField,
+};
+
+export const railPixelsSchema = z
+  .object({
+    lengthM: z.number().min(0.1).max(500).meta({ description: 'Length of the rail (handrail, skirting or corridor wall) run, m.' }),
+    ...pixelCommon,
+  })
+  .meta({
+    id: 'RailPixels',
+    description: 'An addressable pixel run along a handrail, skirting or corridor wall.',
+    example: { lengthM: 18, pixelsPerM: 60, voltageV: 5, protocol: 'one-wire-800k', sku: 'HL-P05-60' },
+  });
+
+export const treadPixelsSchema = z
+  .object({
+    ...pixelCommon,
+    cutPitchMm: z.number().min(1).max(1000).optional().meta({ description: 'Cut pitch, mm. Default: every pixel is a cut point.' }),
+    endClearanceMm: endClearanceSchema,
+  })
+  .meta({
+    id: 'TreadPixels',
+    description: 'An addressable segment on every tread, the segments chained tread to tread.',
+    example: { pixelsPerM: 20, voltageV: 24, protocol: 'one-wire-800k', currentPerPixelMa: 12, cutPitchMm: 50 },
+  });
+
+export const controllerPositionSchema = z
+  .union([
+    z.enum(['bottom', 'top', 'middle']),
+    z.object({ tread: z.int().min(1).max(MAX_TREADS).meta({ description: 'Tread the controller sits at (1 = foot).' }) }),
+  ])
+  .meta({
+    id: 'ControllerPosition',
+    description:
+      'Where the controller sits along the stair: bottom (tread 1), top (tread n), middle (⌈n/2⌉) or a tread. Default: where the longest run is shortest. With several controllers it applies within each one’s block of treads.',
+    example: 'middle',
+  });
+
+export const estimateControllerSchema = z
+  .object({
+    profile: controllerProfileSchema.optional(),
+    profileId: z
+      .string()
+      .min(1)
+      .max(64)
+      .optional()
+      .meta({ description: 'A controller of the catalog (inline `catalog` item of kind "controller", by its profileId or SKU).' }),
+    position: controllerPositionSchema.optional(),
+  })
+  .superRefine((c, ctx) => {
+    if ((c.profile === undefined) === (c.profileId === undefined)) {
+      ctx.addIssue({ code: 'custom', path: ['profile'], message: 'give either an inline profile or a profileId' });
+    }
+  })
+  .meta({
+    id: 'EstimateController',
+    description: 'The controller: an inline profile, or a profileId resolved against the catalog.',
+    example: { profileId: 'HL-K20' },
+  });
+
+export const DEFAULT_FEEDER_LENGTH_M = 2;
+
+export const estimateCableSchema = z
+  .object({
+    conductorTable: conductorTableSchema.optional().meta({ description: 'Table to choose cable from; an AWG table gives `awg` sizes. Default iec60228-class5.' }),
+    maxDropPercent: maxDropPercentSchema.optional(),
+    minCrossSectionMm2: minCrossSectionSchema.optional(),
+    serviceAllowanceM: z
+      .number()
+      .min(0)
+      .max(10)
+      .optional()
+      .meta({ description: 'Added to every run for the drop to the strip’s feed end, m. Default 0.5.', default: 0.5 }),
+    temperatureC: temperatureSchema.optional(),
+    feederLengthM: z
+      .number()
+      .min(0.1)
+      .max(100)
+      .optional()
+      .meta({
+        description: `Added field: one-way length of each feeder from a driver to the controller (or to a pixel run’s feed point), m. Default ${DEFAULT_FEEDER_LENGTH_M} (driver mounted beside the controller).`,
+        default: DEFAULT_FEEDER_LENGTH_M,
+      }),
+  })
+  .meta({ id: 'EstimateCable', description: 'How runs and feeders are sized.', example: { conductorTable: 'iec60228-class5', maxDropPercent: 5, feederLengthM: 2 } });
+
+export const estimateDriversSchema = z
+  .object({
+    maxLoadingPercent: z.number().min(10).max(100).optional().meta({ description: 'Load each driver to at most this % of its rating. Default 80.', default: 80 }),
+    availableRatingsW: z
+      .array(z.number().min(1).max(100_000))
+      .min(1)
+      .max(16)
+      .optional()
+      .meta({ description: 'Ratings to choose from, W. With a catalog, only its drivers of these ratings. Default: the catalog’s drivers at the rail voltage, else 30–480 W.' }),
+    class2: z.boolean().optional().meta({ description: 'Cap each supply at the NEC Chapter 9 Table 11 Class 2 limit for its voltage.' }),
+    efficiencyPercent: z.number().min(10).max(100).optional().meta({ description: 'Driver efficiency, %; gives the mains input power and current.' }),
+    mainsVoltageV: z.number().min(50).max(1000).optional().meta({ description: 'Mains voltage, V AC. Default 230.', default: 230 }),
+    powerFactor: z.number().min(0.1).max(1).optional().meta({ description: 'Added field: driver input power factor. Default 0.9 (assumed).', default: 0.9 }),
+  })
+  .meta({ id: 'EstimateDrivers', description: 'How drivers are chosen for each rail voltage.', example: { maxLoadingPercent: 80, availableRatingsW: [60, 100, 150, 240] } });
+
+export const estimateSensorsSchema = z
+  .object({
+    motion: z
+      .object({
+        outputType: z.enum(['pnp', 'npn']).meta({ description: 'Sensor output: pnp (sourcing) or npn (sinking).' }),
+        supplyV: z.number().positive().max(60).meta({ description: 'Supply voltage the sensor runs on, V.' }),
+        currentMa: z.number().positive().max(1000).meta({ description: 'Current one sensor draws, mA.' }),
+      })
+      .optional()
+      .meta({ description: 'The motion sensor fitted. Default: the catalog’s motion sensor, if any.' }),
+    daylightCutoffLux: z
+      .number()
+      .min(1)
+      .max(100_000)
+      .optional()
+      .meta({ description: 'The lights run only below this ambient level, lx. Default 50 (below a lit hallway and EN 12464-1’s 100 / 150 lx).', default: 50 }),
+    useDaylightCutoff: z
+      .boolean()
+      .optional()
+      .meta({ description: 'Added field: fit an ambient-light sensor for the cut-off (one per controller). Default true.', default: true }),
+    joinedLandings: z
+      .array(z.int().min(1).max(19))
+      .max(19)
+      .optional()
+      .meta({ description: 'Added field: landings where people join the stair (1 = the landing above flight 1); each gets its own sensor.' }),
+    sideEntrances: z
+      .int()
+      .min(0)
+      .max(50)
+      .optional()
+      .meta({ description: 'Added field: side entrances along a corridor (rail-pixels without a staircase); each gets its own sensor. Default 0.' }),
+  })
+  .meta({ id: 'EstimateSensors', description: 'Motion and daylight sensing.', example: { motion: { outputType: 'pnp', supplyV: 5, currentMa: 8 }, daylightCutoffLux: 50 } });
+
+export const estimateReelsSchema = z
+  .object({
+    reelLengthMm: z.number().min(100).max(1_000_000).optional().meta({ description: 'Reel length, mm. Default: the catalog item’s, else 5000.', default: 5000 }),
+  })
+  .meta({ id: 'EstimateReelLength', description: 'Strip reels.', example: { reelLengthMm: 5000 } });
+
+const commonFields = {
+  controller: estimateControllerSchema,
+  cable: estimateCableSchema.optional(),
+  drivers: estimateDriversSchema.optional(),
+  sensors: estimateSensorsSchema.optional(),
+  reels: estimateReelsSchema.optional(),
+  catalog: catalogSchema.optional(),
+};
+
+type CrossCheckable = {
+  staircase?: { treads: number; flights?: { treads: number }[] | undefined } | undefined;
+  controller: { position?: z.output<typeof controllerPositionSchema> | undefined };
+  sensors?: { joinedLandings?: number[] | undefined } | undefined;
+  reels?: { reelLengthMm?: number | undefined } | undefined;
+  treadStrip?: { cutPitchMm: number } | undefined;
+  treadPixels?: { cutPitchMm?: number | undefined } | undefined;
+};
+
+/** Fields that only make sense against the stair they belong to. */
+function crossCheck(value: CrossCheckable, ctx: z.RefinementCtx): void {
+  const position = value.controller.position;
+  const treads = value.staircase?.treads;
+  if (position && typeof position === 'object' && treads !== undefined && position.tread > treads) {
+    ctx.addIssue({ code: 'custom', path: ['controller', 'position', 'tread'], message: `must be a tread from 1 to ${treads}` });
+  }
+  const reel = value.reels?.reelLengthMm;
+  const pitch = value.treadStrip?.cutPitchMm ?? value.treadPixels?.cutPitchMm;
+  if (reel !== undefined && pitch !== undefined && reel < pitch) {
+    ctx.addIssue({ code: 'custom', path: ['reels', 'reelLengthMm'], message: `a reel must hold at least one ${pitch} mm cut pitch` });
+  }
+  const landings = (value.staircase?.flights?.length ?? 1) - 1;
+  value.sensors?.joinedLandings?.forEach((landing, i) => {
+    if (landing > landings) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['sensors', 'joinedLandings', i],
+        message: landings === 0 ? 'the stair has no landing between flights' : `must be a landing from 1 to ${landings}`,
+      });
+    }
+  });
+}
+
+export const treadStripsRequestSchema = z
+  .object({ layout: z.literal('tread-strips'), staircase: staircaseSchema, treadStrip: treadStripSchema, ...commonFields })
+  .superRefine(crossCheck)
+  .meta({ id: 'TreadStripsEstimateRequest', description: 'One CV strip per tread, each tread on its own controller output.' });
+
+export const railPixelsRequestSchema = z
+  .object({ layout: z.literal('rail-pixels'), staircase: staircaseSchema.optional(), railPixels: railPixelsSchema, ...commonFields })
+  .superRefine(crossCheck)
+  .meta({
+    id: 'RailPixelsEstimateRequest',
+    description: 'An addressable pixel run along a rail or corridor; `staircase` is optional (without it the run is a corridor with a sensor at each end).',
+  });
+
+export const treadsAndRailRequestSchema = z
+  .object({
+    layout: z.literal('treads-and-rail'),
+    staircase: staircaseSchema,
+    treadStrip: treadStripSchema,
+    railPixels: railPixelsSchema,
+    ...commonFields,
+  })
+  .superRefine(crossCheck)
+  .meta({ id: 'TreadsAndRailEstimateRequest', description: 'Tread strips and a rail pixel run that moves in step with them (two pixel groups per tread).' });
+
+export const treadPixelsRequestSchema = z
+  .object({ layout: z.literal('tread-pixels'), staircase: staircaseSchema, treadPixels: treadPixelsSchema, ...commonFields })
+  .superRefine(crossCheck)
+  .meta({ id: 'TreadPixelsEstimateRequest', description: 'An addressable segment on every tread, chained in series tread to tread.' });
+
+export const estimateRequestSchema = z
+  .discriminatedUnion('layout', [treadStripsRequestSchema, railPixelsRequestSchema, treadsAndRailRequestSchema, treadPixelsRequestSchema])
+  .meta({
+    id: 'EstimateRequest',
+    description:
+      'A whole stair or corridor to size. `layout` chooses what is fitted, and the block that layout needs is required: ' +
+      '`treadStrip` for tread-strips, `railPixels` for rail-pixels, both for treads-and-rail, `treadPixels` for tread-pixels.',
+    example: alderRowTownhouse,
+    examples: [alderRowTownhouse, alderRowCornerUnit, quaysideCorridor, harborLaneCheckout, alderRowWithRail, alderRowTreadPixels],
+  });
+
+// The layouts' examples are typed by these very schemas, so they join the metadata afterwards.
+const layoutExamples: [z.ZodType, unknown][] = [
+  [treadStripsRequestSchema, alderRowTownhouse],
+  [railPixelsRequestSchema, quaysideCorridor],
+  [treadsAndRailRequestSchema, alderRowWithRail],
+  [treadPixelsRequestSchema, alderRowTreadPixels],
+];
+for (const [schema, example] of layoutExamples) z.globalRegistry.add(schema, { ...z.globalRegistry.get(schema), example });
+
+export type EstimateInput = z.output<typeof estimateRequestSchema>;
+export type EstimateLayout = EstimateInput['layout'];
+export type TreadStripsInput = z.output<typeof treadStripsRequestSchema>;
+export type RailPixelsInput = z.output<typeof railPixelsRequestSchema>;
+export type TreadsAndRailInput = z.output<typeof treadsAndRailRequestSchema>;
+export type TreadPixelsInput = z.output<typeof treadPixelsRequestSchema>;
+export type StaircaseInput = z.output<typeof staircaseSchema>;
+export type TreadStripInput = z.output<typeof treadStripSchema>;
+export type RailPixelsBlock = z.output<typeof railPixelsSchema>;
+export type TreadPixelsBlock = z.output<typeof treadPixelsSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Response
+// ---------------------------------------------------------------------------------------------
+
+/** Quayside Studio's rail as the estimate reports it (see estimate-examples.ts for the request). */
+const quaysideRailRun = {
+  run: 'rail',
+  pixels: 1080,
+  lengthM: 18,
+  pixelsPerM: 60,
+  voltageV: 5,
+  protocol: 'one-wire-800k',
+  bitsPerPixel: 24,
+  dataOutputs: 2,
+  pixelsPerOutput: 540,
+  frameTimeUs: 16480,
+  maxRefreshHz: 60.68,
+  fullWhiteCurrentA: 32.4,
+  powerW: 162,
+  brightnessPercent: 50,
+  feedPoints: 8,
+  injectionPoints: 7,
+  maxFeedLengthM: 2.5,
+} as const;
+
+/** Stable check ids: other tools are built against them, so ids are added, never renamed. */
+export const CHECK_IDS = [
+  'output-count',
+  'output-current',
+  'tread-count-range',
+  'controller-input-current',
+  'driver-loading',
+  'class2-limit',
+  'cable-drop',
+  'cable-current',
+  'cable-run-length',
+  'cable-min-size',
+  'pixels-per-output',
+  'pixels-total',
+  'refresh-rate',
+  'sensor-type',
+  'sensor-current',
+  'selv-voltage',
+  'strip-fits-tread',
+  // Added beyond the contract's list:
+  'sensor-supply',
+  'rail-grouping',
+  'piece-fits-reel',
+] as const;
+
+export type CheckId = (typeof CHECK_IDS)[number];
+
+const sizeFields = {
+  crossSectionMm2: z.number().nullable().optional().meta({ description: 'Conductor size, mm² (metric tables); null when no size of the table passes.' }),
+  awg: z.number().nullable().optional().meta({ description: 'Conductor gauge (AWG tables); null when no size passes.' }),
+};
+
+export const estimateTreadSchema = z
+  .object({
+    index: z.int().meta({ description: 'Tread number, 1 = foot.' }),
+    stripLengthMm: z.number().meta({ description: 'Strip (or pixel segment) cut for this tread, mm; 0 when none fits.' }),
+    pixels: z.int().optional().meta({ description: 'Pixels on this tread (tread-pixels).' }),
+    powerW: z.number().meta({ description: 'Power of this tread, W (pixels at full white and the brightness cap).' }),
+    currentA: z.number().meta({ description: 'Current of this tread, A.' }),
+    controller: z.int().nullable().meta({ description: 'Controller number, from 1; null when no output can take it.' }),
+    output: z.int().nullable().meta({ description: 'Output of that controller: CV output (tread strips) or data output (tread pixels).' }),
+    cableKind: z
+      .enum(['tread-lead', 'chain-lead', 'chain-link', 'data-link'])
+      .meta({
+        description:
+          'tread-lead: controller → tread; chain-lead: controller → first tread of a pixel chain (data); chain-link: previous tread → this one, power and data; data-link: previous tread → this one where power is injected here (data only).',
+      }),
+    cableLengthM: z.number().meta({ description: 'One-way length of the cable into this tread, service allowance included, m.' }),
+    ...sizeFields,
+    dropPercent: z.number().meta({ description: 'Voltage drop to this tread’s strip, % (cumulative from the feed point along a pixel chain).' }),
+  })
+  .meta({ id: 'EstimateTread', description: 'One row of the wiring schedule.', example: alderRowTownhouseResponse.treads[2] });
+
+const cvOutputSchema = z
+  .object({
+    controller: z.int(),
+    output: z.int(),
+    treads: z.array(z.int()).meta({ description: 'Treads on this output.' }),
+    currentA: z.number(),
+    withinLimit: z.boolean().meta({ description: 'currentA ≤ maxCurrentPerOutputA.' }),
+  })
+  .meta({ id: 'EstimateCvOutput', description: 'One constant-voltage output.', example: alderRowTownhouseResponse.outputs.cv[0] });
+
+const dataOutputSchema = z
+  .object({
+    controller: z.int(),
+    output: z.int(),
+    run: z.enum(['rail', 'treads']),
+    pixels: z.int(),
+    firstTread: z.int().nullable(),
+    lastTread: z.int().nullable(),
+  })
+  .meta({
+    id: 'EstimateDataOutput',
+    description: 'One pixel data output.',
+    example: { controller: 1, output: 1, run: 'rail', pixels: 540, firstTread: null, lastTread: null },
+  });
+
+export const estimateOutputsSchema = z
+  .object({
+    controllers: z.int().meta({ description: 'Controllers needed.' }),
+    controllerTreads: z
+      .array(z.object({ controller: z.int(), firstTread: z.int(), lastTread: z.int(), atTread: z.int(), currentA: z.number() }))
+      .meta({ description: 'Block of treads each controller serves, where it sits, and the CV current it passes.' }),
+    cvOutputsPerController: z.int(),
+    maxCurrentPerOutputA: z.number(),
+    maxOutputCurrentA: z.number().meta({ description: 'Current of the busiest CV output, A.' }),
+    cv: z.array(cvOutputSchema),
+    dataOutputsPerController: z.int(),
+    data: z.array(dataOutputSchema),
+  })
+  .meta({ id: 'EstimateOutputs', description: 'Controllers and their outputs.', example: alderRowTownhouseResponse.outputs });
+
+export const estimateRailSupplySchema = z
+  .object({
+    voltageV: z.number(),
+    loads: z.array(z.enum(['tread strips', 'rail pixels', 'tread pixels'])),
+    loadW: z.number(),
+    currentA: z.number(),
+    requiredRatingW: z.number(),
+    maxLoadingPercent: z.number(),
+    drivers: z.array(driverGroupSchema.extend({ sku: z.string().optional() })),
+    driverCount: z.int(),
+    totalRatingW: z.number(),
+    loadingPercent: z.number().nullable(),
+    maxSupplyW: z.number().nullable().meta({ description: 'Cap on one supply (Class 2), W.' }),
+    ratingsSource: z.enum(['catalog', 'request', 'default']),
+    totalPrice: z.number().optional(),
+    inputPowerW: z.number().optional(),
+    mainsCurrentA: z.number().optional(),
+  })
+  .meta({ id: 'EstimateRailSupply', description: 'Drivers for one rail voltage (one rail per voltage).', example: alderRowTownhouseResponse.drivers[0] });
+
+export const estimateFeederRunSchema = z
+  .object({
+    voltageV: z.number(),
+    to: z.enum(['controller', 'pixel feed point']),
+    controller: z.int().nullable(),
+    count: z.int().meta({ description: 'Identical feeders of this kind.' }),
+    currentA: z.number().meta({ description: 'Current one feeder carries, A.' }),
+    lengthM: z.number(),
+    ...sizeFields,
+    dropV: z.number(),
+    dropPercent: z.number(),
+    currentRatingA: z.number().nullable(),
+    maxInputCurrentA: z.number().nullable().meta({ description: 'The controller’s maximum input current, when it feeds a controller.' }),
+  })
+  .meta({ id: 'EstimateFeederRun', description: 'A feeder from a driver.', example: alderRowTownhouseResponse.feeder.runs[0] });
+
+export const estimateFeederSchema = z
+  .object({
+    lengthM: z.number().meta({ description: 'Length used for every feeder, m.' }),
+    lengthDefaulted: z.boolean(),
+    runs: z.array(estimateFeederRunSchema),
+  })
+  .meta({
+    id: 'EstimateFeeder',
+    description: 'Feeders from the drivers to each controller (tread strips) and to each pixel feed point.',
+    example: alderRowTownhouseResponse.feeder,
+  });
+
+export const estimatePixelRunSchema = z
+  .object({
+    run: z.enum(['rail', 'treads']),
+    pixels: z.int(),
+    lengthM: z.number().meta({ description: 'Strip length of the run, m.' }),
+    pixelsPerM: z.number(),
+    voltageV: z.number(),
+    protocol: pixelProtocolSchema,
+    bitsPerPixel: z.int(),
+    dataOutputs: z.int().meta({ description: 'Data outputs (chains) the run uses.' }),
+    pixelsPerOutput: z.int().meta({ description: 'Pixels on the busiest output.' }),
+    frameTimeUs: z.number(),
+    maxRefreshHz: z.number(),
+    fullWhiteCurrentA: z.number(),
+    powerW: z.number(),
+    brightnessPercent: z.number(),
+    feedPoints: z.int().meta({ description: 'Points where power is fed (the first plus injection points).' }),
+    injectionPoints: z.int(),
+    maxFeedLengthM: z.number(),
+    chainCableLengthM: z.number().optional().meta({ description: 'Chaining cable between treads in total, m (tread pixels).' }),
+  })
+  .meta({ id: 'EstimatePixelRun', description: 'An addressable run: data timing, power and feed points.', example: quaysideRailRun });
+
+export const estimatePixelsSchema = z
+  .object({
+    rail: estimatePixelRunSchema.nullable(),
+    treads: estimatePixelRunSchema.nullable(),
+    railGrouping: z
+      .object({ groups: z.int(), pixelsPerGroup: z.int(), pixelsToFit: z.int(), sparePixels: z.int(), fits: z.boolean() })
+      .nullable()
+      .meta({ description: 'treads-and-rail: two rail groups per tread; the rail is fitted with pixelsToFit pixels.' }),
+  })
+  .meta({ id: 'EstimatePixels', description: 'Pixel runs; null where the layout has none.', example: { rail: quaysideRailRun, treads: null, railGrouping: null } });
+
+export const estimateReelsResultSchema = z
+  .object({
+    treads: z
+      .object({
+        sku: z.string().optional(),
+        reels: z.int(),
+        reelLengthMm: z.number(),
+        plan: z.array(reelCutSchema),
+        totalWasteMm: z.number(),
+        lowerBoundReels: z.int(),
+        provenOptimal: z.boolean(),
+        method: z.enum(['exact', 'first-fit-decreasing', 'identical-pieces']),
+        unplaceableTreads: z.array(z.int()).meta({ description: 'Treads whose piece is longer than a reel (needs a joint).' }),
+      })
+      .nullable(),
+    rail: z
+      .object({ sku: z.string().optional(), reels: z.int(), reelLengthMm: z.number(), lengthM: z.number(), joints: z.int() })
+      .nullable()
+      .meta({ description: 'A rail run is joined from whole reels.' }),
+  })
+  .meta({ id: 'EstimateReelsResult', description: 'Reels to buy and how the tread pieces are cut (no joint inside a piece).', example: alderRowTownhouseResponse.reels });
+
+export const estimateCableLineSchema = z
+  .object({
+    ...sizeFields,
+    cores: z.int(),
+    use: z.enum(['tread leads', 'feeders', 'chain leads', 'chain links', 'data links']),
+    runs: z.int(),
+    totalLengthM: z.number(),
+    orderLengthM: z.int().meta({ description: 'totalLengthM rounded up to whole metres.' }),
+  })
+  .meta({ id: 'EstimateCableLine', description: 'Cable of one size and use, summed over its runs.', example: alderRowTownhouseResponse.cables[0] });
+
+export const estimateSensorsResultSchema = z
+  .object({
+    motionSensors: z.int(),
+    placements: z.array(
+      z.object({
+        role: z.enum(['foot', 'head', 'landing', 'corridor-end', 'side-entrance']),
+        flight: z.int().nullable(),
+        tread: z.int().nullable(),
+      }),
+    ),
+    motion: z
+      .object({ outputType: z.enum(['pnp', 'npn']), supplyV: z.number(), currentMa: z.number(), source: z.enum(['request', 'catalog']), sku: z.string().optional() })
+      .nullable(),
+    controllerInput: z.object({ type: z.enum(['pnp', 'npn']), supplyV: z.number(), maxCurrentMa: z.number(), source: z.enum(['profile', 'typical']) }),
+    typeMatch: z.boolean().nullable(),
+    needsInterface: z.boolean(),
+    supplyMatch: z.boolean().nullable(),
+    currentOk: z.boolean().nullable(),
+    totalSensorCurrentMa: z.number().nullable(),
+    daylightSensors: z.int(),
+    daylightCutoffLux: z.number().nullable().meta({ description: 'null when no daylight cut-off is used.' }),
+    daylightCutoffDefaulted: z.boolean(),
+  })
+  .meta({ id: 'EstimateSensorsResult', description: 'Where the motion sensors go and whether they suit the controller input.', example: alderRowTownhouseResponse.sensors });
+
+export const bomLineSchema = z
+  .object({
+    sku: z.string().optional(),
+    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
+    description: z.string(),
+    quantity: z.int(),
+    unit: z.enum(['reel', 'pcs', 'm', 'pair']),
+    unitPrice: z.number().optional(),
+    lineTotal: z.number().optional(),
+    note: z.string().optional().meta({ description: 'Why a line has no price, or how it was matched.' }),
+  })
+  .meta({
+    id: 'BomLine',
+    description: 'One line of the bill of materials.',
+    example: { sku: 'HL-S24-10', category: 'strip', description: 'CV strip 24 V 10 W/m, 5 m reel', quantity: 3, unit: 'reel', unitPrice: 39, lineTotal: 117 },
+  });
+
+export const estimateCheckSchema = z
+  .object({
+    id: z.enum(CHECK_IDS),
+    status: z.enum(['pass', 'warn', 'fail']),
+    message: z.string(),
+    value: z.union([z.number(), z.string(), z.boolean(), z.null()]),
+    limit: z.union([z.number(), z.string(), z.null()]),
+    unit: z.string(),
+    reference: z.string().meta({ description: 'Published source, or “common practice, no published source”.' }),
+    suggestion: z.string().optional().meta({ description: 'What to change; present on every warn and fail.' }),
+  })
+  .meta({ id: 'EstimateCheck', description: 'One design check against a limit.', example: alderRowTownhouseResponse.checks[4] });
+
+export const cautionSchema = z
+  .object({ code: z.string(), message: z.string() })
+  .meta({ id: 'Caution', description: 'Safety and scope notes every estimate carries.', example: alderRowTownhouseResponse.cautions[0] });
+
+export const estimateSummarySchema = z
+  .object({
+    treads: z.int(),
+    litTreads: z.int(),
+    controllers: z.int(),
+    totalLoadW: z.number(),
+    driverCount: z.int(),
+    longestRunM: z.number(),
+    worstDropPercent: z.number(),
+    motionSensors: z.int(),
+    reels: z.int(),
+    checks: z.object({ pass: z.int(), warn: z.int(), fail: z.int() }),
+  })
+  .meta({ id: 'EstimateSummary', description: 'Headline numbers at a glance.', example: alderRowTownhouseResponse.summary });
+
+export const estimateResponseSchema = z
+  .object({
+    engineVersion: engineVersionSchema,
+    layout: z.enum(['tread-strips', 'rail-pixels', 'treads-and-rail', 'tread-pixels']),
+    summary: estimateSummarySchema,
+    treads: z.array(estimateTreadSchema).meta({ description: 'Wiring schedule, foot first; empty for a corridor.' }),
+    outputs: estimateOutputsSchema,
+    drivers: z.array(estimateRailSupplySchema),
+    feeder: estimateFeederSchema,
+    pixels: estimatePixelsSchema,
+    reels: estimateReelsResultSchema,
+    cables: z.array(estimateCableLineSchema),
+    sensors: estimateSensorsResultSchema,
+    bom: z.array(bomLineSchema),
+    bomTotal: z.number().optional().meta({ description: 'Sum of the priced lines, computed in integer minor units (with a catalog).' }),
+    bomTotalComplete: z.boolean().optional().meta({ description: 'false when some lines have no catalog price.' }),
+    currency: z.string().optional(),
+    checks: z.array(estimateCheckSchema),
+    cautions: z.array(cautionSchema),
+    trace: z.array(traceEntrySchema),
+  })
+  .meta({
+    id: 'EstimateResponse',
+    description: 'The whole estimate: wiring schedule, outputs, drivers, feeders, pixels, reels, cable, sensors, bill of materials, checks, cautions and trace.',
+    example: alderRowTownhouseResponse,
+  });
+
+export type EstimateResult = z.output<typeof estimateResponseSchema>;
+export type EstimateTread = z.output<typeof estimateTreadSchema>;
+export type EstimateCheck = z.output<typeof estimateCheckSchema>;
+export type EstimateOutputs = z.output<typeof estimateOutputsSchema>;
+export type EstimateRailSupply = z.output<typeof estimateRailSupplySchema>;
+export type EstimateFeederRun = z.output<typeof estimateFeederRunSchema>;
+export type EstimatePixelRun = z.output<typeof estimatePixelRunSchema>;
+export type EstimateCableLine = z.output<typeof estimateCableLineSchema>;
+export type EstimateSensorsResult = z.output<typeof estimateSensorsResultSchema>;
+export type BomLine = z.output<typeof bomLineSchema>;
+export type Caution = z.output<typeof cautionSchema>;

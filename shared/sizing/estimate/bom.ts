@@ -1,0 +1,245 @@
+import type { BomLine, EstimateCableLine } from '../../schemas/estimate.js';
+import { describeSize, type ConductorSize } from '../conductors.js';
+import { cutReels } from '../reels.js';
+import { round, type TraceEntry } from '../trace.js';
+import { findCable, type CatalogIndex } from './catalog.js';
+import { fromMinor, toMinor } from './money.js';
+import type { SensorPart } from './sensor-layout.js';
+import type { Settings } from './settings.js';
+import type { Supplies } from './supply.js';
+
+/** A catalog item a line was matched to, and how well. */
+interface Match {
+  sku: string;
+  unitPrice?: number | undefined;
+  description?: string | undefined;
+  /** Why the match is not priced although found (e.g. a different reel length). */
+  priceWithheld?: string;
+}
+
+interface LineDraft {
+  category: BomLine['category'];
+  description: string;
+  quantity: number;
+  unit: BomLine['unit'];
+  /** SKU named by the request when the catalog does not hold it (or there is no catalog). */
+  sku?: string | undefined;
+  match?: Match | undefined;
+  note?: string | undefined;
+}
+
+export interface StripLine {
+  category: 'strip' | 'pixel-strip';
+  description: string;
+  reels: number;
+  reelLengthMm: number;
+  sku: string | undefined;
+  match: (Match & { reelLengthMm?: number | undefined }) | undefined;
+  note?: string | undefined;
+}
+
+export interface BomInput {
+  settings: Settings;
+  catalog: CatalogIndex | null;
+  strips: StripLine[];
+  /** Strip pieces that get an aluminium profile (one per lit tread), mm. */
+  profilePiecesMm: number[];
+  supplies: Supplies;
+  controllers: number;
+  sensors: SensorPart;
+  cables: EstimateCableLine[];
+}
+
+export interface Bom {
+  lines: BomLine[];
+  total?: number;
+  complete?: boolean;
+  currency?: string;
+}
+
+function cableSize(line: EstimateCableLine): ConductorSize | null {
+  if (line.awg !== undefined && line.awg !== null) return { awg: line.awg };
+  if (line.crossSectionMm2 !== undefined && line.crossSectionMm2 !== null) return { crossSectionMm2: line.crossSectionMm2 };
+  return null;
+}
+
+/** Metres to order per size and cores, over every use (a handful of lines: a linear search). */
+function cableDrafts(cables: EstimateCableLine[], catalog: CatalogIndex | null): LineDraft[] {
+  const sizes: (ConductorSize | null)[] = [];
+  const cores: number[] = [];
+  const metres: number[] = [];
+  for (const c of cables) {
+    const size = cableSize(c);
+    let i = 0;
+    while (i < sizes.length && !(cores[i] === c.cores && sameSize(sizes[i] as ConductorSize | null, size))) i++;
+    if (i === sizes.length) {
+      sizes.push(size);
+      cores.push(c.cores);
+      metres.push(0);
+    }
+    metres[i] = (metres[i] as number) + c.totalLengthM;
+  }
+  const drafts: LineDraft[] = [];
+  for (let i = 0; i < sizes.length; i++) {
+    const size = sizes[i] as ConductorSize | null;
+    const quantity = Math.ceil((metres[i] as number) - 1e-9);
+    if (quantity === 0) continue;
+    if (!size) {
+      drafts.push({
+        category: 'cable',
+        description: `${cores[i]}-core copper cable, size to choose: no size of the table passes (see checks)`,
+        quantity,
+        unit: 'm',
+      });
+      continue;
+    }
+    const item = catalog ? findCable(catalog, size, cores[i] as number) : undefined;
+    drafts.push({
+      category: 'cable',
+      description: `${cores[i]}-core copper cable ${describeSize(size)}`,
+      quantity,
+      unit: 'm',
+      match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+    });
+  }
+  return drafts;
+}
+
+function sameSize(a: ConductorSize | null, b: ConductorSize | null): boolean {
+  if (a === null || b === null) return a === b;
+  return 'awg' in a ? 'awg' in b && a.awg === b.awg : 'crossSectionMm2' in b && a.crossSectionMm2 === b.crossSectionMm2;
+}
+
+/** Profile bars cut to the tread pieces; a piece longer than a bar takes whole bars joined. */
+function profileBars(piecesMm: number[], barMm: number): number {
+  if (piecesMm.length === 0) return 0;
+  const plan = cutReels(piecesMm, barMm);
+  let bars = plan.reels;
+  for (const i of plan.unplaceableIndexes) bars += Math.ceil((piecesMm[i] as number) / barMm);
+  return bars;
+}
+
+function drafts(input: BomInput): LineDraft[] {
+  const { catalog, sensors } = input;
+  const out: LineDraft[] = [];
+  for (const s of input.strips) {
+    const match = s.match && { ...s.match };
+    if (match && match.reelLengthMm !== undefined && Math.abs(match.reelLengthMm - s.reelLengthMm) > 1e-9) {
+      match.priceWithheld = `catalog reel of ${match.sku} is ${match.reelLengthMm} mm, planned with ${s.reelLengthMm} mm reels`;
+    }
+    out.push({ category: s.category, description: s.description, quantity: s.reels, unit: 'reel', sku: s.sku, match, note: s.note });
+  }
+
+  const profile = catalog?.aluminiumProfiles[0];
+  if (profile && input.profilePiecesMm.length > 0) {
+    out.push({
+      category: 'aluminium-profile',
+      description: `Aluminium profile with diffuser, ${profile.lengthMm} mm bars cut to the tread pieces`,
+      quantity: profileBars(input.profilePiecesMm, profile.lengthMm),
+      unit: 'pcs',
+      match: { sku: profile.sku, unitPrice: profile.unitPrice, description: profile.description },
+    });
+  }
+  const caps = catalog?.endCaps[0];
+  if (caps && input.profilePiecesMm.length > 0) {
+    out.push({
+      category: 'end-caps',
+      description: 'End caps, one pair per tread piece',
+      quantity: input.profilePiecesMm.length,
+      unit: 'pair',
+      match: { sku: caps.sku, unitPrice: caps.unitPrice, description: caps.description },
+    });
+  }
+
+  for (const rail of input.supplies.rails) {
+    for (const g of rail.response.drivers) {
+      const sku = rail.skuByRating.get(g.ratingW);
+      const item = sku && catalog ? catalog.drivers.find((d) => d.sku === sku) : undefined;
+      out.push({
+        category: 'driver',
+        description: `LED driver ${rail.voltageV} V ${g.ratingW} W${input.settings.drivers.class2 ? ' (Class 2)' : ''}`,
+        quantity: g.count,
+        unit: 'pcs',
+        match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+      });
+    }
+  }
+
+  const controllerItem = input.settings.controllerSku && catalog ? catalog.controllers.find((c) => c.sku === input.settings.controllerSku) : undefined;
+  out.push({
+    category: 'controller',
+    description: controllerItem ? 'Stair controller' : 'Stair controller (profile sent inline)',
+    quantity: input.controllers,
+    unit: 'pcs',
+    match: controllerItem && { sku: controllerItem.sku, unitPrice: controllerItem.unitPrice, description: controllerItem.description },
+    note: catalog && !controllerItem ? 'profile sent inline, not a catalog item: not priced' : undefined,
+  });
+
+  if (sensors.plan.motionSensors > 0) {
+    const m = sensors.motion;
+    const item = m?.sku && catalog ? catalog.motionSensors.find((s) => s.sku === m.sku) : undefined;
+    const i = sensors.controllerInput;
+    out.push({
+      category: 'motion-sensor',
+      description: m
+        ? `PIR motion sensor, ${m.outputType.toUpperCase()} output, ${m.supplyV} V, ${m.currentMa} mA`
+        : `PIR motion sensor, ${i.type.toUpperCase()} output, ${i.supplyV} V, at most ${i.maxCurrentMa} mA`,
+      quantity: sensors.plan.motionSensors,
+      unit: 'pcs',
+      match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+    });
+  }
+  if (sensors.daylightSensors > 0) {
+    const item = sensors.daylightSku && catalog ? catalog.daylightSensors.find((s) => s.sku === sensors.daylightSku) : undefined;
+    out.push({
+      category: 'daylight-sensor',
+      description: `Ambient-light sensor for the ${sensors.response.daylightCutoffLux} lx cut-off`,
+      quantity: sensors.daylightSensors,
+      unit: 'pcs',
+      match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+    });
+  }
+  out.push(...cableDrafts(input.cables, catalog));
+  return out;
+}
+
+/** Lines with quantities always; with a catalog, prices in integer minor units and their total. */
+export function buildBom(input: BomInput, trace: TraceEntry[]): Bom {
+  const { catalog } = input;
+  const lines: BomLine[] = [];
+  let totalMinor = 0;
+  let priced = 0;
+  for (const draft of drafts(input)) {
+    const line: BomLine = { category: draft.category, description: draft.match?.description ?? draft.description, quantity: draft.quantity, unit: draft.unit };
+    const sku = draft.match?.sku ?? draft.sku;
+    if (sku !== undefined) line.sku = sku;
+    let note = draft.note;
+    if (catalog) {
+      const m = draft.match;
+      if (!m) note ??= draft.sku ? `SKU ${draft.sku} is not in the catalog: not priced` : 'no catalog match: not priced';
+      else if (m.priceWithheld) note = `${m.priceWithheld}: not priced`;
+      else if (m.unitPrice === undefined) note = 'catalog gives no price';
+      else {
+        const unitMinor = toMinor(m.unitPrice, catalog.currency);
+        const lineMinor = unitMinor * draft.quantity;
+        line.unitPrice = fromMinor(unitMinor, catalog.currency);
+        line.lineTotal = fromMinor(lineMinor, catalog.currency);
+        totalMinor += lineMinor;
+        priced++;
+      }
+    }
+    if (note) line.note = note;
+    lines.push(line);
+  }
+  if (!catalog) return { lines };
+  const total = fromMinor(totalMinor, catalog.currency);
+  trace.push({
+    quantity: 'bomTotal',
+    value: total,
+    unit: catalog.currency.code,
+    formula: 'Σ quantity × unitPrice over priced lines, in integer minor units',
+    inputs: { lines: lines.length, pricedLines: priced, minorUnitDigits: catalog.currency.digits, totalMinorUnits: totalMinor },
+    reference: 'catalog prices as sent',
+  });
+  return { lines, total: round(total, catalog.currency.digits), complete: priced === lines.length, currency: catalog.currency.code };
+}

@@ -1,0 +1,209 @@
+import type { EstimateCheck } from '../../schemas/estimate.js';
+import { DEFAULT_MIN_CROSS_SECTION_MM2 } from '../cable.js';
+import { conductorTable, describeSize, sizeOfRow } from '../conductors.js';
+import { PRACTICE_MAX_RUN_M } from '../geometry.js';
+import { DROP_LIMIT_REFERENCE, LOOP_REFERENCE } from '../voltage-drop.js';
+import { describeUse, type CableUse } from './cable-schedule.js';
+import { flagged, fmt, passed, treadsText, type Design } from './checks.js';
+import { nextSizeLabel, sizeLabel } from './run-cable.js';
+import { runLengthAdvice } from './stair.js';
+
+const RUN_LENGTH_REFERENCE = 'common practice, no published source: controller-to-tread runs of 10 m or less';
+const MIN_SIZE_REFERENCE = 'common practice, no published source: copper no thinner than 0.5 mm²';
+
+function worstBy(uses: readonly CableUse[], score: (u: CableUse) => number): CableUse | null {
+  let worst: CableUse | null = null;
+  let worstScore = -Infinity;
+  for (const u of uses) {
+    const s = score(u);
+    if (s > worstScore) {
+      worst = u;
+      worstScore = s;
+    }
+  }
+  return worst;
+}
+
+/** Where moving or adding controllers brings the stair's runs (to at most limitM), in words. */
+function controllerAdvice(d: Design, limitM: number): string | null {
+  if (!d.stair || d.controllerBlocks.length === 0) return null;
+  const advice = runLengthAdvice(d.stair, d.controllerBlocks, d.settings.cable.serviceAllowanceGiven, limitM);
+  const current = worstBy(
+    d.cableUses.filter((u) => u.use === 'tread leads' || u.use === 'chain leads'),
+    (u) => u.run.lengthM,
+  );
+  const currentM = current ? current.run.lengthM : 0;
+  const parts: string[] = [];
+  if (advice.bestLongestRunM < currentM - 1e-6) {
+    parts.push(
+      `move the controller${advice.bestTreads.length > 1 ? 's' : ''} to tread${advice.bestTreads.length > 1 ? 's' : ''} ${advice.bestTreads.join(', ')}: the longest run falls to ${fmt(advice.bestLongestRunM)} m`,
+    );
+  }
+  if (advice.controllersForLimit !== null && advice.controllersForLimit > d.controllerBlocks.length && advice.blocksForLimit) {
+    parts.push(
+      `fit ${advice.controllersForLimit} controllers, one mid-way along each of treads ${treadsText(advice.blocksForLimit)}: the longest run becomes ${fmt(advice.longestWithThoseM as number)} m`,
+    );
+  }
+  return parts.length > 0 ? capitalise(parts.join('; or ')) + '.' : null;
+}
+
+function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+export function cableDropCheck(d: Design): EstimateCheck {
+  const { cable } = d.settings;
+  const limit = cable.maxDropPercent;
+  const powered = d.cableUses.filter((u) => u.powered);
+  const worst = worstBy(powered, (u) => u.run.dropPercent);
+  const reference = `${LOOP_REFERENCE}; limit: ${DROP_LIMIT_REFERENCE}`;
+  if (!worst) return passed('cable-drop', 'No cable carries power.', 0, limit, '%', reference);
+  const value = Math.round(worst.run.dropPercent * 1000) / 1000;
+  const failing = powered.filter((u) => u.run.failure === 'drop');
+  if (failing.length === 0) {
+    const feeder = worstBy(
+      powered.filter((u) => u.use === 'feeders'),
+      (u) => u.run.dropPercent,
+    );
+    const lead = worstBy(
+      powered.filter((u) => u.use !== 'feeders'),
+      (u) => u.run.dropPercent,
+    );
+    const total =
+      feeder && lead && feeder.feederTo === 'controller' && lead.use === 'tread leads'
+        ? ` Feeder and lead in series: ${fmt(feeder.run.dropPercent + lead.run.dropPercent)} % at the farthest strip.`
+        : '';
+    return passed(
+      'cable-drop',
+      `Worst drop ${fmt(worst.run.dropPercent, 3)} % on ${describeUse(worst)} (${sizeLabel(worst.run)}), within ${limit} %.${total}`,
+      value,
+      limit,
+      '%',
+      reference,
+    );
+  }
+  const first = worstBy(failing, (u) => u.run.dropPercent) as CableUse;
+  let suggestion: string;
+  if (first.use === 'feeders') {
+    // The largest size's drop grows with length: the length at which it would just pass.
+    const maxLengthM = (first.run.lengthM * limit) / first.run.dropPercent;
+    suggestion = `Shorten the feeder to ${fmt(Math.floor(maxLengthM * 10) / 10, 1)} m or less (mount the driver beside the controller), or split the load over more feeders, or use a higher-voltage supply.`;
+  } else {
+    // The longest run whose drop would pass with the table's largest size, at this current.
+    const passingLengthM = (first.run.lengthM * limit) / first.run.dropPercent;
+    suggestion =
+      controllerAdvice(d, passingLengthM) ??
+      `Feed the far treads from a second controller nearer to them, or use a higher-voltage strip (the same power at twice the voltage drops a quarter as much).`;
+  }
+  return flagged(
+    'cable-drop',
+    'fail',
+    `No size of ${cable.conductorTable} keeps ${describeUse(first)} (${fmt(first.run.currentA, 3)} A over ${fmt(first.run.lengthM)} m) within ${limit} %: even ${describeLargest(d)} drops ${fmt(first.run.dropPercent)} %.`,
+    value,
+    limit,
+    '%',
+    reference,
+    suggestion,
+  );
+}
+
+function describeLargest(d: Design): string {
+  const table = conductorTable(d.settings.cable.conductorTable);
+  return describeSize(sizeOfRow(table, table.rows[table.rows.length - 1]!));
+}
+
+export function cableCurrentCheck(d: Design): EstimateCheck {
+  const powered = d.cableUses.filter((u) => u.powered && u.run.currentA > 0);
+  const worst = worstBy(powered, (u) => u.run.currentA / u.run.currentRatingA);
+  const table = conductorTable(d.settings.cable.conductorTable);
+  if (!worst) return passed('cable-current', 'No cable carries power.', 0, null, 'A', table.rows[0]!.currentRatingSource);
+  const ratingSource = table.rows.find((r) => r.currentRatingA === worst.run.currentRatingA)?.currentRatingSource ?? table.reference;
+  const value = Math.round(worst.run.currentA * 1e4) / 1e4;
+  if (worst.run.failure !== 'current') {
+    return passed(
+      'cable-current',
+      `Every cable carries its current; the most loaded is ${describeUse(worst)}: ${fmt(worst.run.currentA, 3)} A on ${sizeLabel(worst.run)} rated ${worst.run.currentRatingA} A.`,
+      value,
+      worst.run.currentRatingA,
+      'A',
+      ratingSource,
+    );
+  }
+  const split = Math.ceil(worst.run.currentA / worst.run.currentRatingA);
+  return flagged(
+    'cable-current',
+    'fail',
+    `${capitalise(describeUse(worst))} carries ${fmt(worst.run.currentA, 3)} A, more than even ${describeLargest(d)} is rated for (${worst.run.currentRatingA} A).`,
+    value,
+    worst.run.currentRatingA,
+    'A',
+    ratingSource,
+    worst.use === 'feeders'
+      ? `Split the load over ${split} feeders of at most ${worst.run.currentRatingA} A each (e.g. one per block of treads or per pixel feed point), or use a higher-voltage supply.`
+      : `Use a lower-power or higher-voltage strip so one run carries at most ${worst.run.currentRatingA} A.`,
+  );
+}
+
+export function cableRunLengthCheck(d: Design): EstimateCheck {
+  const runs = d.cableUses.filter((u) => u.use === 'tread leads' || u.use === 'chain leads' || u.use === 'feeders');
+  const worst = worstBy(runs, (u) => u.run.lengthM);
+  if (!worst) return passed('cable-run-length', 'No cable runs.', 0, PRACTICE_MAX_RUN_M, 'm', RUN_LENGTH_REFERENCE);
+  const value = Math.round(worst.run.lengthM * 1000) / 1000;
+  if (worst.run.lengthM <= PRACTICE_MAX_RUN_M) {
+    return passed(
+      'cable-run-length',
+      `Longest run ${fmt(worst.run.lengthM, 3)} m (${describeUse(worst)}), within ${PRACTICE_MAX_RUN_M} m.`,
+      value,
+      PRACTICE_MAX_RUN_M,
+      'm',
+      RUN_LENGTH_REFERENCE,
+    );
+  }
+  const suggestion =
+    worst.use === 'feeders'
+      ? `Mount the driver within ${PRACTICE_MAX_RUN_M} m of ${worst.feederTo === 'controller' ? 'the controller' : 'each feed point'} (set cable.feederLengthM accordingly).`
+      : (controllerAdvice(d, PRACTICE_MAX_RUN_M) ?? `Feed the far treads from a second controller nearer to them.`);
+  return flagged(
+    'cable-run-length',
+    'warn',
+    `${capitalise(describeUse(worst))} is ${fmt(worst.run.lengthM, 2)} m, over the ${PRACTICE_MAX_RUN_M} m practice limit.`,
+    value,
+    PRACTICE_MAX_RUN_M,
+    'm',
+    RUN_LENGTH_REFERENCE,
+    suggestion,
+  );
+}
+
+export function cableMinSizeCheck(d: Design): EstimateCheck {
+  const sized = d.cableUses.filter((u) => u.run.size !== null);
+  let thinnest: CableUse | null = null;
+  for (const u of sized) if (!thinnest || u.run.areaMm2 < thinnest.run.areaMm2) thinnest = u;
+  const limit = DEFAULT_MIN_CROSS_SECTION_MM2;
+  if (!thinnest) return passed('cable-min-size', 'No cable size was chosen.', null, limit, 'mm²', MIN_SIZE_REFERENCE);
+  const area = thinnest.run.areaMm2;
+  const value = Math.round(area * 1000) / 1000;
+  if (area >= limit * (1 - 1e-9)) {
+    return passed(
+      'cable-min-size',
+      `The thinnest cable chosen is ${sizeLabel(thinnest.run)}${d.settings.cable.system === 'awg' ? ` (${fmt(area, 3)} mm²)` : ''}, not below ${limit} mm².`,
+      value,
+      limit,
+      'mm²',
+      MIN_SIZE_REFERENCE,
+    );
+  }
+  const table = conductorTable(d.settings.cable.conductorTable);
+  const firstOk = table.rows.find((r) => r.areaMm2 >= limit * (1 - 1e-9));
+  const next = firstOk ? describeSize(sizeOfRow(table, firstOk)) : nextSizeLabel(d.settings.cable, area);
+  return flagged(
+    'cable-min-size',
+    'warn',
+    `${capitalise(describeUse(thinnest))} uses ${sizeLabel(thinnest.run)} (${fmt(area, 3)} mm²), thinner than the ${limit} mm² the trade uses for these runs.`,
+    value,
+    limit,
+    'mm²',
+    MIN_SIZE_REFERENCE,
+    `Use ${next ?? 'a larger size'} or larger (set cable.minCrossSectionMm2 to ${limit}).`,
+  );
+}

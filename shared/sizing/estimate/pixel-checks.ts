@@ -1,0 +1,207 @@
+import type { EstimateCheck } from '../../schemas/estimate.js';
+import type { PixelsResult } from '../../schemas/pixels.js';
+import { pixelData, SMOOTH_REFRESH_HZ } from '../pixels.js';
+import { flagged, fmt, passed, type Design } from './checks.js';
+
+const PROFILE = 'controller profile';
+const REFRESH_REFERENCE =
+  'frame time from the WS2812B / SK6812RGBW / APA102C datasheets; 30 Hz for smooth sweeps (common practice, no published source)';
+const GROUPING_REFERENCE = 'two rail groups per tread (common practice, no published source)';
+
+/** The pixel run of a layout, seen the same way whether it is a rail or chained treads. */
+interface PixelRunView {
+  name: 'rail' | 'tread';
+  pixels: number;
+  busiestOutputPixels: number;
+  outputsNeeded: number;
+  controllers: number;
+  data: PixelsResult;
+  protocol: 'one-wire-800k' | 'one-wire-400k' | 'clocked';
+  bitsPerPixel: 24 | 32 | undefined;
+  /** tread-pixels: one tread is already more than an output drives. */
+  treadTooLarge: boolean;
+  pixelsPerTread: number | null;
+  treadPieceMm: number | null;
+}
+
+function pixelRun(d: Design): PixelRunView | null {
+  if (d.rail) {
+    const r = d.rail;
+    return {
+      name: 'rail',
+      pixels: r.pixels,
+      busiestOutputPixels: r.data.pixelsPerOutput,
+      outputsNeeded: r.dataOutputsNeeded,
+      controllers: r.controllersNeeded,
+      data: r.data,
+      protocol: r.rail.protocol,
+      bitsPerPixel: r.rail.bitsPerPixel,
+      treadTooLarge: false,
+      pixelsPerTread: null,
+      treadPieceMm: null,
+    };
+  }
+  if (d.treadPixels) {
+    const t = d.treadPixels;
+    return {
+      name: 'tread',
+      pixels: t.totalPixels,
+      busiestOutputPixels: t.busiestChainPixels,
+      outputsNeeded: t.chains.length,
+      controllers: t.controllers,
+      data: t.data,
+      protocol: t.block.protocol,
+      bitsPerPixel: t.block.bitsPerPixel,
+      treadTooLarge: t.treadsPerChainLimit === 0,
+      pixelsPerTread: t.pixelsPerTread,
+      treadPieceMm: t.piece.lengthMm,
+    };
+  }
+  return null;
+}
+
+export function pixelsPerOutputCheck(d: Design): EstimateCheck | null {
+  const run = pixelRun(d);
+  if (!run) return null;
+  const max = d.settings.profile.maxPixelsPerOutput;
+  if (max === undefined) {
+    return flagged(
+      'pixels-per-output',
+      'warn',
+      `The profile gives no pixel limit per data output; the busiest output drives ${run.busiestOutputPixels} pixels.`,
+      run.busiestOutputPixels,
+      null,
+      'pixels',
+      PROFILE,
+      `Add maxPixelsPerOutput from the controller's datasheet and confirm one output drives ${run.busiestOutputPixels} pixels.`,
+    );
+  }
+  if (run.treadTooLarge) {
+    const perM = run.treadPieceMm ? Math.floor(max / (run.treadPieceMm / 1000)) : 0;
+    return flagged(
+      'pixels-per-output',
+      'fail',
+      `One tread's ${run.pixelsPerTread} pixels are more than the ${max} a data output drives.`,
+      run.pixelsPerTread,
+      max,
+      'pixels',
+      PROFILE,
+      `Use a pixel strip with at most ${perM} pixels/m, or a controller that drives at least ${run.pixelsPerTread} pixels per output.`,
+    );
+  }
+  return passed(
+    'pixels-per-output',
+    `The busiest data output drives ${run.busiestOutputPixels} of ${max} pixels (${run.outputsNeeded} output${run.outputsNeeded === 1 ? '' : 's'}).`,
+    run.busiestOutputPixels,
+    max,
+    'pixels',
+    PROFILE,
+  );
+}
+
+export function pixelsTotalCheck(d: Design): EstimateCheck | null {
+  const run = pixelRun(d);
+  if (!run) return null;
+  const { profile } = d.settings;
+  const outputs = profile.dataOutputs ?? 0;
+  const max = profile.maxPixelsPerOutput;
+  if (outputs === 0) {
+    return flagged(
+      'pixels-total',
+      'fail',
+      `The controller has no data outputs for the ${run.pixels}-pixel ${run.name} run.`,
+      run.pixels,
+      0,
+      'pixels',
+      PROFILE,
+      `Choose a controller with at least ${run.outputsNeeded} data output${run.outputsNeeded === 1 ? '' : 's'}${max ? ` of ${max} pixels` : ''}.`,
+    );
+  }
+  const capacity = max === undefined ? null : outputs * max;
+  if (run.outputsNeeded <= outputs) {
+    return passed(
+      'pixels-total',
+      capacity === null
+        ? `${run.pixels} pixels on ${run.outputsNeeded} of ${outputs} data outputs (the profile gives no pixel limit).`
+        : `${run.pixels} pixels within one controller's ${outputs} × ${max} = ${capacity}.`,
+      run.pixels,
+      capacity,
+      'pixels',
+      PROFILE,
+    );
+  }
+  return flagged(
+    'pixels-total',
+    'warn',
+    `${run.pixels} pixels need ${run.outputsNeeded} data outputs; one controller has ${outputs}${capacity === null ? '' : ` (${capacity} pixels)`}, so ${run.controllers} controllers are planned.`,
+    run.pixels,
+    capacity,
+    'pixels',
+    PROFILE,
+    `Fit ${run.controllers} controllers as planned (their animations must start together), or choose a controller with at least ${run.outputsNeeded} data outputs${max ? ` of ${max} pixels` : ''}.`,
+  );
+}
+
+export function refreshRateCheck(d: Design): EstimateCheck | null {
+  const run = pixelRun(d);
+  if (!run) return null;
+  const hz = run.data.maxRefreshHz;
+  if (hz >= SMOOTH_REFRESH_HZ) {
+    return passed(
+      'refresh-rate',
+      `A frame of ${run.busiestOutputPixels} pixels takes ${fmt(run.data.frameTimeUs / 1000, 3)} ms: up to ${fmt(hz, 1)} Hz.`,
+      hz,
+      SMOOTH_REFRESH_HZ,
+      'Hz',
+      REFRESH_REFERENCE,
+    );
+  }
+  return flagged(
+    'refresh-rate',
+    'warn',
+    `A frame of ${run.busiestOutputPixels} pixels takes ${fmt(run.data.frameTimeUs / 1000, 2)} ms: ${fmt(hz, 1)} Hz, below the ${SMOOTH_REFRESH_HZ} Hz that keeps sweeps smooth.`,
+    hz,
+    SMOOTH_REFRESH_HZ,
+    'Hz',
+    REFRESH_REFERENCE,
+    refreshSuggestion(run),
+  );
+}
+
+/** The fewest data outputs that reach a smooth refresh, computed with the pixel module itself. */
+function refreshSuggestion(run: PixelRunView): string {
+  for (let outputs = run.outputsNeeded + 1; outputs <= 64; outputs++) {
+    const perOutput = Math.ceil(run.pixels / outputs);
+    const data = pixelData({ pixels: perOutput, protocol: run.protocol, bitsPerPixel: run.bitsPerPixel });
+    if (data.maxRefreshHz >= SMOOTH_REFRESH_HZ) {
+      return `Spread the run over ${outputs} data outputs (about ${perOutput} pixels each): up to ${fmt(data.maxRefreshHz, 1)} Hz.`;
+    }
+  }
+  return 'Use a clocked (data + clock) pixel strip, which sends far faster, or fewer pixels per metre.';
+}
+
+export function railGroupingCheck(d: Design): EstimateCheck | null {
+  const grouping = d.rail?.grouping;
+  if (!d.rail || !grouping) return null;
+  if (grouping.fits) {
+    return passed(
+      'rail-grouping',
+      `${grouping.groups} rail groups (two per tread) of ${grouping.pixelsPerGroup} pixels: drive ${grouping.pixelsToFit} of the rail's ${d.rail.pixelsOnRail} pixels${grouping.sparePixels > 0 ? `, leaving ${grouping.sparePixels} dark at the end` : ''}.`,
+      grouping.pixelsPerGroup,
+      1,
+      'pixels per group',
+      GROUPING_REFERENCE,
+    );
+  }
+  const perM = Math.ceil(grouping.groups / d.rail.rail.lengthM);
+  return flagged(
+    'rail-grouping',
+    'fail',
+    `The rail holds ${d.rail.pixelsOnRail} pixels, fewer than the ${grouping.groups} groups (two per tread) that keep it in step with the treads.`,
+    0,
+    1,
+    'pixels per group',
+    GROUPING_REFERENCE,
+    `Use a rail strip with at least ${perM} pixels/m over the ${d.rail.rail.lengthM} m rail.`,
+  );
+}

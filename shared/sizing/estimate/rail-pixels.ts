@@ -1,0 +1,120 @@
+import type { PixelsResult } from '../../schemas/pixels.js';
+import type { ControllerProfile } from '../../schemas/controller.js';
+import type { RailPixelsBlock } from '../../schemas/estimate.js';
+import { blockSizes } from '../outputs.js';
+import { injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
+import { pixelCurrentA, pixelPiece } from '../strip.js';
+import { round, type TraceEntry } from '../trace.js';
+
+export interface DataOutputUse {
+  controller: number;
+  output: number;
+  pixels: number;
+  firstTread: number | null;
+  lastTread: number | null;
+}
+
+export interface RailPart {
+  rail: RailPixelsBlock;
+  /** Whole pixels the rail length holds. */
+  pixelsOnRail: number;
+  /** Pixels driven: with treads, a whole number per group (railGrouping), else every pixel. */
+  pixels: number;
+  grouping: RailGrouping | null;
+  data: PixelsResult;
+  /** Data outputs the run needs for the per-output limit, before any is found missing. */
+  dataOutputsNeeded: number;
+  /** Controllers whose data outputs the run needs (1 when the profile has none: the check fails). */
+  controllersNeeded: number;
+  dataOutputs: DataOutputUse[];
+  currentA: number;
+  powerW: number;
+  injection: InjectionPlan;
+  feedPoints: number;
+}
+
+const TIMING_QUANTITIES = new Set(['frameTimeUs', 'maxRefreshHz', 'outputsNeeded']);
+
+/** Keeps the pixel module's timing entries, named for the run they describe. */
+export function timingTrace(prefix: string, data: PixelsResult, into: TraceEntry[]): void {
+  for (const entry of data.trace) {
+    if (TIMING_QUANTITIES.has(entry.quantity)) into.push({ ...entry, quantity: `${prefix}.${entry.quantity}` });
+  }
+}
+
+/**
+ * rail-pixels (and the rail of treads-and-rail): pixels the rail holds, data time and outputs,
+ * full-white power and the feed points along it. Pixel power is fed from the drivers at the
+ * feed points, not through the controller, which sends only data.
+ */
+export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile, treadsInStep: number | null, trace: TraceEntry[]): RailPart {
+  const pixelsOnRail = pixelPiece(rail.lengthM * 1000, rail.pixelsPerM).pixels;
+  const grouping = treadsInStep === null ? null : railGrouping(treadsInStep, pixelsOnRail);
+  const pixels = grouping && grouping.fits ? grouping.pixelsToFit : pixelsOnRail;
+
+  const data = pixelData({
+    pixels,
+    protocol: rail.protocol,
+    bitsPerPixel: rail.bitsPerPixel,
+    // pixelData splits N pixels over ceil(N / limit) outputs; with no pixel there is nothing to split.
+    maxPixelsPerOutput: pixels > 0 ? profile.maxPixelsPerOutput : undefined,
+    currentPerPixelMa: rail.currentPerPixelMa,
+    supplyVoltageV: rail.voltageV,
+    brightnessPercent: rail.brightnessPercent,
+  });
+  const currentA = pixelCurrentA(pixels, rail.currentPerPixelMa, rail.brightnessPercent);
+  const powerW = currentA * rail.voltageV;
+
+  const perController = profile.dataOutputs ?? 0;
+  const dataOutputsNeeded = data.outputsNeeded;
+  const controllersNeeded = perController > 0 ? Math.ceil(dataOutputsNeeded / perController) : 1;
+  const dataOutputs: DataOutputUse[] = [];
+  if (perController > 0) {
+    blockSizes(pixels, dataOutputsNeeded).forEach((count, o) => {
+      dataOutputs.push({ controller: Math.floor(o / perController) + 1, output: (o % perController) + 1, pixels: count, firstTread: null, lastTread: null });
+    });
+  }
+
+  const injectionInput = { lengthM: rail.lengthM, voltageV: rail.voltageV, maxFeedLengthM: rail.maxFeedLengthM, currentA };
+  const injection = injectionPoints(injectionInput);
+
+  timingTrace('rail', data, trace);
+  trace.push(
+    {
+      quantity: 'rail.pixels',
+      value: pixels,
+      unit: 'pixels',
+      formula: grouping ? 'floor(lengthM × pixelsPerM), then whole pixels per group' : 'floor(lengthM × pixelsPerM)',
+      inputs: { lengthM: rail.lengthM, pixelsPerM: rail.pixelsPerM, pixelsOnRail },
+      reference: 'arithmetic: whole pixels only',
+    },
+    {
+      quantity: 'rail.powerW',
+      value: round(powerW),
+      unit: 'W',
+      formula: 'pixels × currentPerPixelMa / 1000 × brightnessPercent / 100 × voltageV',
+      inputs: { pixels, currentPerPixelMa: rail.currentPerPixelMa ?? 60, brightnessPercent: rail.brightnessPercent ?? 100, voltageV: rail.voltageV },
+      reference:
+        rail.currentPerPixelMa === undefined
+          ? '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide; P = V·I'
+          : 'current per pixel as given; P = V·I',
+    },
+    ...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `rail.${e.quantity}` })),
+  );
+  if (grouping && treadsInStep !== null) trace.push(...railGroupingTrace(treadsInStep, pixelsOnRail, grouping));
+
+  return {
+    rail,
+    pixelsOnRail,
+    pixels,
+    grouping,
+    data,
+    dataOutputsNeeded,
+    controllersNeeded,
+    dataOutputs,
+    currentA,
+    powerW,
+    injection,
+    feedPoints: injection.injectionPoints + 1,
+  };
+}

@@ -1,0 +1,97 @@
+import type { EstimateOutputs, EstimateResult } from '../../schemas/estimate.js';
+import { round } from '../trace.js';
+import type { DataOutputUse, RailPart } from './rail-pixels.js';
+import type { Settings } from './settings.js';
+import type { TreadPixelPart } from './tread-pixels.js';
+import type { TreadStripPart } from './tread-strips.js';
+
+function addData(into: EstimateOutputs['data'], run: 'rail' | 'treads', uses: readonly DataOutputUse[]): void {
+  for (const u of uses) into.push({ controller: u.controller, output: u.output, run, pixels: u.pixels, firstTread: u.firstTread, lastTread: u.lastTread });
+}
+
+/** The response's `outputs`: controllers, their blocks of treads, CV and data outputs. */
+export function outputsOf(
+  settings: Settings,
+  controllers: number,
+  treadStrips: TreadStripPart | null,
+  treadPixels: TreadPixelPart | null,
+  rail: RailPart | null,
+): EstimateOutputs {
+  const { profile } = settings;
+  const data: EstimateOutputs['data'] = [];
+  if (rail) addData(data, 'rail', rail.dataOutputs);
+  if (treadPixels) addData(data, 'treads', treadPixels.dataOutputs);
+
+  const controllerTreads: EstimateOutputs['controllerTreads'] = [];
+  const blocks = treadStrips?.runs.blocks ?? treadPixels?.runs.blocks ?? [];
+  for (const b of blocks) {
+    const cv = treadStrips?.allocation.controllers[b.controller - 1];
+    controllerTreads.push({ controller: b.controller, firstTread: b.firstTread, lastTread: b.lastTread, atTread: b.atTread, currentA: round(cv?.currentA ?? 0) });
+  }
+  return {
+    controllers,
+    controllerTreads,
+    cvOutputsPerController: profile.outputs,
+    maxCurrentPerOutputA: profile.maxCurrentPerOutputA,
+    maxOutputCurrentA: round(treadStrips?.allocation.maxOutputCurrentA ?? 0),
+    cv: (treadStrips?.allocation.outputs ?? []).map((o) => ({
+      controller: o.controller,
+      output: o.output,
+      treads: o.treads,
+      currentA: round(o.currentA),
+      withinLimit: o.withinLimit,
+    })),
+    dataOutputsPerController: profile.dataOutputs ?? 0,
+    data,
+  };
+}
+
+/** The response's `pixels`: the rail run and the chained tread run, where the layout has them. */
+export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | null): EstimateResult['pixels'] {
+  return {
+    rail: rail
+      ? {
+          run: 'rail',
+          pixels: rail.pixels,
+          lengthM: rail.rail.lengthM,
+          pixelsPerM: rail.rail.pixelsPerM,
+          voltageV: rail.rail.voltageV,
+          protocol: rail.rail.protocol,
+          bitsPerPixel: rail.rail.protocol === 'clocked' ? 32 : (rail.rail.bitsPerPixel ?? 24),
+          dataOutputs: rail.dataOutputsNeeded,
+          pixelsPerOutput: rail.data.pixelsPerOutput,
+          frameTimeUs: rail.data.frameTimeUs,
+          maxRefreshHz: rail.data.maxRefreshHz,
+          fullWhiteCurrentA: round(rail.currentA),
+          powerW: round(rail.powerW),
+          brightnessPercent: rail.rail.brightnessPercent ?? 100,
+          feedPoints: rail.feedPoints,
+          injectionPoints: rail.injection.injectionPoints,
+          maxFeedLengthM: round(rail.injection.maxFeedLengthM, 3),
+        }
+      : null,
+    treads: treadPixels
+      ? {
+          run: 'treads',
+          pixels: treadPixels.totalPixels,
+          lengthM: round((treadPixels.litTreads * treadPixels.piece.lengthMm) / 1000, 3),
+          pixelsPerM: treadPixels.block.pixelsPerM,
+          voltageV: treadPixels.block.voltageV,
+          protocol: treadPixels.block.protocol,
+          bitsPerPixel: treadPixels.block.protocol === 'clocked' ? 32 : (treadPixels.block.bitsPerPixel ?? 24),
+          dataOutputs: treadPixels.chains.length,
+          pixelsPerOutput: treadPixels.busiestChainPixels,
+          frameTimeUs: treadPixels.data.frameTimeUs,
+          maxRefreshHz: treadPixels.data.maxRefreshHz,
+          fullWhiteCurrentA: round(treadPixels.totalCurrentA),
+          powerW: round(treadPixels.totalLoadW),
+          brightnessPercent: treadPixels.block.brightnessPercent ?? 100,
+          feedPoints: treadPixels.feedGroups.length,
+          injectionPoints: treadPixels.feedGroups.length - treadPixels.chains.length,
+          maxFeedLengthM: round(treadPixels.injection.maxFeedLengthM, 3),
+          chainCableLengthM: round(treadPixels.chainCableLengthM, 3),
+        }
+      : null,
+    railGrouping: rail?.grouping ?? null,
+  };
+}

@@ -1,0 +1,41 @@
+import type { EstimateCheck } from '../../schemas/estimate.js';
+import { cableCurrentCheck, cableDropCheck, cableMinSizeCheck, cableRunLengthCheck } from './cable-checks.js';
+import type { Design } from './checks.js';
+import { controllerInputCheck, outputCountCheck, outputCurrentCheck } from './output-checks.js';
+import { pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
+import { sensorCurrentCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
+import { pieceFitsReelCheck, stripFitsCheck, treadCountCheck } from './stair-checks.js';
+import { class2Check, driverLoadingCheck, selvCheck } from './supply-checks.js';
+
+/** Every check that applies to the design, in a stable order; those that do not apply are left out. */
+const CHECKS: readonly ((d: Design) => EstimateCheck | null)[] = [
+  treadCountCheck,
+  stripFitsCheck,
+  outputCountCheck,
+  outputCurrentCheck,
+  controllerInputCheck,
+  pixelsPerOutputCheck,
+  pixelsTotalCheck,
+  refreshRateCheck,
+  railGroupingCheck,
+  driverLoadingCheck,
+  class2Check,
+  selvCheck,
+  cableDropCheck,
+  cableCurrentCheck,
+  cableRunLengthCheck,
+  cableMinSizeCheck,
+  sensorTypeCheck,
+  sensorCurrentCheck,
+  sensorSupplyCheck,
+  pieceFitsReelCheck,
+];
+
+export function runChecks(d: Design): EstimateCheck[] {
+  const checks: EstimateCheck[] = [];
+  for (const run of CHECKS) {
+    const c = run(d);
+    if (c) checks.push(c);
+  }
+  return checks;
+}
