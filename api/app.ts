@@ -1,19 +1,27 @@
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
+import { authenticate } from './auth/authenticate.js';
+import { authorize } from './auth/authorize.js';
 import type { AppDeps } from './deps.js';
+import { createServices, type Services } from './services/container.js';
+import { cors } from './middleware/cors.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
+import { trafficMiddleware } from './middleware/rate-limit.js';
 import { requestId } from './middleware/request-id.js';
 import { consoleRouter } from './routes/console.js';
 import { docsRouter } from './routes/docs.js';
 import { routeModules } from './routes/index.js';
+import { enabledModules } from './routes/route-module.js';
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
-export function createApp(deps: AppDeps): Express {
+export function createApp(deps: AppDeps): Express & { locals: { services: Services } } {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', false);
+  app.set('trust proxy', deps.config.trustProxy);
   app.set('query parser', 'simple');
+  // API answers are computed per request; hashing each body for an ETag buys nothing (static files keep theirs).
+  app.set('etag', false);
 
   app.use(
     pinoHttp({
@@ -29,10 +37,17 @@ export function createApp(deps: AppDeps): Express {
   );
   // The demo serves plain HTTP on localhost; don't ask browsers to upgrade to HTTPS.
   app.use(helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
-  app.use(docsRouter()); // after helmet: /docs replaces the CSP with its own
+  app.use(docsRouter(deps.config)); // after helmet: /docs replaces the CSP with its own
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 
-  for (const module of routeModules) app.use(module.basePath, module.router(deps));
+  const services = createServices(deps);
+  app.locals.services = services;
+  // A module this configuration disables does not exist: 404 before any credential check.
+  const modules = enabledModules(routeModules, deps.config);
+  for (const off of routeModules.filter((m) => !modules.includes(m))) app.use(off.basePath, notFoundHandler);
+  app.use('/v1', cors(services.allowedOrigins), authenticate({ db: deps.database.db, pepper: deps.secrets.pepper, clock: deps.clock, ...services }), authorize);
+  app.use('/v1', ...trafficMiddleware(deps, services)); // limits, quota and metering: after authorize (needs principal and route)
+  for (const module of modules) app.use(module.basePath, module.router(deps, services));
   app.use('/v1', notFoundHandler);
 
   const spa = consoleRouter(deps.config.consoleDir);
@@ -40,5 +55,5 @@ export function createApp(deps: AppDeps): Express {
 
   app.use(notFoundHandler);
   app.use(errorHandler);
-  return app;
+  return app as Express & { locals: { services: Services } };
 }

@@ -18,6 +18,17 @@ const configSchema = z
     SEED_DEMO: booleanFlag.optional(),
     JSON_BODY_LIMIT: z.string().regex(/^\d+(b|kb|mb)$/i, 'like 100kb or 1mb').default('256kb'),
     CONSOLE_DIR: z.string().min(1).default('./dist/console/browser'),
+    KEY_PEPPER: z.string().min(32, 'must be at least 32 characters').optional(),
+    JWT_PRIVATE_KEY: z.string().includes('PRIVATE KEY', { message: 'must be a PEM private key' }).optional(),
+    REDIS_URL: z.string().regex(/^rediss?:\/\//, 'must be a redis:// or rediss:// URL').optional(),
+    SMTP_URL: z.string().regex(/^smtps?:\/\//, 'must be an smtp:// or smtps:// URL').optional(),
+    MAIL_FROM: z.string().min(3).default('Treadwise <no-reply@treadwise.test>'),
+    TRUST_PROXY: z
+      .string()
+      .regex(/^(false|true|loopback|linklocal|uniquelocal|\d{1,2}|[0-9a-f.:/, ]+)$/i, 'false, loopback, a hop count or addresses')
+      .default('false'),
+    PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).optional(),
+    USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(10_000),
   })
   .transform((env) => ({
     nodeEnv: env.NODE_ENV,
@@ -31,6 +42,17 @@ const configSchema = z
     seedDemo: env.SEED_DEMO ?? env.DATABASE_URL === undefined,
     jsonBodyLimit: env.JSON_BODY_LIMIT,
     consoleDir: env.CONSOLE_DIR,
+    keyPepper: env.KEY_PEPPER,
+    jwtPrivateKeyPem: env.JWT_PRIVATE_KEY,
+    redisUrl: env.REDIS_URL,
+    smtpUrl: env.SMTP_URL,
+    mailFrom: env.MAIL_FROM,
+    // Behind a reverse proxy, per-IP limits need the client address from X-Forwarded-For.
+    trustProxy: env.TRUST_PROXY === 'false' ? false : env.TRUST_PROXY === 'true' ? true : /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY,
+    // Links in e-mails point here; the default suits the local demo.
+    publicUrl: (env.PUBLIC_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, ''),
+    // How often buffered usage counters are written (a graceful shutdown also writes them).
+    usageFlushIntervalMs: env.USAGE_FLUSH_INTERVAL_MS,
   }));
 
 export type Config = z.output<typeof configSchema>;

@@ -1,4 +1,5 @@
 import type { Logger } from 'pino';
+import type { Secrets } from './auth/secrets.js';
 import type { Config } from './config.js';
 import type { Database } from './db/client.js';
 
@@ -7,6 +8,8 @@ export interface AppDeps {
   config: Config;
   database: Database;
   logger: Logger;
+  /** Key-hashing pepper and the access-token signing key (see api/auth/secrets.ts). */
+  secrets: Secrets;
   /** Injected so time-dependent rules can be tested by moving time instead of sleeping. */
   clock: () => Date;
 }

@@ -1,5 +1,5 @@
 import { ConfigError, loadConfig, type Config } from './config.js';
-import { DEMO_SIGN_IN_NOTE } from './db/demo-data.js';
+import { DEMO_PASSWORD, demoMembers, demoOperator } from './db/demo-data.js';
 import { createLogger } from './logger.js';
 import { startServer, type RunningServer } from './server.js';
 
@@ -48,8 +48,19 @@ async function main(): Promise<void> {
     `  Console:  ${server.url}/`,
     `  API docs: ${server.url}/docs   (OpenAPI: ${server.url}/openapi.json)`,
   ];
-  if (server.seed.seeded) lines.push(`  Demo data seeded. ${DEMO_SIGN_IN_NOTE}`);
-  else if (config.seedDemo) lines.push(`  Demo data already present. ${DEMO_SIGN_IN_NOTE}`);
+  if (server.seed.seeded || config.seedDemo) {
+    lines.push(`  Demo sign-in: ${demoOperator.email} (operator), ${demoMembers.map((m) => `${m.email} (${m.role})`).join(', ')}`);
+    lines.push(`  Demo password for every demo account: ${DEMO_PASSWORD}`);
+  }
+  if (server.seed.seeded) {
+    lines.push('  Demo data seeded. Demo API keys (shown only now; create more in the console or at /v1/keys):');
+    for (const key of server.seed.keys) {
+      const where = key.allowedOrigins.length ? `  from ${key.allowedOrigins.join(', ')}` : '';
+      lines.push(`    ${key.organization.padEnd(16)} ${key.kind.padEnd(12)} ${key.token}${where}`);
+    }
+  } else if (config.seedDemo) {
+    lines.push('  Demo data already present (its keys were printed at the first start).');
+  }
   process.stdout.write(`${lines.join('\n')}\n`);
 }
 

@@ -3,6 +3,7 @@ import type { Server } from 'node:http';
 import path from 'node:path';
 import type { Logger } from 'pino';
 import { createApp } from './app.js';
+import { loadSecrets } from './auth/secrets.js';
 import type { Config } from './config.js';
 import { openDatabase, type Database } from './db/client.js';
 import { migrateDatabase } from './db/migrate.js';
@@ -17,13 +18,14 @@ export interface RunningServer {
 }
 
 export async function startServer(config: Config, logger: Logger): Promise<RunningServer> {
+  const secrets = loadSecrets(config); // before the database: a missing secret is a config error
   const database = await openDatabase({
     url: config.databaseUrl,
     dataDir: path.join(config.dataDir, 'pglite'),
   });
   await migrateDatabase(database);
-  const seed = await seedDemo(database, config.seedDemo);
-  const app = createApp({ config, database, logger, clock: () => new Date() });
+  const seed = await seedDemo(database, config.seedDemo, secrets.pepper);
+  const app = createApp({ config, database, logger, secrets, clock: () => new Date() });
 
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, config.host, (err?: Error) => (err ? reject(err) : resolve(s)));
@@ -39,6 +41,9 @@ export async function startServer(config: Config, logger: Logger): Promise<Runni
         // Idle keep-alive sockets would hold close() open; in-flight requests still finish.
         server.closeIdleConnections();
       });
+      // In-flight requests are done: write the buffered usage and last-used times, then close.
+      await app.locals.services.usageMeter.close();
+      await app.locals.services.rateLimitStores.close();
       await database.close();
     })());
 

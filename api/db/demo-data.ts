@@ -1,13 +1,28 @@
+import type { Scope } from '../auth/scopes.js';
+
 /** The invented demo scenario (see DEVELOPERS.md); every name here is made up. */
 export const demoOrganizations = [
-  { slug: 'harbor-lane', name: 'Harbor Lane Lighting' },
-  { slug: 'kestrel-finch', name: 'Kestrel & Finch Builders' },
-  { slug: 'quayside-studio', name: 'Quayside Studio' },
+  { slug: 'harbor-lane', name: 'Harbor Lane Lighting', planId: 'shop', publishableOrigins: ['https://shop.harborlane.test'] },
+  { slug: 'kestrel-finch', name: 'Kestrel & Finch Builders', planId: 'free', publishableOrigins: ['https://plans.kestrelfinch.test'] },
+  { slug: 'quayside-studio', name: 'Quayside Studio', planId: 'free', publishableOrigins: ['https://quayside.test'] },
 ] as const;
 
 /**
- * Sign-in arrives with the accounts issue; until then the demo has organisations only and the
- * API is open. Printed at start so nobody hunts for a password that does not exist yet.
+ * Demo sign-ins. One documented password for every demo account (printed at the first start);
+ * the seed never runs against a database that holds anything, nor by default on a real server.
  */
-export const DEMO_SIGN_IN_NOTE =
-  'Demo organisations: harbor-lane, kestrel-finch, quayside-studio. Sign-in is not enabled yet; the API is open.';
+export const DEMO_PASSWORD = 'treadwise-demo';
+
+export const demoOperator = { email: 'ops@treadwise.test', name: 'Treadwise operations' };
+
+export const demoMembers = [
+  { organization: 'harbor-lane', email: 'mira@harborlane.test', name: 'Mira', role: 'admin' },
+  { organization: 'harbor-lane', email: 'theo@harborlane.test', name: 'Theo', role: 'estimator' },
+  { organization: 'harbor-lane', email: 'ines@harborlane.test', name: 'Ines', role: 'viewer' },
+  { organization: 'kestrel-finch', email: 'ava@kestrelfinch.test', name: 'Ava', role: 'admin' },
+  { organization: 'kestrel-finch', email: 'jonas@kestrelfinch.test', name: 'Jonas', role: 'estimator' },
+  { organization: 'quayside-studio', email: 'noor@quaysidestudio.test', name: 'Noor', role: 'admin' },
+] as const;
+
+/** Server-side demo keys: everything a partner's server needs, but not key management. */
+export const demoSecretKeyScopes: Scope[] = ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'usage:read'];

@@ -1,10 +1,206 @@
-import { pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
+import {
+  bigint,
+  bigserial,
+  boolean,
+  date,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core';
+
+const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
+const at = (name: string) => timestamp(name, { withTimezone: true });
+
+/** Plans are data: quota and rate per organisation, changed without a deploy. */
+export const plans = pgTable('plans', {
+  id: text('id').primaryKey(),
+  name: text('name').notNull(),
+  monthlyQuota: integer('monthly_quota').notNull(),
+  ratePerMinute: integer('rate_per_minute').notNull(),
+  createdAt: createdAt(),
+});
 
 /** Partner organisations (shops, builders, studios) that use Treadwise under their own keys. */
 export const organizations = pgTable('organizations', {
   id: uuid('id').primaryKey().defaultRandom(),
   slug: text('slug').notNull().unique(),
   name: text('name').notNull(),
-  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  planId: text('plan_id')
+    .notNull()
+    .default('free')
+    .references(() => plans.id),
+  createdAt: createdAt(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
+
+/** People who sign in to the console. `operator` is the Treadwise team, able to act in any organisation. */
+export const users = pgTable('users', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  email: text('email').notNull().unique(), // stored lower-cased
+  name: text('name'),
+  passwordHash: text('password_hash'), // null until an invitation is accepted
+  operator: boolean('operator').notNull().default(false),
+  failedSignIns: integer('failed_sign_ins').notNull().default(0),
+  lockedUntil: at('locked_until'),
+  createdAt: createdAt(),
+});
+
+export const memberships = pgTable(
+  'memberships',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    role: text('role', { enum: ['admin', 'estimator', 'viewer'] }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('memberships_org_user').on(t.organizationId, t.userId)],
+);
+
+/** Refresh tokens rotate on every use; a reused (already rotated) token revokes its family. */
+export const refreshTokens = pgTable(
+  'refresh_tokens',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    familyId: uuid('family_id').notNull(),
+    tokenHash: text('token_hash').notNull().unique(),
+    expiresAt: at('expires_at').notNull(),
+    usedAt: at('used_at'),
+    revokedAt: at('revoked_at'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('refresh_tokens_family').on(t.familyId)],
+);
+
+/** Single-use, expiring links sent by e-mail: member invitations and password resets. */
+export const emailTokens = pgTable('email_tokens', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  purpose: text('purpose', { enum: ['invitation', 'password_reset'] }).notNull(),
+  tokenHash: text('token_hash').notNull().unique(),
+  email: text('email').notNull(),
+  userId: uuid('user_id').references(() => users.id, { onDelete: 'cascade' }),
+  organizationId: uuid('organization_id').references(() => organizations.id, { onDelete: 'cascade' }),
+  role: text('role', { enum: ['admin', 'estimator', 'viewer'] }),
+  expiresAt: at('expires_at').notNull(),
+  usedAt: at('used_at'),
+  createdAt: createdAt(),
+});
+
+/**
+ * API keys. `keyId` is the public part shown in logs and charts; only an HMAC-SHA256 of the
+ * secret is stored. A rolled key keeps its previous hash until `previousValidUntil`.
+ */
+export const apiKeys = pgTable(
+  'api_keys',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    keyId: text('key_id').notNull().unique(),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    kind: text('kind', { enum: ['secret', 'publishable'] }).notNull(),
+    name: text('name').notNull(),
+    scopes: text('scopes').array().notNull(),
+    allowedOrigins: text('allowed_origins').array().notNull().default(sql`'{}'::text[]`),
+    secretHash: text('secret_hash').notNull(),
+    previousSecretHash: text('previous_secret_hash'),
+    previousValidUntil: at('previous_valid_until'),
+    expiresAt: at('expires_at'),
+    lastUsedAt: at('last_used_at'),
+    revokedAt: at('revoked_at'),
+    createdByUserId: uuid('created_by_user_id').references(() => users.id, { onDelete: 'set null' }),
+    createdByKeyId: text('created_by_key_id'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('api_keys_org').on(t.organizationId)],
+);
+
+/** Requests made with a key, counted per day, route and status class; latency buckets give p50/p95. */
+export const usageCounters = pgTable(
+  'usage_counters',
+  {
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    keyId: text('key_id').notNull(),
+    day: date('day').notNull(),
+    route: text('route').notNull(),
+    statusClass: text('status_class').notNull(), // 2xx, 4xx, 5xx
+    count: bigint('count', { mode: 'number' }).notNull(),
+    // Of `count`, those refused by a rate limit or the monthly quota: metered, never billed.
+    limited: bigint('limited', { mode: 'number' }).notNull().default(0),
+    latencyMsTotal: bigint('latency_ms_total', { mode: 'number' }).notNull(),
+    latencyBuckets: integer('latency_buckets').array().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.keyId, t.day, t.route, t.statusClass] })],
+);
+
+/** Quota warnings (80 %, 100 %) already sent, so each goes out once per organisation and month. */
+export const quotaNotices = pgTable(
+  'quota_notices',
+  {
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    month: text('month').notNull(), // YYYY-MM
+    thresholdPercent: integer('threshold_percent').notNull(),
+    sentAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.month, t.thresholdPercent] })],
+);
+
+/** The local mail sink: every message the server would have sent, readable by the operator. */
+export const outboxMessages = pgTable('outbox_messages', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  to: text('to').notNull(),
+  subject: text('subject').notNull(),
+  text: text('text').notNull(),
+  html: text('html'),
+  createdAt: createdAt(),
+});
+
+export const auditEvents = pgTable(
+  'audit_events',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    organizationId: uuid('organization_id').references(() => organizations.id, { onDelete: 'cascade' }),
+    action: text('action').notNull(), // <resource>.<verb>
+    actorType: text('actor_type', { enum: ['user', 'api_key', 'system', 'anonymous'] }).notNull(),
+    actorId: text('actor_id'),
+    targetType: text('target_type'),
+    targetId: text('target_id'),
+    requestId: text('request_id'),
+    ip: text('ip'),
+    data: jsonb('data').$type<Record<string, unknown>>(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('audit_events_org_id').on(t.organizationId, t.id)],
+);
+
+/** First response to a POST with an Idempotency-Key, replayed for 24 h to the same owner. */
+export const idempotencyRecords = pgTable(
+  'idempotency_records',
+  {
+    owner: text('owner').notNull(),
+    key: text('key').notNull(),
+    requestHash: text('request_hash').notNull(),
+    status: integer('status'), // null while the first request is still running
+    body: jsonb('body'),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.owner, t.key] })],
+);

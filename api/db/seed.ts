@@ -1,27 +1,62 @@
 import { count } from 'drizzle-orm';
+import { formatKey, generateKey, hashSecret } from '../auth/key-format.js';
 import type { Database } from './client.js';
-import { organizations } from './schema.js';
-import { demoOrganizations } from './demo-data.js';
+import { apiKeys, organizations } from './schema.js';
+import { addMember } from '../services/members.js';
+import { createUserService } from '../services/users.js';
+import { DEMO_PASSWORD, demoMembers, demoOperator, demoOrganizations, demoSecretKeyScopes } from './demo-data.js';
 
 const SEED_LOCK = 740_312;
+
+export interface DemoKey {
+  organization: string;
+  kind: 'secret' | 'publishable';
+  token: string;
+  allowedOrigins: string[];
+}
 
 export interface SeedResult {
   seeded: boolean;
   reason: 'seeded' | 'disabled' | 'not-empty';
+  /** Whole demo keys, known only now: printed once at the first start. */
+  keys: DemoKey[];
 }
 
 /**
  * Seeds the demo scenario into an empty database only, so a restart never duplicates it and a
  * database holding real data is never touched.
  */
-export async function seedDemo(database: Database, enabled: boolean): Promise<SeedResult> {
-  if (!enabled) return { seeded: false, reason: 'disabled' };
+export async function seedDemo(database: Database, enabled: boolean, pepper: Buffer): Promise<SeedResult> {
+  if (!enabled) return { seeded: false, reason: 'disabled', keys: [] };
   return database.withLock(SEED_LOCK, async (db) => {
     const [{ n }] = await db.select({ n: count() }).from(organizations);
-    if (n > 0) return { seeded: false, reason: 'not-empty' as const };
+    if (n > 0) return { seeded: false, reason: 'not-empty' as const, keys: [] };
+    const keys: DemoKey[] = [];
     await db.transaction(async (tx) => {
-      await tx.insert(organizations).values([...demoOrganizations]).onConflictDoNothing();
+      const users = createUserService({ db: tx, clock: () => new Date() });
+      await users.createUser({ ...demoOperator, password: DEMO_PASSWORD, operator: true });
+      for (const demo of demoOrganizations) {
+        const [org] = await tx.insert(organizations).values({ slug: demo.slug, name: demo.name, planId: demo.planId }).returning();
+        for (const person of demoMembers.filter((m) => m.organization === demo.slug)) {
+          const user = await users.createUser({ email: person.email, name: person.name, password: DEMO_PASSWORD });
+          await addMember(tx, { organizationId: org.id, userId: user.id, role: person.role });
+        }
+        for (const kind of ['secret', 'publishable'] as const) {
+          const key = generateKey(kind);
+          const allowedOrigins = kind === 'publishable' ? [...demo.publishableOrigins] : [];
+          await tx.insert(apiKeys).values({
+            keyId: key.keyId,
+            organizationId: org.id,
+            kind,
+            name: kind === 'secret' ? 'Demo server key' : 'Demo page key',
+            scopes: kind === 'secret' ? demoSecretKeyScopes : ['sizing:run'],
+            allowedOrigins,
+            secretHash: hashSecret(pepper, key.keyId, key.secret),
+          });
+          keys.push({ organization: demo.slug, kind, token: formatKey(kind, key.keyId, key.secret), allowedOrigins });
+        }
+      }
     });
-    return { seeded: true, reason: 'seeded' as const };
+    return { seeded: true, reason: 'seeded' as const, keys };
   });
 }

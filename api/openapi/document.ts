@@ -12,6 +12,13 @@ export const problemResponse = (description: string) => ({
 
 export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
   const registry = new OpenAPIRegistry();
+  registry.registerComponent('securitySchemes', 'bearer', {
+    type: 'http',
+    scheme: 'bearer',
+    description:
+      'An API key (`tw_sec_…` from servers, `tw_pub_…` from allowed browser origins) or a console access token from `POST /v1/auth/sign-in`. ' +
+      'Users acting in one of several organisations send `Treadwise-Organization: <slug>`.',
+  });
   for (const register of registrars) register(registry);
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
@@ -27,7 +34,14 @@ export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
     servers: [{ url: '/' }],
     tags: [
       { name: 'Health', description: 'Liveness and readiness.' },
-      { name: 'Calculations', description: 'Stateless sizing calculations.' },
+      { name: 'Calculations', description: 'Stateless sizing calculations (scope sizing:run; estimator role).' },
+      { name: 'API keys', description: 'Secret and publishable keys (admin role or keys:manage scope).' },
+      { name: 'Auth', description: 'Console sign-in, sessions, password reset and invitations.' },
+      { name: 'Members', description: 'People in an organisation and their roles (admin, estimator, viewer).' },
+      { name: 'Organizations', description: 'Partner organisations and their plans (created by the operator).' },
+      { name: 'Usage', description: 'Calls counted per key, day, route and status, with latency.' },
+      { name: 'Audit', description: 'Who did what, when and from where.' },
+      { name: 'Development', description: 'Local stand-ins for hosted services (only without real configuration).' },
     ],
   });
 }

@@ -1,12 +1,23 @@
+import type { Config } from '../config.js';
 import { routeModules } from '../routes/index.js';
+import { enabledModules } from '../routes/route-module.js';
 import { buildOpenApiDocument } from './document.js';
 
 export type OpenApiDocument = ReturnType<typeof buildOpenApiDocument>;
 
-let cached: OpenApiDocument | undefined;
+const cache = new Map<string, OpenApiDocument>();
 
-/** The document is the same for the life of the process: build it once. */
-export function openApiDocument(): OpenApiDocument {
-  cached ??= buildOpenApiDocument(routeModules.map((m) => m.docs));
-  return cached;
+/**
+ * The document for a configuration (modules it disables are left out); without one, every
+ * module — the committed openapi/openapi.json. Built once per process and configuration.
+ */
+export function openApiDocument(config?: Config): OpenApiDocument {
+  const modules = config ? enabledModules(routeModules, config) : routeModules;
+  const key = modules.map((m) => m.basePath).join(',');
+  let doc = cache.get(key);
+  if (!doc) {
+    doc = buildOpenApiDocument(modules.map((m) => m.docs));
+    cache.set(key, doc);
+  }
+  return doc;
 }

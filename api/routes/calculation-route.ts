@@ -12,6 +12,8 @@ export interface Calculation<Req extends z.ZodType, Res extends z.ZodType> {
   request: Req;
   response: Res;
   compute(input: z.output<Req>): z.output<Res>;
+  /** Replaces the standard closing paragraph of the description. */
+  notes?: string;
 }
 
 /** Type-checked at definition, erased for the list the router walks. */
@@ -37,12 +39,16 @@ export function documentCalculation(registry: OpenAPIRegistry, calc: AnyCalculat
     method: 'post',
     path: calc.path,
     tags: ['Calculations'],
+    security: [{ bearer: [] }],
     summary: calc.summary,
-    description: calc.description + CALCULATION_NOTES,
+    description: calc.description + (calc.notes ?? CALCULATION_NOTES),
     request: { body: { required: true, content: { 'application/json': { schema: calc.request } } } },
     responses: {
       200: { description: 'The result, with warnings, engineVersion and trace.', content: { 'application/json': { schema: calc.response } } },
       400: problemResponse('Malformed JSON or input outside the schema (`code: validation_failed`, with `errors[].path`).'),
+      401: problemResponse('No or invalid credentials.'),
+      403: problemResponse('The key lacks sizing:run, its origin is not allowed, or the user is not an estimator.'),
+      429: problemResponse('Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After.'),
     },
   });
 }

@@ -1,13 +1,14 @@
 import express, { Router } from 'express';
 import helmet from 'helmet';
 import swaggerUi from 'swagger-ui-express';
+import type { Config } from '../config.js';
 import { openApiDocument } from '../openapi/spec.js';
 
 /** `/openapi.json` and the Swagger UI at `/docs`, served from node_modules (no CDN). */
-export function docsRouter(): Router {
+export function docsRouter(config: Config): Router {
   const router = Router();
   router.get('/openapi.json', (_req, res) => {
-    res.json(openApiDocument());
+    res.json(openApiDocument(config));
   });
   // Swagger UI injects inline styles and loads data: images; relax the CSP for /docs only.
   const docsCsp = helmet.contentSecurityPolicy({

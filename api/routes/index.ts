@@ -1,6 +1,14 @@
 import { calculationRoutes } from './calculations.js';
+import { estimateRoutes } from './estimates.js';
 import { healthRoutes } from './health.js';
+import { keyRoutes } from './keys.js';
+import { auditRoutes } from './audit.js';
+import { authRoutes } from './auth.js';
+import { memberRoutes } from './members.js';
+import { organizationRoutes } from './organizations.js';
+import { outboxRoutes } from './outbox.js';
+import { usageRoutes } from './usage.js';
 import type { RouteModule } from './route-module.js';
 
 /** Every resource the API mounts, in one list: the app and the OpenAPI document both use it. */
-export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes];
+export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes];

@@ -2,15 +2,20 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { problemSchema } from '../../shared/schemas/problem.js';
 import { ENGINE_VERSION } from '../../shared/sizing/version.js';
+import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
 let t: TestApp;
+let token: string;
 beforeAll(async () => {
   t = await createTestApp();
+  const org = await createOrganization(t);
+  ({ token } = await createKey(t, org.id, { scopes: ['sizing:run'] }));
 });
 afterAll(() => t.close());
 
-const post = (path: string, body: unknown) => request(t.app).post(`/v1/calculations/${path}`).send(body as object);
+const post = (path: string, body: unknown) =>
+  request(t.app).post(`/v1/calculations/${path}`).set('Authorization', `Bearer ${token}`).send(body as object);
 
 async function expectValidationProblem(path: string, body: unknown, fieldPath: string) {
   const res = await post(path, body).expect(400);

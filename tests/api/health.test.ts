@@ -1,6 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../api/app.js';
+import { ephemeralSecrets } from '../../api/auth/secrets.js';
 import { createLogger } from '../../api/logger.js';
 import { healthSchema } from '../../shared/schemas/health.js';
 import { problemSchema } from '../../shared/schemas/problem.js';
@@ -46,7 +47,7 @@ describe('GET /v1/health/ready', () => {
 
   it('answers 503 problem+json when the database is gone', async () => {
     const unreachable = { ...t.database, ping: () => Promise.reject(new Error('connection refused')) };
-    const app = createApp({ config: t.config, database: unreachable, logger: createLogger('silent'), clock: () => new Date() });
+    const app = createApp({ config: t.config, database: unreachable, logger: createLogger('silent'), secrets: ephemeralSecrets(), clock: () => new Date() });
     const res = await request(app).get('/v1/health/ready').expect(503);
     expect(res.headers['content-type']).toContain('application/problem+json');
     expect(problemSchema.parse(res.body).code).toBe('not_ready');

@@ -2,6 +2,7 @@ import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../api/app.js';
+import { ephemeralSecrets } from '../../api/auth/secrets.js';
 import { createLogger } from '../../api/logger.js';
 import { API_VERSION } from '../../api/version.js';
 import { runCli } from '../support/cli-run.js';
@@ -54,6 +55,7 @@ describe('treadwise health', () => {
       config: t.config,
       database: { ...t.database, ping: () => Promise.reject(new Error('down')) },
       logger: createLogger('silent'),
+      secrets: ephemeralSecrets(),
       clock: () => new Date(),
     });
     const broken = app.listen(0, '127.0.0.1');

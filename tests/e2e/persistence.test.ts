@@ -18,11 +18,20 @@ async function organizationSlugs(): Promise<string[]> {
   }
 }
 
+const sizeWith = (url: string, key: string) =>
+  fetch(`${url}/v1/calculations/voltage-drop`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+    body: JSON.stringify({ supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } }),
+  });
+
 describe('the embedded database across restarts', () => {
   it('seeds the demo once, shuts down cleanly, and finds the same data after a restart', async () => {
     const first = await startServerProcess({ DATA_DIR: dataDir });
     expect(first.stdout()).toContain('Demo data seeded');
     expect((await fetch(`${first.url}/v1/health/ready`)).status).toBe(200);
+    const key = /harbor-lane\s+secret\s+(tw_sec_\S+)/.exec(first.stdout())![1];
+    for (let i = 0; i < 3; i++) expect((await sizeWith(first.url, key)).status).toBe(200);
     expect(await first.stop()).toBe(0);
 
     // demo-scenario.md: the three invented organisations
@@ -31,6 +40,12 @@ describe('the embedded database across restarts', () => {
     const second = await startServerProcess({ DATA_DIR: dataDir });
     expect(second.stdout()).toContain('Demo data already present');
     expect((await fetch(`${second.url}/v1/health/ready`)).status).toBe(200);
+    // The key from the first start still works (the pepper was kept, not regenerated), and the
+    // three calls made before the restart were flushed by the graceful shutdown.
+    expect((await sizeWith(second.url, key)).status).toBe(200);
+    const usage = await fetch(`${second.url}/v1/usage`, { headers: { authorization: `Bearer ${key}` } });
+    expect(usage.status).toBe(200);
+    expect((await usage.json()).totals.requests).toBeGreaterThanOrEqual(3);
     expect(await second.stop()).toBe(0);
 
     expect(await organizationSlugs()).toEqual(['harbor-lane', 'kestrel-finch', 'quayside-studio']);

@@ -1,0 +1,111 @@
+import { match, type MatchFunction } from 'path-to-regexp';
+import type { Role, Scope } from './scopes.js';
+
+/**
+ * What a route needs. Users are checked by role in the organisation they act in; API keys by
+ * scope. A route without a scope cannot be called with a key; without a role, any signed-in user
+ * may call it (the route still scopes what it returns).
+ */
+export type Policy =
+  | { public: true }
+  | {
+      public?: false;
+      /** Scope an API key needs; absent: keys may not call the route. */
+      scope?: Scope;
+      /** Least role a user needs in the organisation; absent: any signed-in user. */
+      role?: Role;
+      /** Only the platform operator (users only). */
+      operator?: true;
+      /** Browser (publishable) keys may call it: only sizing. */
+      publishable?: true;
+    };
+
+const sizing: Policy = { scope: 'sizing:run', role: 'estimator', publishable: true };
+const keysAdmin: Policy = { scope: 'keys:manage', role: 'admin' };
+
+/** The one table of who may call what. A mounted route missing here is unreachable (404). */
+export const POLICIES: Record<string, Policy> = {
+  'GET /v1/health': { public: true },
+  'GET /v1/health/ready': { public: true },
+
+  'POST /v1/calculations/voltage-drop': sizing,
+  'POST /v1/calculations/cable': sizing,
+  'POST /v1/calculations/driver': sizing,
+  'POST /v1/calculations/pixels': sizing,
+  'POST /v1/calculations/reels': sizing,
+  'POST /v1/estimates': sizing,
+
+  'GET /v1/keys': keysAdmin,
+  'POST /v1/keys': keysAdmin,
+  'GET /v1/keys/:id': keysAdmin,
+  'POST /v1/keys/:id/roll': keysAdmin,
+  'POST /v1/keys/:id/revoke': keysAdmin,
+
+  // Accounts: signing in needs no credentials; /me is for console users only (keys have no scope for it).
+  'POST /v1/auth/sign-in': { public: true },
+  'POST /v1/auth/refresh': { public: true },
+  'POST /v1/auth/sign-out': { public: true },
+  'POST /v1/auth/password-reset': { public: true },
+  'POST /v1/auth/password-reset/confirm': { public: true },
+  'POST /v1/auth/invitations/accept': { public: true },
+  'GET /v1/auth/me': {},
+  // Keys cannot manage members: no scope on any member route.
+  'GET /v1/members': { role: 'viewer' },
+  'POST /v1/members/invitations': { role: 'admin' },
+  'PATCH /v1/members/:id': { role: 'admin' },
+  'DELETE /v1/members/:id': { role: 'admin' },
+  // Reading: any signed-in user (their own), the operator (all), a key with usage:read (its own: the plan sets its quota).
+  'GET /v1/organizations': { scope: 'usage:read' },
+  'GET /v1/organizations/:id': { scope: 'usage:read' },
+  'POST /v1/organizations': { operator: true },
+  'PATCH /v1/organizations/:id': { operator: true },
+  'GET /v1/dev/outbox': { operator: true },
+
+  // Usage of the organisation acted in; keys with usage:read see their organisation's usage.
+  'GET /v1/usage': { scope: 'usage:read', role: 'viewer' },
+  'GET /v1/usage/export': { scope: 'usage:read', role: 'viewer' },
+
+  'GET /v1/audit-events': { role: 'admin' },
+};
+
+interface CompiledPolicy {
+  method: string;
+  pattern: string;
+  matches: MatchFunction<Record<string, string | string[]>>;
+  policy: Policy;
+}
+
+const compiled: CompiledPolicy[] = Object.entries(POLICIES).map(([route, policy]) => {
+  const [method, pattern] = route.split(' ');
+  return { method, pattern, matches: match(pattern, { decode: decodeURIComponent }), policy };
+});
+
+type Found = { pattern: string; policy: Policy } | undefined;
+
+// Hot paths (sizing) are a handful of fixed URLs: remember recent answers instead of matching
+// every pattern on every call. Bounded, since paths with ids are unbounded.
+const recent = new Map<string, Found>();
+const RECENT_MAX = 2_000;
+
+/** The policy for a request, and the route pattern it matched (for metering). */
+export function policyFor(method: string, path: string): Found {
+  const m = method === 'HEAD' ? 'GET' : method;
+  const cacheKey = `${m} ${path}`;
+  const hit = recent.get(cacheKey);
+  if (hit !== undefined || recent.has(cacheKey)) return hit;
+  let found: Found;
+  for (const entry of compiled) {
+    if (entry.method === m && entry.matches(path)) {
+      found = { pattern: entry.pattern, policy: entry.policy };
+      break;
+    }
+  }
+  if (recent.size >= RECENT_MAX) recent.clear();
+  recent.set(cacheKey, found);
+  return found;
+}
+
+/** Whether any policy covers this path with another method (405 rather than 404). */
+export function pathKnown(path: string): boolean {
+  return compiled.some((entry) => entry.matches(path) !== false);
+}

@@ -1,0 +1,34 @@
+/** What an API key may do. Publishable (browser) keys only ever get `sizing:run`. */
+export const SCOPES = [
+  'sizing:run',
+  'projects:read',
+  'projects:write',
+  'catalog:read',
+  'catalog:write',
+  'batches:write',
+  'usage:read',
+  'keys:manage',
+] as const;
+export type Scope = (typeof SCOPES)[number];
+
+export const PUBLISHABLE_SCOPES: readonly Scope[] = ['sizing:run'];
+
+/** Roles inside an organisation, most privileged first. */
+export const ROLES = ['admin', 'estimator', 'viewer'] as const;
+export type Role = (typeof ROLES)[number];
+
+const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };
+
+export function roleAtLeast(role: Role, needed: Role): boolean {
+  return RANK[role] >= RANK[needed];
+}
+
+/**
+ * The scopes a user of a role could grant to a key: a new key's scopes can never exceed those of
+ * whoever creates it.
+ */
+export const ROLE_SCOPES: Record<Role, readonly Scope[]> = {
+  admin: SCOPES,
+  estimator: ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write'],
+  viewer: ['projects:read', 'catalog:read', 'usage:read'],
+};

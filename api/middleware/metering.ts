@@ -1,0 +1,94 @@
+import type { Request, RequestHandler, Response } from 'express';
+import { principalOf } from '../auth/principal.js';
+import type { AppDeps } from '../deps.js';
+import { HttpProblem } from '../problem.js';
+import type { Services } from '../services/container.js';
+import type { QuotaTicket } from '../services/quotas.js';
+
+/** What the traffic middleware keeps on res.locals for one request. */
+interface TrafficLocals {
+  trafficAt?: Date;
+  /** Set by a limiter that refused the call: metered, not billed. */
+  limitedBy?: 'rate_limited' | 'quota_exceeded';
+  quotaTicket?: QuotaTicket;
+  metered?: boolean;
+}
+
+const locals = (res: Response) => res.locals as TrafficLocals & { routePattern?: string };
+
+/** `POST /v1/estimates`: the policy pattern with its method, whichever form authorize() stored. */
+export function routeOf(req: Request, res: Response): string {
+  const pattern = locals(res).routePattern;
+  const method = req.method === 'HEAD' ? 'GET' : req.method;
+  if (!pattern) return `${method} (unmatched)`;
+  return /^[A-Z]+ /.test(pattern) ? pattern : `${method} ${pattern}`;
+}
+
+/**
+ * Counts every call made with an API key once it has been answered (or the client went away):
+ * organisation, key, UTC day, route pattern, status class and latency. Recording is in memory;
+ * the usage meter writes in batches.
+ */
+export function meterRequests(deps: AppDeps, services: Services): RequestHandler {
+  return (req, res, next) => {
+    const principal = principalOf(res);
+    if (principal.type !== 'api_key') return next();
+    const at = deps.clock();
+    const started = performance.now();
+    locals(res).trafficAt = at;
+    const done = () => {
+      const l = locals(res);
+      if (l.metered) return;
+      l.metered = true;
+      l.quotaTicket?.settle();
+      services.usageMeter.record({
+        organizationId: principal.organizationId,
+        keyId: principal.keyId,
+        apiKeyId: principal.apiKeyId,
+        at,
+        route: routeOf(req, res),
+        status: res.statusCode,
+        latencyMs: performance.now() - started,
+        limited: l.limitedBy !== undefined,
+      });
+    };
+    res.once('finish', done);
+    res.once('close', done);
+    next();
+  };
+}
+
+/**
+ * Refuses calls with a key once the organisation has used its plan's monthly quota (429
+ * quota_exceeded, Retry-After until the next month starts, UTC) and advertises the quota as a
+ * draft-8 `monthly-quota` policy beside the per-minute ones.
+ */
+export function enforceQuota(deps: AppDeps, services: Services): RequestHandler {
+  return async (_req, res, next) => {
+    const principal = principalOf(res);
+    if (principal.type !== 'api_key') return next();
+    const l = locals(res);
+    const at = l.trafficAt ?? deps.clock();
+    const decision = await services.quotas.admit(principal.organizationId, at);
+    const retryAfterS = Math.max(1, Math.ceil((decision.resetsAt.getTime() - at.getTime()) / 1000));
+    const monthStart = Date.UTC(decision.resetsAt.getUTCFullYear(), decision.resetsAt.getUTCMonth() - 1, 1);
+    const windowS = Math.round((decision.resetsAt.getTime() - monthStart) / 1000);
+    res.append('RateLimit-Policy', `"monthly-quota"; q=${decision.plan.monthlyQuota}; w=${windowS}`);
+    res.append('RateLimit', `"monthly-quota"; r=${decision.remaining}; t=${retryAfterS}`);
+    if (!decision.admitted) {
+      l.limitedBy = 'quota_exceeded';
+      throw new HttpProblem(
+        429,
+        'quota_exceeded',
+        'Monthly quota used up',
+        `This organisation has used the ${decision.plan.monthlyQuota} calls its ${decision.plan.name} plan includes for ${decision.month}; ` +
+          `the quota starts again at ${decision.resetsAt.toISOString()}.`,
+        { headers: { 'Retry-After': String(retryAfterS) } },
+      );
+    }
+    // The client may already have gone while the quota was looked up.
+    if (l.metered) decision.ticket.settle();
+    else l.quotaTicket = decision.ticket;
+    next();
+  };
+}

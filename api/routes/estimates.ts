@@ -1,0 +1,39 @@
+import { Router } from 'express';
+import { estimateRequestSchema, estimateResponseSchema } from '../../shared/schemas/estimate.js';
+import { estimate } from '../../shared/sizing/estimate/estimate.js';
+import { defineCalculation, documentCalculation, mountCalculation } from './calculation-route.js';
+import type { RouteModule } from './route-module.js';
+
+const BASE = '/v1/estimates';
+
+const estimateCalculation = defineCalculation({
+  path: BASE,
+  summary: 'Size a whole stair or corridor',
+  description:
+    'The complete estimate for one of four layouts — `tread-strips` (a constant-voltage strip on each tread, ' +
+    'one controller output per tread), `rail-pixels` (an addressable run along a handrail or wall), ' +
+    '`treads-and-rail` (both, the rail grouped two pixel groups per tread) and `tread-pixels` (an addressable ' +
+    'segment per tread, chained tread to tread). Returns per-tread rows (strip length, load, output, cable run, ' +
+    'size and drop), outputs, drivers per rail voltage, the feeder, pixel data, reels, sensors, the bill of ' +
+    'materials (priced when the request carries an inline `catalog`), `checks` with a concrete suggestion on every ' +
+    'failure, and `cautions`.',
+  notes:
+    '\n\nA design that breaks a limit is a 200 whose `checks` say what fails and what to change. Malformed or ' +
+    'impossible input (negative treads, an unknown layout, a missing block) is a 400 with `errors[].path`. ' +
+    'Every response carries `engineVersion` and a `trace` of how each headline number was derived.',
+  request: estimateRequestSchema,
+  response: estimateResponseSchema,
+  compute: estimate,
+});
+
+export const estimateRoutes: RouteModule = {
+  basePath: BASE,
+  router() {
+    const router = Router();
+    mountCalculation(router, BASE, estimateCalculation);
+    return router;
+  },
+  docs(registry) {
+    documentCalculation(registry, estimateCalculation);
+  },
+};

@@ -1,0 +1,189 @@
+import { Router, type Request, type Response } from 'express';
+import { z } from 'zod';
+import {
+  apiKeyPageSchema,
+  apiKeySchema,
+  apiKeyWithTokenSchema,
+  createApiKeyRequestSchema,
+  rollApiKeyRequestSchema,
+  type CreateApiKeyRequest,
+} from '../../shared/schemas/api-keys.js';
+import { organizationOf, principalOf } from '../auth/principal.js';
+import { PUBLISHABLE_SCOPES, ROLE_SCOPES, type Scope } from '../auth/scopes.js';
+import { idempotent } from '../middleware/idempotency.js';
+import { validateBody, validateQuery } from '../middleware/validate.js';
+import { problemResponse } from '../openapi/document.js';
+import { HttpProblem } from '../problem.js';
+import { auditContext } from '../services/audit.js';
+import type { Services } from '../services/container.js';
+import { adminEmails } from '../services/org-admins.js';
+import { pageQuerySchema, type PageQuery } from '../services/pagination.js';
+import type { AppDeps } from '../deps.js';
+import type { RouteModule } from './route-module.js';
+
+/** What the caller may grant: a new key never gets more than its creator holds. */
+function grantableScopes(res: Response): readonly Scope[] {
+  const p = principalOf(res);
+  if (p.type === 'api_key') return p.scopes;
+  if (p.type === 'user' && p.role) return ROLE_SCOPES[p.role];
+  return [];
+}
+
+async function notifyAdmins(deps: AppDeps, services: Services, organizationId: string, subject: string, text: string) {
+  const to = await adminEmails(deps.database.db, organizationId);
+  await Promise.all(to.map((address) => services.mailer.send({ to: address, subject, text })));
+}
+
+export const keyRoutes: RouteModule = {
+  basePath: '/v1/keys',
+
+  router(deps, services) {
+    const router = Router();
+    const { apiKeys, audit, keyCache } = services;
+    const idParam = (req: Request) => String(req.params.id);
+
+    router.get('/', validateQuery(pageQuerySchema), async (_req, res) => {
+      res.json(await apiKeys.list(organizationOf(res), res.locals.query as PageQuery));
+    });
+
+    router.post('/', validateBody(createApiKeyRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock }), async (req, res) => {
+      const body = res.locals.body as CreateApiKeyRequest;
+      const organizationId = organizationOf(res);
+      const scopes = body.scopes ?? (['sizing:run'] as Scope[]);
+      const ceiling = body.kind === 'publishable' ? PUBLISHABLE_SCOPES : grantableScopes(res);
+      const excess = scopes.filter((s) => !ceiling.includes(s) || !grantableScopes(res).includes(s));
+      if (excess.length) {
+        throw new HttpProblem(403, 'scope_exceeds_creator', 'Scopes not grantable', `You cannot grant ${excess.join(', ')}.`, {
+          errors: [{ path: 'scopes', message: `not grantable: ${excess.join(', ')}` }],
+        });
+      }
+      const expiresAt = body.expiresAt ? new Date(body.expiresAt) : null;
+      if (expiresAt && expiresAt <= deps.clock()) {
+        throw new HttpProblem(400, 'validation_failed', 'Invalid request', 'The expiry is in the past.', { errors: [{ path: 'expiresAt', message: 'must be in the future' }] });
+      }
+      const p = principalOf(res);
+      const { key, token } = await apiKeys.create({
+        organizationId,
+        kind: body.kind,
+        name: body.name,
+        scopes: [...new Set(scopes)],
+        allowedOrigins: (body.allowedOrigins ?? []).map((o) => o.toLowerCase()),
+        expiresAt,
+        createdByUserId: p.type === 'user' ? p.userId : null,
+        createdByKeyId: p.type === 'api_key' ? p.keyId : null,
+      });
+      services.allowedOrigins.invalidate();
+      await audit.record(auditContext(req, res), {
+        action: 'api_key.created',
+        organizationId,
+        targetType: 'api_key',
+        targetId: key.keyId,
+        data: { name: key.name, kind: key.kind, scopes: key.scopes, allowedOrigins: key.allowedOrigins },
+      });
+      await notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" created`, `A ${key.kind} key ${key.keyId} ("${key.name}") was created with scopes ${key.scopes.join(', ')}.`);
+      res.status(201).json({ key, token });
+    });
+
+    router.get('/:id', async (req, res) => {
+      res.json(await apiKeys.get(organizationOf(res), idParam(req)));
+    });
+
+    router.post('/:id/roll', validateBody(rollApiKeyRequestSchema), async (req, res) => {
+      const organizationId = organizationOf(res);
+      const { gracePeriodSeconds } = res.locals.body as z.output<typeof rollApiKeyRequestSchema>;
+      const { key, token } = await apiKeys.roll(organizationId, idParam(req), gracePeriodSeconds);
+      keyCache.invalidate(key.keyId);
+      await audit.record(auditContext(req, res), { action: 'api_key.rolled', organizationId, targetType: 'api_key', targetId: key.keyId, data: { gracePeriodSeconds } });
+      await notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" rolled`, `Key ${key.keyId} ("${key.name}") has a new secret. The old one works until ${key.previousSecretValidUntil ?? 'now'}.`);
+      res.json({ key, token });
+    });
+
+    router.post('/:id/revoke', async (req, res) => {
+      const organizationId = organizationOf(res);
+      const { key, changed } = await apiKeys.revoke(organizationId, idParam(req));
+      keyCache.invalidate(key.keyId);
+      services.allowedOrigins.invalidate();
+      if (changed) {
+        await audit.record(auditContext(req, res), { action: 'api_key.revoked', organizationId, targetType: 'api_key', targetId: key.keyId });
+        await notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" revoked`, `Key ${key.keyId} ("${key.name}") was revoked and no longer works.`);
+      }
+      res.json(key);
+    });
+
+    return router;
+  },
+
+  docs(registry) {
+    const security = [{ bearer: [] }];
+    const idParams = z.object({ id: z.uuid().meta({ description: 'The key’s id (not its keyId).' }) });
+    const problems = {
+      401: problemResponse('No or invalid credentials.'),
+      403: problemResponse('Needs the admin role or the keys:manage scope.'),
+    };
+    registry.registerPath({
+      method: 'get',
+      path: '/v1/keys',
+      tags: ['API keys'],
+      summary: 'List API keys',
+      description: 'The organisation’s keys, newest first, with cursor pagination. Secrets are never listed.',
+      security,
+      request: { query: pageQuerySchema },
+      responses: { 200: { description: 'A page of keys.', content: { 'application/json': { schema: apiKeyPageSchema } } }, ...problems },
+    });
+    registry.registerPath({
+      method: 'post',
+      path: '/v1/keys',
+      tags: ['API keys'],
+      summary: 'Create an API key',
+      description:
+        'Creates a secret (`tw_sec_…`) or publishable (`tw_pub_…`) key. The whole key is in this response only; ' +
+        'Treadwise keeps just an HMAC of its secret. Scopes can never exceed the creator’s. Send `Idempotency-Key` to retry safely.',
+      security,
+      request: {
+        headers: z.object({ 'Idempotency-Key': z.string().max(255).optional() }),
+        body: { required: true, content: { 'application/json': { schema: createApiKeyRequestSchema } } },
+      },
+      responses: {
+        201: { description: 'The key and its token (shown once).', content: { 'application/json': { schema: apiKeyWithTokenSchema } } },
+        400: problemResponse('Invalid request.'),
+        ...problems,
+        422: problemResponse('Idempotency-Key reused with another body.'),
+      },
+    });
+    registry.registerPath({
+      method: 'get',
+      path: '/v1/keys/{id}',
+      tags: ['API keys'],
+      summary: 'Get an API key',
+      description: 'One key of the organisation; another organisation’s key is not found.',
+      security,
+      request: { params: idParams },
+      responses: { 200: { description: 'The key.', content: { 'application/json': { schema: apiKeySchema } } }, ...problems, 404: problemResponse('No such key.') },
+    });
+    registry.registerPath({
+      method: 'post',
+      path: '/v1/keys/{id}/roll',
+      tags: ['API keys'],
+      summary: 'Roll an API key',
+      description: 'Issues a new secret for the same key id. The old secret keeps working for the grace period (0 to 7 days), then stops.',
+      security,
+      request: { params: idParams, body: { required: false, content: { 'application/json': { schema: rollApiKeyRequestSchema } } } },
+      responses: {
+        200: { description: 'The key and its new token (shown once).', content: { 'application/json': { schema: apiKeyWithTokenSchema } } },
+        ...problems,
+        404: problemResponse('No such key.'),
+        409: problemResponse('The key is revoked or expired.'),
+      },
+    });
+    registry.registerPath({
+      method: 'post',
+      path: '/v1/keys/{id}/revoke',
+      tags: ['API keys'],
+      summary: 'Revoke an API key',
+      description: 'Stops the key at once, on every instance within seconds and on this one immediately. Revoking twice is harmless.',
+      security,
+      request: { params: idParams },
+      responses: { 200: { description: 'The revoked key.', content: { 'application/json': { schema: apiKeySchema } } }, ...problems, 404: problemResponse('No such key.') },
+    });
+  },
+};

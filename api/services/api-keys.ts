@@ -1,0 +1,157 @@
+import { and, desc, eq, lt, or } from 'drizzle-orm';
+import { z } from 'zod';
+import type { Db } from '../db/client.js';
+import { apiKeys } from '../db/schema.js';
+import { formatKey, generateKey, hashSecret, newSecret, type KeyKind } from '../auth/key-format.js';
+import type { Scope } from '../auth/scopes.js';
+import { problems } from '../problem.js';
+import { decodeCursor, toPage, type Page, type PageQuery } from './pagination.js';
+
+export type ApiKeyRow = typeof apiKeys.$inferSelect;
+
+/** What the API shows of a key: never the secret or its hash. */
+export interface ApiKeyView {
+  id: string;
+  keyId: string;
+  kind: KeyKind;
+  name: string;
+  scopes: string[];
+  allowedOrigins: string[];
+  expiresAt: string | null;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+  previousSecretValidUntil: string | null;
+  createdAt: string;
+  status: 'active' | 'expired' | 'revoked';
+}
+
+export interface CreateKeyInput {
+  organizationId: string;
+  kind: KeyKind;
+  name: string;
+  scopes: readonly Scope[];
+  allowedOrigins: readonly string[];
+  expiresAt: Date | null;
+  createdByUserId: string | null;
+  createdByKeyId: string | null;
+}
+
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+const cursorSchema = z.tuple([z.string(), z.string()]);
+
+export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buffer; clock: () => Date }) {
+  const view = (row: ApiKeyRow): ApiKeyView => {
+    const now = clock();
+    const status = row.revokedAt ? 'revoked' : row.expiresAt && row.expiresAt <= now ? 'expired' : 'active';
+    return {
+      id: row.id,
+      keyId: row.keyId,
+      kind: row.kind,
+      name: row.name,
+      scopes: row.scopes,
+      allowedOrigins: row.allowedOrigins,
+      expiresAt: iso(row.expiresAt),
+      lastUsedAt: iso(row.lastUsedAt),
+      revokedAt: iso(row.revokedAt),
+      previousSecretValidUntil: row.previousValidUntil && row.previousValidUntil > now ? iso(row.previousValidUntil) : null,
+      createdAt: row.createdAt.toISOString(),
+      status,
+    };
+  };
+
+  /** Scoped to the organisation: another organisation's key is simply not found (404). */
+  const find = async (organizationId: string, id: string): Promise<ApiKeyRow> => {
+    if (!z.uuid().safeParse(id).success) throw problems.notFound('No such API key.');
+    const [row] = await db
+      .select()
+      .from(apiKeys)
+      .where(and(eq(apiKeys.id, id), eq(apiKeys.organizationId, organizationId)));
+    if (!row) throw problems.notFound('No such API key.');
+    return row;
+  };
+
+  return {
+    view,
+
+    async create(input: CreateKeyInput): Promise<{ key: ApiKeyView; token: string }> {
+      const generated = generateKey(input.kind);
+      const [row] = await db
+        .insert(apiKeys)
+        .values({
+          keyId: generated.keyId,
+          organizationId: input.organizationId,
+          kind: input.kind,
+          name: input.name,
+          scopes: [...input.scopes],
+          allowedOrigins: [...input.allowedOrigins],
+          secretHash: hashSecret(pepper, generated.keyId, generated.secret),
+          expiresAt: input.expiresAt,
+          createdByUserId: input.createdByUserId,
+          createdByKeyId: input.createdByKeyId,
+          createdAt: clock(),
+        })
+        .returning();
+      return { key: view(row), token: generated.token };
+    },
+
+    async list(organizationId: string, page: PageQuery): Promise<Page<ApiKeyView>> {
+      const after = decodeCursor(page.cursor, cursorSchema);
+      const rows = await db
+        .select()
+        .from(apiKeys)
+        .where(
+          and(
+            eq(apiKeys.organizationId, organizationId),
+            after
+              ? or(lt(apiKeys.createdAt, new Date(after[0])), and(eq(apiKeys.createdAt, new Date(after[0])), lt(apiKeys.id, after[1])))
+              : undefined,
+          ),
+        )
+        .orderBy(desc(apiKeys.createdAt), desc(apiKeys.id))
+        .limit(page.limit + 1);
+      return toPage(rows, page.limit, view, (r) => [r.createdAt.toISOString(), r.id]);
+    },
+
+    async get(organizationId: string, id: string): Promise<ApiKeyView> {
+      return view(await find(organizationId, id));
+    },
+
+    /** New secret; the old one keeps working for `graceSeconds` (0 ends it at once). */
+    async roll(organizationId: string, id: string, graceSeconds: number): Promise<{ key: ApiKeyView; token: string; row: ApiKeyRow }> {
+      const current = await find(organizationId, id);
+      const now = clock();
+      if (current.revokedAt) throw problems.conflict('key_revoked', 'A revoked key cannot be rolled.');
+      if (current.expiresAt && current.expiresAt <= now) throw problems.conflict('key_expired', 'An expired key cannot be rolled.');
+      const secret = newSecret();
+      const [row] = await db
+        .update(apiKeys)
+        .set({
+          secretHash: hashSecret(pepper, current.keyId, secret),
+          previousSecretHash: graceSeconds > 0 ? current.secretHash : null,
+          previousValidUntil: graceSeconds > 0 ? new Date(now.getTime() + graceSeconds * 1000) : null,
+        })
+        .where(eq(apiKeys.id, current.id))
+        .returning();
+      return { key: view(row), token: formatKey(row.kind, row.keyId, secret), row };
+    },
+
+    async revoke(organizationId: string, id: string): Promise<{ key: ApiKeyView; row: ApiKeyRow; changed: boolean }> {
+      const current = await find(organizationId, id);
+      if (current.revokedAt) return { key: view(current), row: current, changed: false };
+      const [row] = await db
+        .update(apiKeys)
+        .set({ revokedAt: clock(), previousSecretHash: null, previousValidUntil: null })
+        .where(eq(apiKeys.id, current.id))
+        .returning();
+      return { key: view(row), row, changed: true };
+    },
+
+    /** The hot path's lookup by public key id (cached by the caller). */
+    async byKeyId(keyId: string): Promise<ApiKeyRow | undefined> {
+      const [row] = await db.select().from(apiKeys).where(eq(apiKeys.keyId, keyId));
+      return row;
+    },
+  };
+}
+
+export type ApiKeyService = ReturnType<typeof createApiKeyService>;

@@ -1,0 +1,54 @@
+import { createAccessTokens } from '../auth/access-tokens.js';
+import { createAllowedOrigins } from '../auth/allowed-origins.js';
+import { KeyCache } from '../auth/key-cache.js';
+import type { AppDeps } from '../deps.js';
+import { createApiKeyService } from './api-keys.js';
+import { createAuditService } from './audit.js';
+import { createMailer } from './mailer.js';
+import { createEmailTokenService } from './email-tokens.js';
+import { createMemberService } from './members.js';
+import { createOrganizationService } from './organizations.js';
+import { createPasswordResetService } from './password-resets.js';
+import { createSessionService } from './sessions.js';
+import { createUserService } from './users.js';
+import { createPlanService } from './plans.js';
+import { createQuotaService } from './quotas.js';
+import { createRateLimitStores } from './rate-limit-stores.js';
+import { createUsageMeter } from './usage-meter.js';
+
+/** Every service the routes use, built once per app from its dependencies. */
+export function createServices(deps: AppDeps) {
+  const { db } = deps.database;
+  const clock = deps.clock;
+  const apiKeys = createApiKeyService({ db, pepper: deps.secrets.pepper, clock });
+  const accessTokens = createAccessTokens(deps.secrets.jwtPrivateKey, deps.secrets.jwtPublicKey, clock);
+  const mailer = createMailer({ db, smtpUrl: deps.config.smtpUrl, from: deps.config.mailFrom, clock });
+  const users = createUserService({ db, clock });
+  const emailTokens = createEmailTokenService({ db, pepper: deps.secrets.pepper, clock });
+  const sessions = createSessionService({ db, pepper: deps.secrets.pepper, clock, accessTokens, users });
+  const accountMail = { db, publicUrl: deps.config.publicUrl, users, emailTokens, sessions, mailer };
+  // Traffic: plans are cached, the monthly tally syncs after each usage flush.
+  const plans = createPlanService({ db, clock });
+  const quotas = createQuotaService({ db, plans, mailer, clock, logger: deps.logger, publicUrl: deps.config.publicUrl });
+  const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, observer: quotas.observer });
+  return {
+    apiKeys,
+    keyCache: new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime()),
+    accessTokens,
+    users,
+    emailTokens,
+    sessions,
+    passwordResets: createPasswordResetService(accountMail),
+    members: createMemberService({ ...accountMail, clock }),
+    organizations: createOrganizationService({ db, clock }),
+    allowedOrigins: createAllowedOrigins({ db, clock }),
+    audit: createAuditService({ db, clock }),
+    mailer,
+    plans,
+    quotas,
+    usageMeter,
+    rateLimitStores: createRateLimitStores(deps.config.redisUrl, deps.logger),
+  };
+}
+
+export type Services = ReturnType<typeof createServices>;

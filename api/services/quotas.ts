@@ -1,0 +1,247 @@
+import { and, eq, gte, inArray, lt, sql } from 'drizzle-orm';
+import type { Logger } from 'pino';
+import type { Db } from '../db/client.js';
+import { organizations, quotaNotices, usageCounters } from '../db/schema.js';
+import type { Mailer } from './mailer.js';
+import { adminEmails } from './org-admins.js';
+import type { Plan, PlanService } from './plans.js';
+import type { FlushObserver } from './usage-meter.js';
+
+/** Admins are told once each per organisation and month when usage reaches these shares. */
+export const QUOTA_WARNING_PERCENTS = [80, 100] as const;
+
+/**
+ * One organisation's calls in one month, as this instance knows them. `base` is what the
+ * database held at the last sync; `unsynced` counts calls served here since then (some may be
+ * written already, the sync tells); `inFlight` are admitted calls still running.
+ */
+interface MonthTally {
+  organizationId: string;
+  month: string; // YYYY-MM (UTC)
+  ready: Promise<void>;
+  base: number;
+  unsynced: number;
+  inFlight: number;
+  noticed: Set<number>;
+}
+
+/** An admitted call; settle() once when it has been answered (idempotent). */
+export interface QuotaTicket {
+  settle(): void;
+}
+
+export interface QuotaStanding {
+  plan: Plan;
+  month: string;
+  used: number;
+  remaining: number;
+  resetsAt: Date;
+}
+
+export type QuotaDecision = (QuotaStanding & { admitted: true; ticket: QuotaTicket }) | (QuotaStanding & { admitted: false });
+
+export function monthOf(at: Date): string {
+  return at.toISOString().slice(0, 7);
+}
+
+function monthBounds(month: string): { start: string; end: Date } {
+  const [y, m] = month.split('-').map(Number);
+  return { start: `${month}-01`, end: new Date(Date.UTC(y, m, 1)) };
+}
+
+/**
+ * Monthly call quotas from each organisation's plan. The month's count is loaded once from
+ * usage_counters and then kept in memory: no query per request. After every usage flush it is
+ * re-read, so several instances converge on one count (each may overshoot by what the others
+ * served since their last flush).
+ */
+export function createQuotaService({
+  db,
+  plans,
+  mailer,
+  clock,
+  logger,
+  publicUrl,
+}: {
+  db: Db;
+  plans: PlanService;
+  mailer: Mailer;
+  clock: () => Date;
+  logger: Logger;
+  publicUrl: string;
+}) {
+  const tallies = new Map<string, MonthTally>();
+  const pendingNotices = new Set<Promise<void>>();
+
+  const monthTotals = async (wanted: { organizationId: string; month: string }[]): Promise<Map<string, number>> => {
+    const totals = new Map<string, number>();
+    if (wanted.length === 0) return totals;
+    const months = [...new Set(wanted.map((w) => w.month))].sort();
+    const monthExpr = sql<string>`to_char(${usageCounters.day}, 'YYYY-MM')`;
+    const rows = await db
+      .select({
+        organizationId: usageCounters.organizationId,
+        month: monthExpr,
+        used: sql<string>`sum(${usageCounters.count} - ${usageCounters.limited})`,
+      })
+      .from(usageCounters)
+      .where(
+        and(
+          inArray(usageCounters.organizationId, [...new Set(wanted.map((w) => w.organizationId))]),
+          gte(usageCounters.day, monthBounds(months[0]).start),
+          lt(usageCounters.day, monthBounds(months[months.length - 1]).end.toISOString().slice(0, 10)),
+        ),
+      )
+      .groupBy(usageCounters.organizationId, monthExpr);
+    for (const r of rows) totals.set(`${r.organizationId}|${r.month}`, Number(r.used));
+    return totals;
+  };
+
+  const tallyFor = async (organizationId: string, month: string): Promise<MonthTally> => {
+    const id = `${organizationId}|${month}`;
+    let tally = tallies.get(id);
+    if (!tally) {
+      const created: MonthTally = { organizationId, month, ready: Promise.resolve(), base: 0, unsynced: 0, inFlight: 0, noticed: new Set() };
+      created.ready = monthTotals([{ organizationId, month }]).then(
+        (totals) => {
+          created.base = totals.get(id) ?? 0;
+        },
+        (err) => {
+          tallies.delete(id); // the next call tries again
+          throw err;
+        },
+      );
+      tallies.set(id, created);
+      tally = created;
+    }
+    await tally.ready;
+    return tally;
+  };
+
+  const sendNotice = async (tally: MonthTally, percent: number, plan: Plan, used: number) => {
+    const inserted = await db
+      .insert(quotaNotices)
+      .values({ organizationId: tally.organizationId, month: tally.month, thresholdPercent: percent, sentAt: clock() })
+      .onConflictDoNothing()
+      .returning({ month: quotaNotices.month });
+    if (inserted.length === 0) return; // another instance (or an earlier run) sent it
+    try {
+      const [org] = await db.select({ name: organizations.name }).from(organizations).where(eq(organizations.id, tally.organizationId));
+      const to = await adminEmails(db, tally.organizationId);
+      if (to.length === 0 || !org) return;
+      const message = noticeText(org.name, percent, plan, used, tally.month, publicUrl);
+      await Promise.all(to.map((address) => mailer.send({ to: address, ...message })));
+    } catch (err) {
+      // Not sent: forget the notice so a later call tries again.
+      await db
+        .delete(quotaNotices)
+        .where(
+          and(eq(quotaNotices.organizationId, tally.organizationId), eq(quotaNotices.month, tally.month), eq(quotaNotices.thresholdPercent, percent)),
+        );
+      tally.noticed.delete(percent);
+      throw err;
+    }
+  };
+
+  const warnIfDue = (tally: MonthTally, plan: Plan, used: number) => {
+    for (const percent of QUOTA_WARNING_PERCENTS) {
+      if (tally.noticed.has(percent) || used * 100 < plan.monthlyQuota * percent) continue;
+      tally.noticed.add(percent);
+      const work = sendNotice(tally, percent, plan, used)
+        .catch((err) => logger.error({ err, organizationId: tally.organizationId, percent }, 'quota notice not sent'))
+        .finally(() => pendingNotices.delete(work));
+      pendingNotices.add(work);
+    }
+  };
+
+  const standing = (tally: MonthTally, plan: Plan, used: number): QuotaStanding => ({
+    plan,
+    month: tally.month,
+    used,
+    remaining: Math.max(0, plan.monthlyQuota - used),
+    resetsAt: monthBounds(tally.month).end,
+  });
+
+  const observer: FlushObserver = {
+    flushing() {
+      const snapshot = [...tallies.values()].map((tally) => ({ tally, unsynced: tally.unsynced }));
+      return {
+        async written() {
+          if (snapshot.length === 0) return;
+          const totals = await monthTotals(snapshot.map((s) => s.tally));
+          for (const { tally, unsynced } of snapshot) {
+            tally.base = totals.get(`${tally.organizationId}|${tally.month}`) ?? 0;
+            tally.unsynced -= unsynced;
+          }
+          const current = monthOf(clock());
+          for (const [id, tally] of tallies) {
+            if (tally.month !== current && tally.unsynced === 0 && tally.inFlight === 0) tallies.delete(id);
+          }
+        },
+      };
+    },
+    async idle() {
+      while (pendingNotices.size > 0) await Promise.all([...pendingNotices]);
+    },
+  };
+
+  return {
+    /** Counts the call against the month of `at` if the quota allows it. */
+    async admit(organizationId: string, at: Date): Promise<QuotaDecision> {
+      const plan = await plans.forOrganization(organizationId);
+      const tally = await tallyFor(organizationId, monthOf(at));
+      const used = tally.base + tally.unsynced + tally.inFlight;
+      if (used >= plan.monthlyQuota) return { admitted: false, ...standing(tally, plan, used) };
+      tally.inFlight += 1;
+      warnIfDue(tally, plan, used + 1);
+      let settled = false;
+      const ticket: QuotaTicket = {
+        settle() {
+          if (settled) return;
+          settled = true;
+          tally.inFlight -= 1;
+          tally.unsynced += 1;
+        },
+      };
+      return { admitted: true, ticket, ...standing(tally, plan, used + 1) };
+    },
+
+    /** Calls served this month (on the injected clock), for the usage API. */
+    async standing(organizationId: string): Promise<QuotaStanding> {
+      const plan = await plans.forOrganization(organizationId);
+      const tally = await tallyFor(organizationId, monthOf(clock()));
+      return standing(tally, plan, tally.base + tally.unsynced);
+    },
+
+    /** Hand this to the usage meter, which tells it when counts reach the database. */
+    observer,
+
+    /** Resolves when every quota e-mail started so far has been sent (or has failed). */
+    idle: () => observer.idle!(),
+  };
+}
+
+function noticeText(orgName: string, percent: number, plan: Plan, used: number, month: string, publicUrl: string) {
+  const resets = monthBounds(month).end.toISOString().slice(0, 10);
+  const reached = percent >= 100;
+  const subject = reached
+    ? `Treadwise: ${orgName} has used its monthly API calls`
+    : `Treadwise: ${orgName} has used ${percent} % of its monthly API calls`;
+  const consequence = reached
+    ? `Further calls with the organisation's API keys are refused (HTTP 429, quota_exceeded) until the quota starts again on ${resets} at 00:00 UTC.`
+    : `When all of them are used, calls with the organisation's API keys are refused until the quota starts again on ${resets} at 00:00 UTC.`;
+  const text = [
+    'Hello,',
+    '',
+    `${orgName} has made ${used} of the ${plan.monthlyQuota} API calls that its ${plan.name} plan includes for ${month} (${percent} %).`,
+    consequence,
+    '',
+    `Usage by day, key and route: GET ${publicUrl}/v1/usage (or the usage page of the console at ${publicUrl}/).`,
+    'For a larger plan, ask the Treadwise team.',
+    '',
+    '— Treadwise',
+  ].join('\n');
+  return { subject, text };
+}
+
+export type QuotaService = ReturnType<typeof createQuotaService>;

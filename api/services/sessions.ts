@@ -1,0 +1,142 @@
+import { createHmac, randomBytes, randomUUID } from 'node:crypto';
+import { and, eq, isNull, sql } from 'drizzle-orm';
+import type { Session } from '../../shared/schemas/accounts.js';
+import type { AccessTokens } from '../auth/access-tokens.js';
+import { verifyPassword } from '../auth/passwords.js';
+import type { Db } from '../db/client.js';
+import { refreshTokens, users } from '../db/schema.js';
+import { userView, type UserRow, type UserService } from './users.js';
+
+export const REFRESH_TOKEN_TTL_MS = 30 * 24 * 3600 * 1000;
+
+/**
+ * Lockout: the 5th failure in a row locks the account for 1 minute; each further failure after
+ * a lock doubles it, up to 1 hour. Common practice, no published source for these numbers.
+ */
+export const LOCKOUT = { freeFailures: 5, firstLockMs: 60_000, maxLockMs: 3_600_000 } as const;
+
+export function lockDurationMs(failures: number): number {
+  if (failures < LOCKOUT.freeFailures) return 0;
+  const doublings = Math.min(failures - LOCKOUT.freeFailures, 20);
+  return Math.min(LOCKOUT.firstLockMs * 2 ** doublings, LOCKOUT.maxLockMs);
+}
+
+export type SignInResult =
+  | { ok: true; session: Session; user: UserRow; userId: string }
+  | { ok: false; reason: 'unknown_email' | 'bad_password'; userId: string | null }
+  | { ok: false; reason: 'locked'; userId: string; retryAfterS: number };
+
+export type RefreshResult =
+  | { ok: true; session: Session; userId: string }
+  | { ok: false; reason: 'unknown' | 'expired' | 'revoked'; userId: string | null }
+  /** A token already exchanged came back: someone holds a copy, so the whole family is revoked. */
+  | { ok: false; reason: 'reused'; userId: string };
+
+interface SessionDeps {
+  db: Db;
+  pepper: Buffer;
+  clock: () => Date;
+  accessTokens: AccessTokens;
+  users: UserService;
+}
+
+/** Sign-in, refresh-token rotation with reuse detection, and sign-out. */
+export function createSessionService({ db, pepper, clock, accessTokens, users: userService }: SessionDeps) {
+  const digest = (token: string) => createHmac('sha256', pepper).update(`refresh-token.${token}`).digest('hex');
+
+  /** A new refresh token in `familyId` plus an access token, as the API returns them. */
+  async function issue(user: UserRow, familyId: string, tx: Db = db): Promise<Session> {
+    const now = clock();
+    const refreshToken = randomBytes(32).toString('base64url');
+    const refreshTokenExpiresAt = new Date(now.getTime() + REFRESH_TOKEN_TTL_MS);
+    await tx.insert(refreshTokens).values({ userId: user.id, familyId, tokenHash: digest(refreshToken), expiresAt: refreshTokenExpiresAt, createdAt: now });
+    const access = await accessTokens.sign({ sub: user.id, email: user.email });
+    return {
+      accessToken: access.token,
+      accessTokenExpiresAt: access.expiresAt.toISOString(),
+      refreshToken,
+      refreshTokenExpiresAt: refreshTokenExpiresAt.toISOString(),
+      user: userView(user),
+      memberships: await userService.membershipsOf(user.id, tx),
+    };
+  }
+
+  async function revokeFamily(familyId: string, tx: Db = db): Promise<void> {
+    await tx.update(refreshTokens).set({ revokedAt: clock() }).where(and(eq(refreshTokens.familyId, familyId), isNull(refreshTokens.revokedAt)));
+  }
+
+  return {
+    /** A session for a user already proven (invitation accepted): a new token family. */
+    startSession(user: UserRow, tx: Db = db): Promise<Session> {
+      return issue(user, randomUUID(), tx);
+    },
+
+    async signIn(email: string, password: string): Promise<SignInResult> {
+      const user = await userService.findByEmail(email);
+      if (!user) {
+        await verifyPassword(null, password);
+        return { ok: false, reason: 'unknown_email', userId: null };
+      }
+      const now = clock();
+      if (user.lockedUntil && user.lockedUntil > now) {
+        // No password check while locked: guesses made now cannot succeed and do not count.
+        return { ok: false, reason: 'locked', userId: user.id, retryAfterS: Math.ceil((user.lockedUntil.getTime() - now.getTime()) / 1000) };
+      }
+      if (!(await verifyPassword(user.passwordHash, password))) {
+        const [counted] = await db
+          .update(users)
+          .set({ failedSignIns: sql`${users.failedSignIns} + 1` })
+          .where(eq(users.id, user.id))
+          .returning({ failedSignIns: users.failedSignIns });
+        const lockMs = lockDurationMs(counted?.failedSignIns ?? 0);
+        if (lockMs > 0) await db.update(users).set({ lockedUntil: new Date(now.getTime() + lockMs) }).where(eq(users.id, user.id));
+        return { ok: false, reason: 'bad_password', userId: user.id };
+      }
+      if (user.failedSignIns > 0 || user.lockedUntil) await db.update(users).set({ failedSignIns: 0, lockedUntil: null }).where(eq(users.id, user.id));
+      return { ok: true, session: await issue(user, randomUUID()), user, userId: user.id };
+    },
+
+    /** Exchanges a refresh token for a new pair; the presented one is used up. */
+    async refresh(token: string): Promise<RefreshResult> {
+      const [row] = await db.select().from(refreshTokens).where(eq(refreshTokens.tokenHash, digest(token)));
+      if (!row) return { ok: false, reason: 'unknown', userId: null };
+      if (row.revokedAt) return { ok: false, reason: 'revoked', userId: row.userId };
+      if (row.usedAt) {
+        await revokeFamily(row.familyId);
+        return { ok: false, reason: 'reused', userId: row.userId };
+      }
+      const now = clock();
+      if (row.expiresAt <= now) return { ok: false, reason: 'expired', userId: row.userId };
+
+      return db.transaction(async (tx) => {
+        // Conditional, so two concurrent exchanges of one token cannot both win: the loser is a reuse.
+        const [claimed] = await tx
+          .update(refreshTokens)
+          .set({ usedAt: now })
+          .where(and(eq(refreshTokens.id, row.id), isNull(refreshTokens.usedAt), isNull(refreshTokens.revokedAt)))
+          .returning();
+        const user = claimed ? await userService.get(row.userId, tx) : undefined;
+        if (!claimed || !user) {
+          await revokeFamily(row.familyId, tx);
+          return { ok: false as const, reason: 'reused' as const, userId: row.userId };
+        }
+        return { ok: true as const, session: await issue(user, row.familyId, tx), userId: user.id };
+      });
+    },
+
+    /** Revokes the token's whole family; the user id when the token was known. */
+    async signOut(token: string): Promise<string | null> {
+      const [row] = await db.select().from(refreshTokens).where(eq(refreshTokens.tokenHash, digest(token)));
+      if (!row) return null;
+      await revokeFamily(row.familyId);
+      return row.userId;
+    },
+
+    /** Ends every session of a user (after a password reset). */
+    async revokeAllFor(userId: string, tx: Db = db): Promise<void> {
+      await tx.update(refreshTokens).set({ revokedAt: clock() }).where(and(eq(refreshTokens.userId, userId), isNull(refreshTokens.revokedAt)));
+    },
+  };
+}
+
+export type SessionService = ReturnType<typeof createSessionService>;

@@ -1,0 +1,1 @@
+ALTER TABLE "usage_counters" ADD COLUMN "limited" bigint DEFAULT 0 NOT NULL;

@@ -1,0 +1,209 @@
+import request from 'supertest';
+import { eq } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { hashSecret, parseKey } from '../../api/auth/key-format.js';
+import { apiKeys, auditEvents } from '../../api/db/schema.js';
+import { createKey, createOrganization } from '../support/fixtures.js';
+import { createTestApp, type TestApp } from '../support/test-app.js';
+
+let now = new Date('2026-12-01T10:00:00Z');
+const clock = () => now;
+const advance = (ms: number) => (now = new Date(now.getTime() + ms));
+
+let t: TestApp;
+let orgA: { id: string };
+let orgB: { id: string };
+let managerA: string;
+let managerB: string;
+const VD = { supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } };
+
+beforeAll(async () => {
+  t = await createTestApp({}, clock);
+  orgA = await createOrganization(t, 'harbor-lane-test');
+  orgB = await createOrganization(t, 'kestrel-finch-test');
+  managerA = (await createKey(t, orgA.id, { scopes: ['keys:manage', 'sizing:run', 'usage:read'] })).token;
+  managerB = (await createKey(t, orgB.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
+});
+afterAll(() => t.close());
+
+const as = (token: string) => ({
+  get: (path: string) => request(t.app).get(path).set('Authorization', `Bearer ${token}`),
+  post: (path: string, body?: object) => request(t.app).post(path).set('Authorization', `Bearer ${token}`).send(body ?? {}),
+});
+const size = (token: string, origin?: string) => {
+  const r = request(t.app).post('/v1/calculations/voltage-drop').set('Authorization', `Bearer ${token}`);
+  return (origin ? r.set('Origin', origin) : r).send(VD);
+};
+
+async function newSecretKey(scopes = ['sizing:run']) {
+  const res = await as(managerA).post('/v1/keys', { name: 'Checkout server', scopes }).expect(201);
+  return res.body as { key: { id: string; keyId: string }; token: string };
+}
+
+describe('creating keys', () => {
+  it('shows the whole key once and stores only an HMAC of its secret', async () => {
+    const { key, token } = await newSecretKey();
+    expect(token).toMatch(/^tw_sec_[a-z2-7]{12}_[A-Za-z0-9_-]{32}$/);
+    const parsed = parseKey(token)!;
+    expect(parsed.keyId).toBe(key.keyId);
+
+    const [row] = await t.database.db.select().from(apiKeys).where(eq(apiKeys.id, key.id));
+    expect(row.secretHash).toBe(hashSecret(t.secrets.pepper, key.keyId, parsed.secret));
+    expect(JSON.stringify(row)).not.toContain(parsed.secret);
+
+    const listed = await as(managerA).get('/v1/keys').expect(200);
+    expect(JSON.stringify(listed.body)).not.toContain(parsed.secret);
+    expect(JSON.stringify(listed.body)).not.toContain(row.secretHash);
+    const one = await as(managerA).get(`/v1/keys/${key.id}`).expect(200);
+    expect(one.body.token).toBeUndefined();
+    expect(one.body.keyId).toBe(key.keyId);
+
+    await size(token).expect(200);
+  });
+
+  it('never grants more scopes than the creator holds', async () => {
+    const res = await as(managerA).post('/v1/keys', { name: 'Too much', scopes: ['catalog:write'] }).expect(403);
+    expect(res.body.code).toBe('scope_exceeds_creator');
+    expect(res.body.errors[0].path).toBe('scopes');
+  });
+
+  it('requires allowed origins on a publishable key and gives it sizing only', async () => {
+    const missing = await as(managerA).post('/v1/keys', { name: 'Pages', kind: 'publishable' }).expect(400);
+    expect(missing.body.errors.map((e: { path: string }) => e.path)).toContain('allowedOrigins');
+    const wide = await as(managerA).post('/v1/keys', { name: 'Pages', kind: 'publishable', allowedOrigins: ['https://shop.example.test'], scopes: ['usage:read'] }).expect(400);
+    expect(wide.body.errors.map((e: { path: string }) => e.path)).toContain('scopes');
+  });
+
+  it('records api_key.created in the audit trail without the secret', async () => {
+    const { key, token } = await newSecretKey();
+    const events = await t.database.db.select().from(auditEvents).where(eq(auditEvents.targetId, key.keyId));
+    expect(events.map((e) => e.action)).toEqual(['api_key.created']);
+    expect(JSON.stringify(events)).not.toContain(parseKey(token)!.secret);
+  });
+
+  it('replays a create with the same Idempotency-Key and refuses the key with another body', async () => {
+    const first = await as(managerA).post('/v1/keys', { name: 'Retry-safe' }).set('Idempotency-Key', 'create-1').expect(201);
+    const again = await as(managerA).post('/v1/keys', { name: 'Retry-safe' }).set('Idempotency-Key', 'create-1').expect(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body).toEqual(first.body);
+    const other = await as(managerA).post('/v1/keys', { name: 'Something else' }).set('Idempotency-Key', 'create-1').expect(422);
+    expect(other.body.code).toBe('idempotency_key_reused');
+  });
+});
+
+describe('using keys', () => {
+  it('refuses malformed and tampered keys', async () => {
+    const { token } = await newSecretKey();
+    for (const bad of ['tw_sec_short', `${token.slice(0, -1)}${token.endsWith('A') ? 'B' : 'A'}`, token.replace('tw_sec_', 'tw_pub_'), token.toUpperCase()]) {
+      const res = await size(bad);
+      expect(res.status, bad).toBe(401);
+      expect(res.headers['content-type']).toContain('application/problem+json');
+    }
+  });
+
+  it('refuses a key without the scope the route needs', async () => {
+    const { token } = await newSecretKey(['usage:read']);
+    const res = await size(token).expect(403);
+    expect(res.body.code).toBe('insufficient_scope');
+  });
+
+  it('stops an expired key', async () => {
+    const res = await as(managerA).post('/v1/keys', { name: 'Short-lived', expiresAt: new Date(now.getTime() + 60_000).toISOString() }).expect(201);
+    await size(res.body.token).expect(200);
+    advance(61_000);
+    expect((await size(res.body.token).expect(401)).body.code).toBe('api_key_expired');
+  });
+});
+
+describe('rolling and revoking', () => {
+  it('keeps the old secret working for the grace period, then only the new one', async () => {
+    const { key, token: oldToken } = await newSecretKey();
+    const rolled = await as(managerA).post(`/v1/keys/${key.id}/roll`, { gracePeriodSeconds: 3600 }).expect(200);
+    const newToken = rolled.body.token as string;
+    expect(parseKey(newToken)!.keyId).toBe(key.keyId);
+    await size(oldToken).expect(200);
+    await size(newToken).expect(200);
+    advance(3601_000);
+    await size(oldToken).expect(401);
+    await size(newToken).expect(200);
+  });
+
+  it('ends the old secret at once with a grace period of 0', async () => {
+    const { key, token } = await newSecretKey();
+    await size(token).expect(200); // now cached by the hot path
+    const rolled = await as(managerA).post(`/v1/keys/${key.id}/roll`, { gracePeriodSeconds: 0 }).expect(200);
+    await size(token).expect(401);
+    await size(rolled.body.token).expect(200);
+  });
+
+  it('revokes at once, even a key the hot path has cached', async () => {
+    const { key, token } = await newSecretKey();
+    await size(token).expect(200);
+    const revoked = await as(managerA).post(`/v1/keys/${key.id}/revoke`).expect(200);
+    expect(revoked.body.status).toBe('revoked');
+    expect((await size(token).expect(401)).body.code).toBe('api_key_revoked');
+    await as(managerA).post(`/v1/keys/${key.id}/roll`, {}).expect(409);
+  });
+});
+
+describe('publishable keys in the browser', () => {
+  let pub: string;
+  beforeAll(async () => {
+    const res = await as(managerA)
+      .post('/v1/keys', { name: 'Product pages', kind: 'publishable', allowedOrigins: ['https://shop.harborlane.test', 'https://*.harborlane.test'] })
+      .expect(201);
+    pub = res.body.token;
+  });
+
+  it('works from an allowed origin and answers with CORS headers the page can read', async () => {
+    const res = await size(pub, 'https://shop.harborlane.test').expect(200);
+    expect(res.headers['access-control-allow-origin']).toBe('https://shop.harborlane.test');
+    expect(res.headers['access-control-expose-headers']).toContain('Request-Id');
+    expect(res.headers['access-control-expose-headers']).toContain('RateLimit');
+    await size(pub, 'https://checkout.eu.harborlane.test').expect(200);
+  });
+
+  it('is refused without an Origin, or from another origin', async () => {
+    expect((await size(pub).expect(403)).body.code).toBe('origin_required');
+    expect((await size(pub, 'https://harborlane.test').expect(403)).body.code).toBe('origin_not_allowed');
+    expect((await size(pub, 'https://shop.harborlane.test.evil.test').expect(403)).body.code).toBe('origin_not_allowed');
+  });
+
+  it('answers a preflight from the origin alone', async () => {
+    const ok = await request(t.app)
+      .options('/v1/estimates')
+      .set('Origin', 'https://shop.harborlane.test')
+      .set('Access-Control-Request-Method', 'POST')
+      .set('Access-Control-Request-Headers', 'authorization, content-type')
+      .expect(204);
+    expect(ok.headers['access-control-allow-origin']).toBe('https://shop.harborlane.test');
+    expect(ok.headers['access-control-allow-headers']).toContain('Authorization');
+    const denied = await request(t.app).options('/v1/estimates').set('Origin', 'https://elsewhere.test').set('Access-Control-Request-Method', 'POST').expect(204);
+    expect(denied.headers['access-control-allow-origin']).toBeUndefined();
+  });
+
+  it('cannot manage keys', async () => {
+    await as(pub).get('/v1/keys').set('Origin', 'https://shop.harborlane.test').expect(403);
+  });
+});
+
+describe('isolation between organisations', () => {
+  it('never shows, rolls or revokes another organisation’s key (404)', async () => {
+    const { key } = await newSecretKey();
+    await as(managerB).get(`/v1/keys/${key.id}`).expect(404);
+    await as(managerB).post(`/v1/keys/${key.id}/roll`, {}).expect(404);
+    await as(managerB).post(`/v1/keys/${key.id}/revoke`).expect(404);
+    const listed = await as(managerB).get('/v1/keys?limit=100').expect(200);
+    expect(listed.body.data.map((k: { id: string }) => k.id)).not.toContain(key.id);
+  });
+
+  it('pages through keys with a cursor', async () => {
+    const first = await as(managerA).get('/v1/keys?limit=2').expect(200);
+    expect(first.body.data).toHaveLength(2);
+    expect(first.body.hasMore).toBe(true);
+    const second = await as(managerA).get(`/v1/keys?limit=2&cursor=${first.body.nextCursor}`).expect(200);
+    const ids = [...first.body.data, ...second.body.data].map((k: { id: string }) => k.id);
+    expect(new Set(ids).size).toBe(ids.length);
+    await as(managerA).get('/v1/keys?cursor=not-a-cursor').expect(400);
+  });
+});
