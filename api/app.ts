@@ -29,7 +29,8 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
       genReqId: requestId,
       // Method, path and status are enough to follow a request; headers may carry credentials.
       serializers: {
-        req: (req) => ({ id: req.id, method: req.method, url: req.url, remoteAddress: req.remoteAddress }),
+        // The query string is dropped: e-mailed links carry single-use tokens there.
+        req: (req) => ({ id: req.id, method: req.method, url: String(req.url).split('?')[0], remoteAddress: req.remoteAddress }),
         res: (res) => ({ statusCode: res.statusCode }),
       },
       customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
@@ -45,6 +46,11 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   // A module this configuration disables does not exist: 404 before any credential check.
   const modules = enabledModules(routeModules, deps.config);
   for (const off of routeModules.filter((m) => !modules.includes(m))) app.use(off.basePath, notFoundHandler);
+  app.use('/v1', (_req, res, next) => {
+    // API answers are per caller and may carry credentials (tokens, new keys): never cache them.
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
   app.use('/v1', cors(services.allowedOrigins), authenticate({ db: deps.database.db, pepper: deps.secrets.pepper, clock: deps.clock, ...services }), authorize);
   app.use('/v1', ...trafficMiddleware(deps, services)); // limits, quota and metering: after authorize (needs principal and route)
   for (const module of modules) app.use(module.basePath, module.router(deps, services));

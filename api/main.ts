@@ -53,7 +53,7 @@ async function main(): Promise<void> {
     lines.push(`  Demo password for every demo account: ${DEMO_PASSWORD}`);
   }
   if (server.seed.seeded) {
-    lines.push('  Demo data seeded. Demo API keys (shown only now; create more in the console or at /v1/keys):');
+    lines.push('  Demo data seeded. Demo API keys (shown only now; create more with POST /v1/keys):');
     for (const key of server.seed.keys) {
       const where = key.allowedOrigins.length ? `  from ${key.allowedOrigins.join(', ')}` : '';
       lines.push(`    ${key.organization.padEnd(16)} ${key.kind.padEnd(12)} ${key.token}${where}`);

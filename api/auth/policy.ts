@@ -68,6 +68,15 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/audit-events': { role: 'admin' },
 };
 
+/** A malformed %-escape is just a path that matches nothing (404), not an error. */
+function safeDecode(segment: string): string {
+  try {
+    return decodeURIComponent(segment);
+  } catch {
+    return '\u0000';
+  }
+}
+
 interface CompiledPolicy {
   method: string;
   pattern: string;
@@ -77,7 +86,7 @@ interface CompiledPolicy {
 
 const compiled: CompiledPolicy[] = Object.entries(POLICIES).map(([route, policy]) => {
   const [method, pattern] = route.split(' ');
-  return { method, pattern, matches: match(pattern, { decode: decodeURIComponent }), policy };
+  return { method, pattern, matches: match(pattern, { decode: safeDecode }), policy };
 });
 
 type Found = { pattern: string; policy: Policy } | undefined;

@@ -8,6 +8,15 @@ interface BodyParserError {
   expose?: boolean;
 }
 
+/** Drizzle puts the query's parameters (which may be tokens or secrets) in its messages. */
+function loggable(err: unknown): unknown {
+  if (err && typeof err === 'object' && 'query' in err && 'params' in err) {
+    const e = err as { query: string; cause?: { message?: string; code?: string } };
+    return { type: 'DatabaseError', query: e.query, cause: e.cause?.message, code: e.cause?.code };
+  }
+  return err;
+}
+
 /** Maps errors from Express's own body parser to problems a client can act on. */
 function fromBodyParser(err: BodyParserError): HttpProblem | undefined {
   switch (err.type) {
@@ -19,6 +28,10 @@ function fromBodyParser(err: BodyParserError): HttpProblem | undefined {
     case 'charset.unsupported':
       return new HttpProblem(415, 'unsupported_encoding', 'Unsupported encoding', 'Send UTF-8 JSON.');
     default:
+      // Other client errors from Express itself (e.g. a malformed %-escape in a path parameter).
+      if (err.expose && err.status && err.status >= 400 && err.status < 500) {
+        return new HttpProblem(err.status, 'bad_request', 'Bad request', 'The request could not be understood.');
+      }
       return undefined;
   }
 }
@@ -32,7 +45,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
         ? problems.validation([{ path: err.path.join('.'), message: err.message }], 'The engine cannot size this input.')
         : (fromBodyParser(err as BodyParserError) ??
         new HttpProblem(500, 'internal_error', 'Internal server error', 'Something went wrong on our side.'));
-  if (problem.status >= 500) req.log?.error({ err }, 'request failed');
+  if (problem.status >= 500) req.log?.error({ err: loggable(err) }, 'request failed');
   if (res.headersSent) return;
   for (const [name, value] of Object.entries(problem.extra.headers ?? {})) res.setHeader(name, value);
   res

@@ -1,6 +1,6 @@
-import { createHash } from 'node:crypto';
+import { createCipheriv, createDecipheriv, createHash, createHmac, randomBytes } from 'node:crypto';
 import type { RequestHandler } from 'express';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, lt } from 'drizzle-orm';
 import type { Db } from '../db/client.js';
 import { idempotencyRecords } from '../db/schema.js';
 import { actorRef, principalOf } from '../auth/principal.js';
@@ -8,13 +8,45 @@ import { HttpProblem } from '../problem.js';
 
 const KEY = /^[\x21-\x7e]{1,255}$/;
 export const IDEMPOTENCY_WINDOW_MS = 24 * 60 * 60 * 1000;
+/** A first request still "running" after this long died with its process: let a retry take over. */
+const ABANDONED_AFTER_MS = 60 * 1000;
+
+interface Sealed {
+  iv: string;
+  tag: string;
+  data: string;
+}
+
+/**
+ * Stored responses can hold secrets shown once (a new key's token), so they are kept only
+ * encrypted (AES-256-GCM under a key derived from the server's pepper).
+ */
+function sealer(pepper: Buffer) {
+  const key = createHmac('sha256', pepper).update('treadwise idempotency v1').digest();
+  return {
+    seal(body: unknown): Sealed {
+      const iv = randomBytes(12);
+      const cipher = createCipheriv('aes-256-gcm', key, iv);
+      const data = Buffer.concat([cipher.update(JSON.stringify(body ?? null), 'utf8'), cipher.final()]);
+      return { iv: iv.toString('base64'), tag: cipher.getAuthTag().toString('base64'), data: data.toString('base64') };
+    },
+    open(sealed: Sealed): unknown {
+      const decipher = createDecipheriv('aes-256-gcm', key, Buffer.from(sealed.iv, 'base64'));
+      decipher.setAuthTag(Buffer.from(sealed.tag, 'base64'));
+      return JSON.parse(Buffer.concat([decipher.update(Buffer.from(sealed.data, 'base64')), decipher.final()]).toString('utf8'));
+    },
+  };
+}
+
+const inProgress = () => new HttpProblem(409, 'idempotency_request_in_progress', 'Request in progress', 'A request with this Idempotency-Key is still running.');
 
 /**
  * `Idempotency-Key` on a creating POST: the first response is stored per caller for 24 h and
  * replayed (`Idempotent-Replayed: true`); the same key with another body is a 422, and a retry
  * while the first is still running a 409.
  */
-export function idempotent({ db, clock }: { db: Db; clock: () => Date }): RequestHandler {
+export function idempotent({ db, clock, pepper }: { db: Db; clock: () => Date; pepper: Buffer }): RequestHandler {
+  const { seal, open } = sealer(pepper);
   return async (req, res, next) => {
     const key = req.get('Idempotency-Key');
     if (key === undefined) return next();
@@ -27,24 +59,26 @@ export function idempotent({ db, clock }: { db: Db; clock: () => Date }): Reques
       .update(`${req.method} ${req.baseUrl}${req.path}\n${JSON.stringify(req.body ?? null)}`)
       .digest('hex');
     const where = and(eq(idempotencyRecords.owner, owner), eq(idempotencyRecords.key, key));
+    const now = clock();
 
-    let [claimed] = await db.insert(idempotencyRecords).values({ owner, key, requestHash, createdAt: clock() }).onConflictDoNothing().returning();
+    // Expired records of this caller go first, so the table does not grow without bound.
+    await db.delete(idempotencyRecords).where(and(eq(idempotencyRecords.owner, owner), lt(idempotencyRecords.createdAt, new Date(now.getTime() - IDEMPOTENCY_WINDOW_MS))));
+    const claim = () => db.insert(idempotencyRecords).values({ owner, key, requestHash, createdAt: now }).onConflictDoNothing().returning();
+    let [claimed] = await claim();
     if (!claimed) {
       const [existing] = await db.select().from(idempotencyRecords).where(where);
-      if (existing && clock().getTime() - existing.createdAt.getTime() > IDEMPOTENCY_WINDOW_MS) {
-        await db.delete(idempotencyRecords).where(where);
-        [claimed] = await db.insert(idempotencyRecords).values({ owner, key, requestHash, createdAt: clock() }).onConflictDoNothing().returning();
+      if (!existing) throw inProgress();
+      if (existing.requestHash !== requestHash) {
+        throw new HttpProblem(422, 'idempotency_key_reused', 'Idempotency-Key reused', 'This Idempotency-Key was used with a different request.');
       }
-      if (!claimed) {
-        if (!existing) throw new HttpProblem(409, 'idempotency_request_in_progress', 'Request in progress', 'A request with this Idempotency-Key is still running.');
-        if (existing.requestHash !== requestHash) {
-          throw new HttpProblem(422, 'idempotency_key_reused', 'Idempotency-Key reused', 'This Idempotency-Key was used with a different request.');
-        }
-        if (existing.status === null) {
-          throw new HttpProblem(409, 'idempotency_request_in_progress', 'Request in progress', 'A request with this Idempotency-Key is still running.');
-        }
+      if (existing.status === null) {
+        if (now.getTime() - existing.createdAt.getTime() < ABANDONED_AFTER_MS) throw inProgress();
+        await db.delete(idempotencyRecords).where(and(where, eq(idempotencyRecords.createdAt, existing.createdAt)));
+        [claimed] = await claim();
+        if (!claimed) throw inProgress();
+      } else {
         res.setHeader('Idempotent-Replayed', 'true');
-        return res.status(existing.status).json(existing.body);
+        return res.status(existing.status).json(open(existing.body as Sealed));
       }
     }
 
@@ -55,11 +89,11 @@ export function idempotent({ db, clock }: { db: Db; clock: () => Date }): Reques
       const done =
         status >= 500
           ? db.delete(idempotencyRecords).where(where) // let the client retry a server failure
-          : db.update(idempotencyRecords).set({ status, body: body as object }).where(where);
+          : db.update(idempotencyRecords).set({ status, body: seal(body) }).where(where);
       done.then(
         () => json(body),
         (err) => {
-          req.log.error({ err }, 'idempotency record not saved');
+          req.log.error({ err: { message: 'idempotency record not saved', code: (err as { cause?: { code?: string } }).cause?.code } }, 'idempotency record not saved');
           json(body);
         },
       );

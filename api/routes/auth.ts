@@ -205,7 +205,8 @@ export const authRoutes: RouteModule = {
       summary: 'Accept an invitation',
       description:
         'Uses the token from an invitation link (once, within 7 days). A new address gets an account with the given name ' +
-        'and password; an existing account only gains the membership (name and password are then ignored). Answers with a session.',
+        'and password; an existing account gains the membership once its own password is confirmed in `password` (the link alone ' +
+        'never signs in to an existing account). Answers with a session.',
       request: { body: json(acceptInvitationRequestSchema) },
       responses: {
         200: session,

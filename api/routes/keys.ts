@@ -29,9 +29,24 @@ function grantableScopes(res: Response): readonly Scope[] {
   return [];
 }
 
-async function notifyAdmins(deps: AppDeps, services: Services, organizationId: string, subject: string, text: string) {
-  const to = await adminEmails(deps.database.db, organizationId);
-  await Promise.all(to.map((address) => services.mailer.send({ to: address, subject, text })));
+/**
+ * Tells the organisation's admins. Sent after the change is committed and not awaited: a mail
+ * failure must not turn a created or rolled key (whose token is in this response) into a 500.
+ */
+function notifyAdmins(deps: AppDeps, services: Services, organizationId: string, subject: string, text: string): void {
+  adminEmails(deps.database.db, organizationId)
+    .then((to) => Promise.all(to.map((address) => services.mailer.send({ to: address, subject, text }))))
+    .catch((err) => deps.logger.error({ err: { message: (err as Error).message } }, 'key notice not sent'));
+}
+
+/** A key may only act on keys it could have created: no more scopes than its own. */
+async function assertKeyMayManage(res: Response, services: Services, organizationId: string, id: string): Promise<void> {
+  const p = principalOf(res);
+  if (p.type !== 'api_key') return;
+  const target = await services.apiKeys.get(organizationId, id);
+  if (!target.scopes.every((s) => p.scopes.includes(s as Scope))) {
+    throw new HttpProblem(403, 'scope_exceeds_caller', 'Key too powerful', 'A key cannot roll or revoke a key with scopes it does not hold.');
+  }
 }
 
 export const keyRoutes: RouteModule = {
@@ -46,7 +61,7 @@ export const keyRoutes: RouteModule = {
       res.json(await apiKeys.list(organizationOf(res), res.locals.query as PageQuery));
     });
 
-    router.post('/', validateBody(createApiKeyRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock }), async (req, res) => {
+    router.post('/', validateBody(createApiKeyRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper }), async (req, res) => {
       const body = res.locals.body as CreateApiKeyRequest;
       const organizationId = organizationOf(res);
       const scopes = body.scopes ?? (['sizing:run'] as Scope[]);
@@ -62,6 +77,15 @@ export const keyRoutes: RouteModule = {
         throw new HttpProblem(400, 'validation_failed', 'Invalid request', 'The expiry is in the past.', { errors: [{ path: 'expiresAt', message: 'must be in the future' }] });
       }
       const p = principalOf(res);
+      if (p.type === 'api_key') {
+        // A key cannot outlive itself through the keys it makes.
+        const parent = await keyCache.get(p.keyId);
+        if (parent?.expiresAt && (!expiresAt || expiresAt > parent.expiresAt)) {
+          throw new HttpProblem(403, 'expiry_exceeds_creator', 'Expiry not grantable', `The new key must expire by ${parent.expiresAt.toISOString()}, as the key creating it does.`, {
+            errors: [{ path: 'expiresAt', message: `must be on or before ${parent.expiresAt.toISOString()}` }],
+          });
+        }
+      }
       const { key, token } = await apiKeys.create({
         organizationId,
         kind: body.kind,
@@ -80,7 +104,7 @@ export const keyRoutes: RouteModule = {
         targetId: key.keyId,
         data: { name: key.name, kind: key.kind, scopes: key.scopes, allowedOrigins: key.allowedOrigins },
       });
-      await notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" created`, `A ${key.kind} key ${key.keyId} ("${key.name}") was created with scopes ${key.scopes.join(', ')}.`);
+      notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" created`, `A ${key.kind} key ${key.keyId} ("${key.name}") was created with scopes ${key.scopes.join(', ')}.`);
       res.status(201).json({ key, token });
     });
 
@@ -91,21 +115,23 @@ export const keyRoutes: RouteModule = {
     router.post('/:id/roll', validateBody(rollApiKeyRequestSchema), async (req, res) => {
       const organizationId = organizationOf(res);
       const { gracePeriodSeconds } = res.locals.body as z.output<typeof rollApiKeyRequestSchema>;
+      await assertKeyMayManage(res, services, organizationId, idParam(req));
       const { key, token } = await apiKeys.roll(organizationId, idParam(req), gracePeriodSeconds);
       keyCache.invalidate(key.keyId);
       await audit.record(auditContext(req, res), { action: 'api_key.rolled', organizationId, targetType: 'api_key', targetId: key.keyId, data: { gracePeriodSeconds } });
-      await notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" rolled`, `Key ${key.keyId} ("${key.name}") has a new secret. The old one works until ${key.previousSecretValidUntil ?? 'now'}.`);
+      notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" rolled`, `Key ${key.keyId} ("${key.name}") has a new secret. The old one works until ${key.previousSecretValidUntil ?? 'now'}.`);
       res.json({ key, token });
     });
 
     router.post('/:id/revoke', async (req, res) => {
       const organizationId = organizationOf(res);
+      await assertKeyMayManage(res, services, organizationId, idParam(req));
       const { key, changed } = await apiKeys.revoke(organizationId, idParam(req));
       keyCache.invalidate(key.keyId);
       services.allowedOrigins.invalidate();
       if (changed) {
         await audit.record(auditContext(req, res), { action: 'api_key.revoked', organizationId, targetType: 'api_key', targetId: key.keyId });
-        await notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" revoked`, `Key ${key.keyId} ("${key.name}") was revoked and no longer works.`);
+        notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" revoked`, `Key ${key.keyId} ("${key.name}") was revoked and no longer works.`);
       }
       res.json(key);
     });

@@ -27,7 +27,7 @@ export const memberRoutes: RouteModule = {
       res.json(await members.list(organizationOf(res), res.locals.query as PageQuery));
     });
 
-    router.post('/invitations', validateBody(createInvitationRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock }), async (req, res) => {
+    router.post('/invitations', validateBody(createInvitationRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper }), async (req, res) => {
       const { email, role } = res.locals.body as z.output<typeof createInvitationRequestSchema>;
       const organizationId = organizationOf(res);
       const invitation = await members.invite({ organizationId, email, role });

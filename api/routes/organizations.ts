@@ -38,7 +38,7 @@ export const organizationRoutes: RouteModule = {
       res.json(await organizations.list(scopeOf(res), res.locals.query as PageQuery));
     });
 
-    router.post('/', validateBody(createOrganizationRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock }), async (req, res) => {
+    router.post('/', validateBody(createOrganizationRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper }), async (req, res) => {
       const organization = await organizations.create(res.locals.body as CreateOrganizationRequest);
       await audit.record(auditContext(req, res), {
         action: 'organization.created',

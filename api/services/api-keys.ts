@@ -37,7 +37,7 @@ export interface CreateKeyInput {
 }
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
-const cursorSchema = z.tuple([z.string(), z.string()]);
+const cursorSchema = z.tuple([z.iso.datetime(), z.uuid()]);
 
 export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buffer; clock: () => Date }) {
   const view = (row: ApiKeyRow): ApiKeyView => {
@@ -130,8 +130,10 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
           previousSecretHash: graceSeconds > 0 ? current.secretHash : null,
           previousValidUntil: graceSeconds > 0 ? new Date(now.getTime() + graceSeconds * 1000) : null,
         })
-        .where(eq(apiKeys.id, current.id))
+        // Only if nobody rolled it meanwhile: two rolls at once must not hand out a dead token.
+        .where(and(eq(apiKeys.id, current.id), eq(apiKeys.secretHash, current.secretHash)))
         .returning();
+      if (!row) throw problems.conflict('key_changed', 'The key was rolled by another request at the same time; try again.');
       return { key: view(row), token: formatKey(row.kind, row.keyId, secret), row };
     },
 

@@ -48,7 +48,7 @@ export function createMailer({ db, smtpUrl, from, clock }: { db: Db; smtpUrl?: s
     },
 
     async outbox(page: PageQuery): Promise<Page<OutboxMessageView>> {
-      const before = decodeCursor(page.cursor, z.tuple([z.string(), z.string()]));
+      const before = decodeCursor(page.cursor, z.tuple([z.iso.datetime(), z.uuid()]));
       const rows = await db
         .select()
         .from(outboxMessages)

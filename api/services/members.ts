@@ -1,7 +1,7 @@
 import { and, asc, eq, gt } from 'drizzle-orm';
 import { z } from 'zod';
 import type { InvitationView, MemberView, Session } from '../../shared/schemas/accounts.js';
-import { hashPassword } from '../auth/passwords.js';
+import { hashPassword, verifyPassword } from '../auth/passwords.js';
 import type { Role } from '../auth/scopes.js';
 import type { Db } from '../db/client.js';
 import { memberships, organizations, users } from '../db/schema.js';
@@ -177,7 +177,8 @@ export function createMemberService({ db, clock, publicUrl, users: userService, 
 
     /**
      * Uses an invitation: creates the account (name and password needed) or, for an existing
-     * account, only adds the membership. Either way the result is a signed-in session.
+     * account, adds the membership once its own password is confirmed. Either way the result is
+     * a signed-in session.
      */
     async acceptInvitation(input: { token: string; name?: string; password?: string }): Promise<AcceptedInvitation> {
       const invitation = await emailTokens.peek('invitation', input.token);
@@ -190,6 +191,15 @@ export function createMemberService({ db, clock, publicUrl, users: userService, 
           ...(existing || input.name ? [] : [{ path: 'name', message: 'needed to create the account' }]),
         ];
         if (missing.length) throw problems.validation(missing, 'This invitation creates a new account: give a name and a password.');
+      } else {
+        // The link alone must not sign anyone in to an account that already has a password:
+        // a forwarded invitation would otherwise hand over that whole account.
+        if (!input.password) {
+          throw problems.validation([{ path: 'password', message: 'the password of your existing account' }], 'You already have an account: confirm with its password.');
+        }
+        if (!(await verifyPassword(existing.passwordHash, input.password))) {
+          throw new HttpProblem(401, 'invalid_credentials', 'Unauthenticated', 'The password of the existing account is wrong.');
+        }
       }
       const passwordHash = needsPassword && input.password ? await hashPassword(input.password) : null;
       const organizationId = invitation.organizationId;
@@ -206,7 +216,7 @@ export function createMemberService({ db, clock, publicUrl, users: userService, 
             .onConflictDoNothing({ target: users.email })
             .returning();
           user ??= await userService.findByEmail(invitation.email, tx);
-        } else if (passwordHash) {
+        } else if (passwordHash && needsPassword) {
           [user] = await tx
             .update(users)
             .set({ passwordHash, name: user.name ?? input.name ?? null })

@@ -17,6 +17,8 @@ const originPattern = z
   .string()
   .max(253)
   .regex(/^https?:\/\/(\*\.)?[a-z0-9-]+(\.[a-z0-9-]+)*(:\d{1,5})?$/, 'an origin like https://shop.example.test or https://*.example.test')
+  // A wildcard needs a registrable domain under it: https://*.test would open the key to a whole TLD.
+  .refine((o) => !o.includes('*.') || /^https?:\/\/\*\.[a-z0-9-]+\.[a-z0-9-]+/.test(o), 'a wildcard needs at least two labels after "*." (https://*.example.test)')
   .meta({ example: 'https://shop.harborlane.test' });
 
 export const createApiKeyRequestSchema = z

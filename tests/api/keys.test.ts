@@ -2,7 +2,7 @@ import request from 'supertest';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashSecret, parseKey } from '../../api/auth/key-format.js';
-import { apiKeys, auditEvents } from '../../api/db/schema.js';
+import { apiKeys, auditEvents, idempotencyRecords } from '../../api/db/schema.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
@@ -88,6 +88,35 @@ describe('creating keys', () => {
     expect(again.body).toEqual(first.body);
     const other = await as(managerA).post('/v1/keys', { name: 'Something else' }).set('Idempotency-Key', 'create-1').expect(422);
     expect(other.body.code).toBe('idempotency_key_reused');
+  });
+});
+
+describe('what a key may do to other keys', () => {
+  it('cannot roll or revoke a key with scopes it does not hold', async () => {
+    const narrow = await as(managerA).post('/v1/keys', { name: 'Key admin only', scopes: ['keys:manage'] }).expect(201);
+    const strong = await newSecretKey(['sizing:run', 'usage:read']);
+    expect((await as(narrow.body.token).post(`/v1/keys/${strong.key.id}/roll`, {}).expect(403)).body.code).toBe('scope_exceeds_caller');
+    expect((await as(narrow.body.token).post(`/v1/keys/${strong.key.id}/revoke`).expect(403)).body.code).toBe('scope_exceeds_caller');
+    await size(strong.token).expect(200);
+  });
+
+  it('cannot make a key that outlives it', async () => {
+    const parent = await as(managerA).post('/v1/keys', { name: 'Temporary manager', scopes: ['keys:manage', 'sizing:run'], expiresAt: new Date(now.getTime() + 3600_000).toISOString() }).expect(201);
+    const forever = await as(parent.body.token).post('/v1/keys', { name: 'Forever' }).expect(403);
+    expect(forever.body.code).toBe('expiry_exceeds_creator');
+    await as(parent.body.token).post('/v1/keys', { name: 'Within', expiresAt: new Date(now.getTime() + 1800_000).toISOString() }).expect(201);
+  });
+
+  it('refuses a wildcard origin over a whole top-level domain', async () => {
+    const res = await as(managerA).post('/v1/keys', { name: 'Too wide', kind: 'publishable', allowedOrigins: ['https://*.test'] }).expect(400);
+    expect(res.body.errors.map((e: { path: string }) => e.path)).toContain('allowedOrigins.0');
+  });
+
+  it('keeps a replayable create only encrypted: the token is not in the database', async () => {
+    const res = await as(managerA).post('/v1/keys', { name: 'Sealed' }).set('Idempotency-Key', 'sealed-1').expect(201);
+    const rows = await t.database.db.select().from(idempotencyRecords).where(eq(idempotencyRecords.key, 'sealed-1'));
+    expect(rows).toHaveLength(1);
+    expect(JSON.stringify(rows[0].body)).not.toContain(parseKey(res.body.token)!.secret);
   });
 });
 

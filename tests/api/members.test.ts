@@ -166,12 +166,17 @@ describe('invitations', () => {
     expect(twice.body.code).toBe('invalid_token');
   });
 
-  it('adds an existing account without asking for a password, and leaves that password alone', async () => {
+  it('adds an existing account only once its own password is confirmed, and leaves that password alone', async () => {
     const first = await team('first-org');
     const second = await team('second-org');
     await request(t.app).post('/v1/members/invitations').set(bearer(second.tokens.admin)).send({ email: first.estimator.email, role: 'estimator' }).expect(201);
     const token = await invitationToken(first.estimator.email);
-    const res = await request(t.app).post('/v1/auth/invitations/accept').send({ token, password: 'ignored-password-here' }).expect(200);
+    // The link alone must not sign in to the existing account.
+    const bare = await request(t.app).post('/v1/auth/invitations/accept').send({ token }).expect(400);
+    expect(bare.body.errors.map((e: { path: string }) => e.path)).toEqual(['password']);
+    const wrong = await request(t.app).post('/v1/auth/invitations/accept').send({ token, password: 'not-the-right-password' }).expect(401);
+    expect(wrong.body.code).toBe('invalid_credentials');
+    const res = await request(t.app).post('/v1/auth/invitations/accept').send({ token, password: TEST_PASSWORD }).expect(200);
     expect(res.body.memberships.map((m: { organization: { slug: string } }) => m.organization.slug)).toEqual(['first-org', 'second-org']);
     await signIn(t.app, first.estimator.email, TEST_PASSWORD);
     const joined = (await t.database.db.select().from(auditEvents).where(eq(auditEvents.action, 'member.joined'))).filter(
