@@ -1,14 +1,7 @@
+import { SCOPE_VALUES } from '../../shared/schemas/api-keys.js';
+
 /** What an API key may do. Publishable (browser) keys only ever get `sizing:run`. */
-export const SCOPES = [
-  'sizing:run',
-  'projects:read',
-  'projects:write',
-  'catalog:read',
-  'catalog:write',
-  'batches:write',
-  'usage:read',
-  'keys:manage',
-] as const;
+export const SCOPES = SCOPE_VALUES;
 export type Scope = (typeof SCOPES)[number];
 
 export const PUBLISHABLE_SCOPES: readonly Scope[] = ['sizing:run'];
