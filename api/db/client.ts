@@ -19,7 +19,19 @@ export interface Database {
   /** Runs `fn` while holding a database-wide advisory lock (migrations, seeding). */
   withLock<T>(key: number, fn: (db: Db) => Promise<T>): Promise<T>;
   ping(): Promise<void>;
+  /**
+   * LISTEN on a channel (PostgreSQL NOTIFY on both drivers), so every instance on this database
+   * hears of changes made by another — e.g. a revoked key. Stops when the database closes.
+   */
+  subscribe(channel: string, onMessage: (payload: string) => void): Promise<void>;
+  publish(channel: string, payload: string): Promise<void>;
   close(): Promise<void>;
+}
+
+const CHANNEL = /^[a-z_][a-z0-9_]{0,62}$/;
+function checkChannel(channel: string): string {
+  if (!CHANNEL.test(channel)) throw new Error(`Invalid channel name: ${channel}`);
+  return channel;
 }
 
 export interface DatabaseOptions {
@@ -53,6 +65,12 @@ async function openPglite(dataDir = 'memory://'): Promise<Database> {
     ping: async () => {
       await client.query('select 1');
     },
+    subscribe: async (channel, onMessage) => {
+      await client.listen(checkChannel(channel), onMessage);
+    },
+    publish: async (channel, payload) => {
+      await client.query('select pg_notify($1, $2)', [checkChannel(channel), payload]);
+    },
     close: () => client.close(),
   };
 }
@@ -68,6 +86,7 @@ async function openPostgres(url: string, schemaName?: string): Promise<Database>
   });
   if (schemaName) await pool.query(`create schema if not exists "${schemaName}"`);
   const db = drizzlePg(pool, { schema }) as unknown as Db;
+  const listeners: pg.Client[] = [];
   return {
     db,
     kind: 'postgres',
@@ -86,6 +105,23 @@ async function openPostgres(url: string, schemaName?: string): Promise<Database>
     ping: async () => {
       await db.execute(sql`select 1`);
     },
-    close: () => pool.end(),
+    subscribe: async (channel, onMessage) => {
+      // LISTEN needs a connection of its own that stays open.
+      const listener = new pg.Client({ connectionString: url });
+      listener.on('notification', (n) => {
+        if (n.channel === channel && n.payload !== undefined) onMessage(n.payload);
+      });
+      listener.on('error', () => undefined); // a lost listener only delays cache expiry to its TTL
+      await listener.connect();
+      await listener.query(`listen "${checkChannel(channel)}"`);
+      listeners.push(listener);
+    },
+    publish: async (channel, payload) => {
+      await pool.query('select pg_notify($1, $2)', [checkChannel(channel), payload]);
+    },
+    close: async () => {
+      await Promise.all(listeners.splice(0).map((l) => l.end().catch(() => undefined)));
+      await pool.end();
+    },
   };
 }

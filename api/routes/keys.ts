@@ -54,7 +54,7 @@ export const keyRoutes: RouteModule = {
 
   router(deps, services) {
     const router = Router();
-    const { apiKeys, audit, keyCache } = services;
+    const { apiKeys, audit, keyCache } = services; // keyCache: the creating key's own row
     const idParam = (req: Request) => String(req.params.id);
 
     router.get('/', validateQuery(pageQuerySchema), async (_req, res) => {
@@ -96,7 +96,7 @@ export const keyRoutes: RouteModule = {
         createdByUserId: p.type === 'user' ? p.userId : null,
         createdByKeyId: p.type === 'api_key' ? p.keyId : null,
       });
-      services.allowedOrigins.invalidate();
+      await services.keyEvents.changed(key.keyId); // a new publishable key's origins, on every instance
       await audit.record(auditContext(req, res), {
         action: 'api_key.created',
         organizationId,
@@ -117,7 +117,7 @@ export const keyRoutes: RouteModule = {
       const { gracePeriodSeconds } = res.locals.body as z.output<typeof rollApiKeyRequestSchema>;
       await assertKeyMayManage(res, services, organizationId, idParam(req));
       const { key, token } = await apiKeys.roll(organizationId, idParam(req), gracePeriodSeconds);
-      keyCache.invalidate(key.keyId);
+      await services.keyEvents.changed(key.keyId);
       await audit.record(auditContext(req, res), { action: 'api_key.rolled', organizationId, targetType: 'api_key', targetId: key.keyId, data: { gracePeriodSeconds } });
       notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" rolled`, `Key ${key.keyId} ("${key.name}") has a new secret. The old one works until ${key.previousSecretValidUntil ?? 'now'}.`);
       res.json({ key, token });
@@ -127,8 +127,7 @@ export const keyRoutes: RouteModule = {
       const organizationId = organizationOf(res);
       await assertKeyMayManage(res, services, organizationId, idParam(req));
       const { key, changed } = await apiKeys.revoke(organizationId, idParam(req));
-      keyCache.invalidate(key.keyId);
-      services.allowedOrigins.invalidate();
+      await services.keyEvents.changed(key.keyId);
       if (changed) {
         await audit.record(auditContext(req, res), { action: 'api_key.revoked', organizationId, targetType: 'api_key', targetId: key.keyId });
         notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" revoked`, `Key ${key.keyId} ("${key.name}") was revoked and no longer works.`);

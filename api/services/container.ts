@@ -1,5 +1,6 @@
 import { createAccessTokens } from '../auth/access-tokens.js';
 import { createAllowedOrigins } from '../auth/allowed-origins.js';
+import { createKeyEvents } from '../auth/key-events.js';
 import { KeyCache } from '../auth/key-cache.js';
 import type { AppDeps } from '../deps.js';
 import { createApiKeyService } from './api-keys.js';
@@ -31,9 +32,12 @@ export function createServices(deps: AppDeps) {
   const plans = createPlanService({ db, clock });
   const quotas = createQuotaService({ db, plans, mailer, clock, logger: deps.logger, publicUrl: deps.config.publicUrl });
   const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, observer: quotas.observer });
+  const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
+  const allowedOrigins = createAllowedOrigins({ db, clock });
   return {
     apiKeys,
-    keyCache: new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime()),
+    keyCache,
+    keyEvents: createKeyEvents({ database: deps.database, keyCache, allowedOrigins, logger: deps.logger }),
     accessTokens,
     users,
     emailTokens,
@@ -41,7 +45,7 @@ export function createServices(deps: AppDeps) {
     passwordResets: createPasswordResetService(accountMail),
     members: createMemberService({ ...accountMail, clock }),
     organizations: createOrganizationService({ db, clock }),
-    allowedOrigins: createAllowedOrigins({ db, clock }),
+    allowedOrigins,
     audit: createAuditService({ db, clock }),
     mailer,
     plans,

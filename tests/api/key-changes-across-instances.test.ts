@@ -1,0 +1,40 @@
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { anotherInstance } from '../support/app-instance.js';
+import { createKey, createOrganization } from '../support/fixtures.js';
+import { createTestApp, type TestApp } from '../support/test-app.js';
+
+// Time stands still, so the 5 s key cache never expires on its own: only the database
+// notification can make instance B forget a key that instance A changed.
+const frozen = new Date('2026-12-01T10:00:00Z');
+let t: TestApp;
+let b: TestApp['app'];
+let manager: string;
+beforeAll(async () => {
+  t = await createTestApp({}, () => frozen);
+  b = anotherInstance(t, {}, () => frozen);
+  await Promise.all([t.app.locals.services.keyEvents.listening, b.locals.services.keyEvents.listening]);
+  const org = await createOrganization(t);
+  manager = (await createKey(t, org.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
+});
+afterAll(() => t.close());
+
+const VD = { supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } };
+const sizeOn = (app: TestApp['app'], token: string) => request(app).post('/v1/calculations/voltage-drop').set('Authorization', `Bearer ${token}`).send(VD);
+
+describe('a key changed on one instance', () => {
+  it('stops working on another instance that had it cached, without waiting for the cache to expire', async () => {
+    const created = await request(t.app).post('/v1/keys').set('Authorization', `Bearer ${manager}`).send({ name: 'Two servers' }).expect(201);
+    await sizeOn(b, created.body.token).expect(200); // cached on B now
+    await request(t.app).post(`/v1/keys/${created.body.key.id}/revoke`).set('Authorization', `Bearer ${manager}`).expect(200);
+    await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);
+  });
+
+  it('makes a rolled key’s old secret stop on the other instance when the grace period is 0', async () => {
+    const created = await request(t.app).post('/v1/keys').set('Authorization', `Bearer ${manager}`).send({ name: 'Rolled' }).expect(201);
+    await sizeOn(b, created.body.token).expect(200);
+    const rolled = await request(t.app).post(`/v1/keys/${created.body.key.id}/roll`).set('Authorization', `Bearer ${manager}`).send({ gracePeriodSeconds: 0 }).expect(200);
+    await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);
+    await sizeOn(b, rolled.body.token).expect(200);
+  });
+});
