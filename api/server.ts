@@ -42,6 +42,7 @@ export async function startServer(config: Config, logger: Logger): Promise<Runni
         server.closeIdleConnections();
       });
       // In-flight requests are done: write the buffered usage and last-used times, then close.
+      await app.locals.services.passwordResets.settled(); // reset mails started before the stop
       await app.locals.services.usageMeter.close();
       await app.locals.services.rateLimitStores.close();
       await database.close();

@@ -79,9 +79,15 @@ export const authRoutes: RouteModule = {
 
     router.post('/password-reset', validateBody(passwordResetRequestSchema), async (req, res) => {
       const { email } = res.locals.body as z.output<typeof passwordResetRequestSchema>;
-      const userId = await passwordResets.request(email);
-      if (userId) await audit.record(auditContext(req, res), { action: 'auth.password_reset_requested', organizationId: null, targetType: 'user', targetId: userId });
-      res.status(202).end(); // always: the answer must not tell which addresses have accounts
+      const ctx = auditContext(req, res);
+      // Answered before the lookup and the mail, and always 202: neither the answer nor its timing
+      // may tell which addresses have accounts.
+      passwordResets.requestInBackground(
+        email,
+        (userId) => audit.record(ctx, { action: 'auth.password_reset_requested', organizationId: null, targetType: 'user', targetId: userId }),
+        (err) => req.log.error({ err: { message: (err as Error).message } }, 'password reset not sent'),
+      );
+      res.status(202).end();
     });
 
     router.post('/password-reset/confirm', validateBody(passwordResetConfirmSchema), async (req, res) => {

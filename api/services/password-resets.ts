@@ -20,7 +20,25 @@ interface PasswordResetDeps {
 
 /** Password reset by a single-use link, valid for one hour. */
 export function createPasswordResetService({ db, publicUrl, users: userService, emailTokens, sessions, mailer }: PasswordResetDeps) {
+  const pending = new Set<Promise<unknown>>();
   return {
+    /**
+     * Starts `request(email)` without waiting for it, so the answer (202) takes the same time
+     * whether or not the address has an account. `done` gets the user id when one was mailed.
+     */
+    requestInBackground(email: string, done: (userId: string) => Promise<void>, onError: (err: unknown) => void): void {
+      const work = this.request(email)
+        .then((userId) => (userId ? done(userId) : undefined))
+        .catch(onError)
+        .finally(() => pending.delete(work));
+      pending.add(work);
+    },
+
+    /** Resolves when every reset started in the background has been handled (shutdown, tests). */
+    async settled(): Promise<void> {
+      while (pending.size) await Promise.all([...pending]);
+    },
+
     /** E-mails a reset link when the account exists; the caller answers the same either way. Returns the user id, if any. */
     async request(email: string): Promise<string | null> {
       const user = await userService.findByEmail(email);
