@@ -80,6 +80,17 @@ export const quotaStandingSchema = z
   })
   .meta({ id: 'QuotaStanding', description: "The organisation's plan and how much of this month's quota is used." });
 
+// One day of one shop's estimate calls: the figures the documented example repeats per day, route and total.
+const exampleStats = {
+  requests: 412,
+  limited: 3,
+  byStatusClass: { '2xx': 401, '3xx': 0, '4xx': 11, '5xx': 0 },
+  meanLatencyMs: 7.4,
+  p50LatencyMs: 5.8,
+  p95LatencyMs: 21.6,
+};
+const exampleRoute = { route: 'POST /v1/estimates', ...exampleStats };
+
 export const usageReportSchema = z
   .object({
     from: utcDate,
@@ -97,45 +108,11 @@ export const usageReportSchema = z
       to: '2026-12-01',
       filters: { keyId: null, route: null },
       data: [
-        {
-          day: '2026-12-01',
-          requests: 412,
-          limited: 3,
-          byStatusClass: { '2xx': 401, '3xx': 0, '4xx': 11, '5xx': 0 },
-          meanLatencyMs: 7.4,
-          p50LatencyMs: 5.8,
-          p95LatencyMs: 21.6,
-          byRoute: [
-            {
-              route: 'POST /v1/estimates',
-              requests: 412,
-              limited: 3,
-              byStatusClass: { '2xx': 401, '3xx': 0, '4xx': 11, '5xx': 0 },
-              meanLatencyMs: 7.4,
-              p50LatencyMs: 5.8,
-              p95LatencyMs: 21.6,
-            },
-          ],
-        },
+        { day: '2026-12-01', ...exampleStats, byRoute: [exampleRoute] },
       ],
       totals: {
-        requests: 412,
-        limited: 3,
-        byStatusClass: { '2xx': 401, '3xx': 0, '4xx': 11, '5xx': 0 },
-        meanLatencyMs: 7.4,
-        p50LatencyMs: 5.8,
-        p95LatencyMs: 21.6,
-        byRoute: [
-          {
-            route: 'POST /v1/estimates',
-            requests: 412,
-            limited: 3,
-            byStatusClass: { '2xx': 401, '3xx': 0, '4xx': 11, '5xx': 0 },
-            meanLatencyMs: 7.4,
-            p50LatencyMs: 5.8,
-            p95LatencyMs: 21.6,
-          },
-        ],
+        ...exampleStats,
+        byRoute: [exampleRoute],
         byKey: [{ keyId: 'h7kq2mzx4c5d', requests: 412, limited: 3 }],
       },
       quota: {

@@ -1,7 +1,7 @@
 import type { CableAlternative, CableInput, CableResult } from '../schemas/cable.js';
 import { conductorTable, correctForTemperature, DEFAULT_METRIC_TABLE, describeSize, sizeOfRow, type ConductorSize } from './conductors.js';
 import type { ConductorRow, ConductorTableId } from './tables/conductors.js';
-import { round, type TraceEntry, type Warning } from './trace.js';
+import { round, settingEntry, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
 import {
   DEFAULT_MAX_DROP_PERCENT,
@@ -123,38 +123,12 @@ export function chooseCable(input: CableInput): CableResult {
 
   const loopReference = loadDistribution === 'uniform' ? `${LOOP_REFERENCE}; ${UNIFORM_REFERENCE}` : LOOP_REFERENCE;
   const trace: TraceEntry[] = [
-    {
-      quantity: 'conductorTable',
-      value: tableId,
-      unit: '',
-      formula: input.conductorTable ? 'as given' : 'default',
-      inputs: { default: input.conductorTable === undefined },
-      reference: table.reference,
-    },
-    {
-      quantity: 'temperatureC',
-      value: temperatureC,
-      unit: '°C',
-      formula: input.temperatureC === undefined ? 'default: the table’s reference temperature' : 'as given',
-      inputs: { default: input.temperatureC === undefined, referenceTemperatureC: table.referenceTemperatureC },
-      reference: table.reference,
-    },
-    {
-      quantity: 'maxDropPercent',
-      value: maxDropPercent,
-      unit: '%',
-      formula: input.maxDropPercent === undefined ? 'default' : 'as given',
-      inputs: { default: input.maxDropPercent === undefined },
-      reference: DROP_LIMIT_REFERENCE,
-    },
-    {
-      quantity: 'minCrossSectionMm2',
-      value: minCrossSectionMm2,
-      unit: 'mm²',
-      formula: input.minCrossSectionMm2 === undefined ? 'default' : 'as given',
-      inputs: { default: input.minCrossSectionMm2 === undefined },
-      reference: MIN_SIZE_REFERENCE,
-    },
+    settingEntry('conductorTable', tableId, '', input.conductorTable !== undefined, table.reference),
+    settingEntry('temperatureC', temperatureC, '°C', input.temperatureC !== undefined, table.reference, 'default: the table’s reference temperature', {
+      referenceTemperatureC: table.referenceTemperatureC,
+    }),
+    settingEntry('maxDropPercent', maxDropPercent, '%', input.maxDropPercent !== undefined, DROP_LIMIT_REFERENCE),
+    settingEntry('minCrossSectionMm2', minCrossSectionMm2, 'mm²', input.minCrossSectionMm2 !== undefined, MIN_SIZE_REFERENCE),
     {
       quantity: 'recommended',
       value: recommended ? describeSize(recommended) : 'none',

@@ -1,7 +1,7 @@
 import type { DriverGroup, DriverInput, DriverResult } from '../schemas/driver.js';
 import { chooseDriverMix } from './driver-mix.js';
 import { SizingInputError } from './errors.js';
-import { round, type TraceEntry, type Warning } from './trace.js';
+import { round, settingEntry, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
 
 /** A common driver series; used when the request names none. */
@@ -130,14 +130,7 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
   }
 
   const trace: TraceEntry[] = [
-    {
-      quantity: 'maxLoadingPercent',
-      value: maxLoadingPercent,
-      unit: '%',
-      formula: input.maxLoadingPercent === undefined ? 'default' : 'as given',
-      inputs: { default: input.maxLoadingPercent === undefined },
-      reference: LOADING_REFERENCE,
-    },
+    settingEntry('maxLoadingPercent', maxLoadingPercent, '%', input.maxLoadingPercent !== undefined, LOADING_REFERENCE),
     {
       quantity: 'requiredRatingW',
       value: round(requiredW, 4),

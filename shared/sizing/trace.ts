@@ -23,3 +23,19 @@ export function round(value: number, decimals = 4): number {
   const f = 10 ** decimals;
   return Math.round((value + Number.EPSILON * Math.sign(value)) * f) / f;
 }
+
+/**
+ * The trace entry of a setting the caller may give or leave to its default, so every response
+ * says which defaults it used.
+ */
+export function settingEntry(
+  quantity: string,
+  value: number | string | boolean,
+  unit: string,
+  given: boolean,
+  reference: string,
+  defaultFormula = 'default',
+  inputs: TraceEntry['inputs'] = {},
+): TraceEntry {
+  return { quantity, value, unit, formula: given ? 'as given' : defaultFormula, inputs: { default: !given, ...inputs }, reference };
+}

@@ -1,6 +1,6 @@
 import type { VoltageDropInput, VoltageDropResult } from '../schemas/voltage-drop.js';
 import { conductorTable, correctForTemperature, copperAlphaAt, defaultTableFor, describeSize, findConductor } from './conductors.js';
-import { round, type TraceEntry, type Warning } from './trace.js';
+import { round, settingEntry, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
 
 export type LoadDistribution = 'end' | 'uniform';
@@ -81,22 +81,10 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
   if (input.maxDropPercent === undefined) warnings.push(defaultDropLimitWarning());
 
   const trace: TraceEntry[] = [
-    {
-      quantity: 'conductorTable',
-      value: tableId,
-      unit: '',
-      formula: input.conductorTable ? 'as given' : `default for a ${'awg' in input.conductor ? 'gauge' : 'mm²'} size`,
-      inputs: { default: input.conductorTable === undefined },
-      reference: table.reference,
-    },
-    {
-      quantity: 'temperatureC',
-      value: temperatureC,
-      unit: '°C',
-      formula: input.temperatureC === undefined ? 'default: the table’s reference temperature' : 'as given',
-      inputs: { default: input.temperatureC === undefined, referenceTemperatureC: table.referenceTemperatureC },
-      reference: table.reference,
-    },
+    settingEntry('conductorTable', tableId, '', input.conductorTable !== undefined, table.reference, `default for a ${'awg' in input.conductor ? 'gauge' : 'mm²'} size`),
+    settingEntry('temperatureC', temperatureC, '°C', input.temperatureC !== undefined, table.reference, 'default: the table’s reference temperature', {
+      referenceTemperatureC: table.referenceTemperatureC,
+    }),
     {
       quantity: 'resistanceOhmPerKm',
       value: round(rOhmPerKm, 4),
