@@ -21,7 +21,7 @@ export const problems = {
     new HttpProblem(400, 'validation_failed', 'Invalid request', detail, { errors }),
   notFound: (detail = 'No such resource.') => new HttpProblem(404, 'not_found', 'Not found', detail),
   conflict: (code: string, detail: string) => new HttpProblem(409, code, 'Conflict', detail),
-  unauthenticated: (detail = 'Send a valid API key or access token as `Authorization: Bearer …`.', code = 'unauthenticated') =>
+  unauthenticated: (detail = 'Send a valid API key or access token as `Authorization: Bearer …`.', code = 'credential_missing') =>
     new HttpProblem(401, code, 'Unauthenticated', detail, { headers: { 'WWW-Authenticate': 'Bearer realm="treadwise"' } }),
   forbidden: (detail: string, code = 'forbidden') => new HttpProblem(403, code, 'Forbidden', detail),
   notReady: (detail: string) => new HttpProblem(503, 'not_ready', 'Service not ready', detail),

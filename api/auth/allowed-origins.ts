@@ -4,7 +4,7 @@ import { apiKeys } from '../db/schema.js';
 import { originAllowed } from './origins.js';
 
 /**
- * Every origin listed by an active publishable key, cached briefly: a CORS preflight carries no
+ * Every origin listed by an active embed key, cached briefly: a CORS preflight carries no
  * key, so it can only be answered from the origin alone.
  */
 export function createAllowedOrigins({ db, clock, ttlMs = 5_000 }: { db: Db; clock: () => Date; ttlMs?: number }) {
@@ -17,7 +17,7 @@ export function createAllowedOrigins({ db, clock, ttlMs = 5_000 }: { db: Db; clo
     const rows = await db
       .select({ origins: apiKeys.allowedOrigins })
       .from(apiKeys)
-      .where(and(eq(apiKeys.kind, 'publishable'), isNull(apiKeys.revokedAt), or(isNull(apiKeys.expiresAt), gt(apiKeys.expiresAt, now))));
+      .where(and(eq(apiKeys.kind, 'embed'), isNull(apiKeys.revokedAt), or(isNull(apiKeys.expiresAt), gt(apiKeys.expiresAt, now))));
     patterns = [...new Set(rows.flatMap((r) => r.origins))];
     loadedAt = now.getTime();
   };

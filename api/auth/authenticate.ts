@@ -1,5 +1,5 @@
 import type { RequestHandler } from 'express';
-import { and, eq, or } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import type { Db } from '../db/client.js';
 import { memberships, organizations, users } from '../db/schema.js';
 import { problems } from '../problem.js';
@@ -20,7 +20,10 @@ export interface AuthenticateDeps {
 }
 
 const BEARER = /^Bearer ([^\s]+)$/;
-const ORG_HEADER = 'treadwise-organization';
+
+/** Credential failures share four codes, for keys and access tokens alike. */
+const unknownCredential = (what: string) => problems.unauthenticated(`The ${what} is not valid.`, 'credential_unknown');
+const expiredCredential = (what: string) => problems.unauthenticated(`The ${what} has expired.`, 'credential_expired');
 
 /**
  * Establishes `res.locals.principal` from `Authorization: Bearer …` (an API key or a console
@@ -36,64 +39,56 @@ export function authenticate(deps: AuthenticateDeps): RequestHandler {
       return next();
     }
     const bearer = BEARER.exec(header);
-    if (!bearer) throw problems.unauthenticated('The Authorization header must be `Bearer <token>`.');
+    if (!bearer) throw problems.unauthenticated('The Authorization header must be `Bearer <token>`.', 'credential_unknown');
     const token = bearer[1];
-    res.locals.principal = token.startsWith('tw_') ? await keyPrincipal(deps, token, req.headers.origin) : await userPrincipal(deps, token, req.headers[ORG_HEADER]);
+    res.locals.principal = token.startsWith('tw_') ? await keyPrincipal(deps, token, req.headers.origin) : await userPrincipal(deps, token);
     next();
   };
 }
 
 async function keyPrincipal(deps: AuthenticateDeps, token: string, origin: string | undefined): Promise<Principal> {
   const parsed = parseKey(token);
-  if (!parsed) throw problems.unauthenticated('The API key is malformed.', 'invalid_api_key');
+  if (!parsed) throw unknownCredential('API key');
   const row = await deps.keyCache.get(parsed.keyId);
   const now = deps.clock();
-  if (!row || row.kind !== parsed.kind) throw problems.unauthenticated('The API key is not valid.', 'invalid_api_key');
+  if (!row || row.kind !== parsed.kind) throw unknownCredential('API key');
   const digest = hashSecret(deps.pepper, parsed.keyId, parsed.secret);
   const current = digestsEqual(digest, row.secretHash);
   const previous =
     !current && row.previousSecretHash !== null && row.previousValidUntil !== null && row.previousValidUntil > now && digestsEqual(digest, row.previousSecretHash);
-  if (!current && !previous) throw problems.unauthenticated('The API key is not valid.', 'invalid_api_key');
-  if (row.revokedAt) throw problems.unauthenticated('The API key has been revoked.', 'api_key_revoked');
-  if (row.expiresAt && row.expiresAt <= now) throw problems.unauthenticated('The API key has expired.', 'api_key_expired');
-  if (row.kind === 'publishable') {
-    // Browser keys are public by nature: they only work from the shop's own pages.
-    if (!origin) throw problems.forbidden('A publishable key must be used from a browser page (Origin header).', 'origin_required');
+  if (!current && !previous) throw unknownCredential('API key');
+  if (row.revokedAt) throw problems.unauthenticated('The API key has been revoked.', 'credential_revoked');
+  if (row.expiresAt && row.expiresAt <= now) throw expiredCredential('API key');
+  if (row.kind === 'embed') {
+    // Embed keys are public by nature: they only work from the shop's own pages.
+    if (!origin) throw problems.forbidden('An embed key must be used from a browser page (Origin header).', 'origin_required');
     if (!originAllowed(origin, row.allowedOrigins)) throw problems.forbidden(`Origin ${origin} is not allowed for this key.`, 'origin_not_allowed');
   }
   return { type: 'api_key', apiKeyId: row.id, keyId: row.keyId, kind: row.kind, organizationId: row.organizationId, scopes: row.scopes as Scope[] };
 }
 
-async function userPrincipal(deps: AuthenticateDeps, token: string, orgHeader: string | string[] | undefined): Promise<Principal> {
-  const claims = await deps.accessTokens.verify(token);
-  if (!claims) throw problems.unauthenticated('The access token is invalid or expired.', 'invalid_token');
+/**
+ * The organisation travels in the token (`org`), chosen at sign-in or with
+ * POST /v1/auth/switch-organization; the role is read fresh, so a changed or removed membership
+ * takes effect at once.
+ */
+async function userPrincipal(deps: AuthenticateDeps, token: string): Promise<Principal> {
+  const verified = await deps.accessTokens.verify(token);
+  if (!verified.ok) throw verified.reason === 'expired' ? expiredCredential('access token') : unknownCredential('access token');
+  const { claims } = verified;
   const [user] = await deps.db.select().from(users).where(eq(users.id, claims.sub));
-  if (!user) throw problems.unauthenticated('The access token is invalid or expired.', 'invalid_token');
+  if (!user) throw unknownCredential('access token');
 
-  const wanted = typeof orgHeader === 'string' && orgHeader.length > 0 ? orgHeader : undefined;
-  const base = { type: 'user' as const, userId: user.id, email: user.email, operator: user.operator };
+  const base = { type: 'user' as const, userId: user.id, email: user.email, operator: user.operator, sessionId: claims.sid };
+  if (!claims.org) return { ...base, organizationId: null, role: null };
   if (user.operator) {
-    if (!wanted) return { ...base, organizationId: null, role: null };
-    const org = await findOrganization(deps.db, wanted);
-    if (!org) throw problems.notFound('No such organisation.');
-    return { ...base, organizationId: org.id, role: 'admin' };
+    const [org] = await deps.db.select({ id: organizations.id }).from(organizations).where(eq(organizations.id, claims.org));
+    return { ...base, organizationId: org?.id ?? null, role: org ? 'admin' : null };
   }
-  const rows = await deps.db
-    .select({ organizationId: memberships.organizationId, role: memberships.role, slug: organizations.slug })
+  const [membership] = await deps.db
+    .select({ role: memberships.role })
     .from(memberships)
-    .innerJoin(organizations, eq(organizations.id, memberships.organizationId))
-    .where(eq(memberships.userId, user.id));
-  const chosen = wanted ? rows.find((r) => r.slug === wanted || r.organizationId === wanted) : rows.length === 1 ? rows[0] : undefined;
-  // Not a member: the organisation is not found, so ids do not leak.
-  if (wanted && !chosen) throw problems.notFound('No such organisation.');
-  return { ...base, organizationId: chosen?.organizationId ?? null, role: chosen?.role ?? null };
-}
-
-async function findOrganization(db: Db, slugOrId: string) {
-  const isUuid = /^[0-9a-f-]{36}$/i.test(slugOrId);
-  const [org] = await db
-    .select({ id: organizations.id })
-    .from(organizations)
-    .where(isUuid ? or(eq(organizations.id, slugOrId), eq(organizations.slug, slugOrId)) : and(eq(organizations.slug, slugOrId)));
-  return org;
+    .where(and(eq(memberships.userId, user.id), eq(memberships.organizationId, claims.org)));
+  // No longer a member: the token acts nowhere until the user switches.
+  return { ...base, organizationId: membership ? claims.org : null, role: membership?.role ?? null };
 }

@@ -22,17 +22,17 @@ export const authorize: RequestHandler = (req, res, next) => {
   const p = principalOf(res);
   switch (p.type) {
     case 'anonymous':
-      throw problems.unauthenticated();
+      throw problems.unauthenticated(undefined, 'credential_missing');
     case 'api_key':
       if (!policy.scope) throw problems.forbidden('This route is for signed-in users, not API keys.', 'keys_not_allowed');
-      if (p.kind === 'publishable' && !policy.publishable) throw problems.forbidden('Publishable keys may only run sizing.', 'publishable_key_not_allowed');
+      if (p.kind === 'embed' && !policy.embed) throw problems.forbidden('Embed keys may only run sizing.', 'embed_key_not_allowed');
       if (!p.scopes.includes(policy.scope)) throw problems.forbidden(`This key lacks the scope ${policy.scope}.`, 'insufficient_scope');
       return next();
     case 'user':
       if (policy.operator && !p.operator) throw problems.forbidden('Only the platform operator may do this.', 'operator_only');
       if (policy.role) {
         if (!p.organizationId || !p.role) {
-          throw problems.forbidden('Choose an organisation with the Treadwise-Organization header.', 'organization_required');
+          throw problems.forbidden('Choose an organisation first: POST /v1/auth/switch-organization.', 'organization_required');
         }
         if (!roleAtLeast(p.role, policy.role)) throw problems.forbidden(`This needs the ${policy.role} role.`, 'insufficient_role');
       }

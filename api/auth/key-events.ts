@@ -4,7 +4,7 @@ import type { AllowedOrigins } from './allowed-origins.js';
 import type { KeyCache } from './key-cache.js';
 
 /**
- * Makes a key change (roll, revoke, create) effective at once on every instance: the instance
+ * Makes a key change (rotate, revoke, create) effective at once on every instance: the instance
  * that made it invalidates its own caches and NOTIFYs the others through the database.
  */
 export function createKeyEvents({ database, keyCache, allowedOrigins, logger }: { database: Database; keyCache: KeyCache; allowedOrigins: AllowedOrigins; logger: Logger }) {

@@ -1,9 +1,10 @@
 import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 
-export type KeyKind = 'secret' | 'publishable';
+/** `server` keys act from a shop's servers; `embed` keys sit in its web pages (sizing only). */
+export type KeyKind = 'server' | 'embed';
 
-const PREFIX: Record<KeyKind, string> = { secret: 'tw_sec_', publishable: 'tw_pub_' };
-const KEY_PATTERN = /^tw_(sec|pub)_([a-z2-7]{12})_([A-Za-z0-9_-]{32})$/;
+const PREFIX: Record<KeyKind, string> = { server: 'tw_server_', embed: 'tw_embed_' };
+const KEY_PATTERN = /^tw_(server|embed)_([a-z2-7]{12})_([A-Za-z0-9_-]{32})$/;
 const BASE32 = 'abcdefghijklmnopqrstuvwxyz234567';
 
 export interface ParsedKey {
@@ -33,7 +34,7 @@ export function formatKey(kind: KeyKind, keyId: string, secret: string): string 
 export function parseKey(token: string): ParsedKey | null {
   const m = KEY_PATTERN.exec(token);
   if (!m) return null;
-  return { kind: m[1] === 'sec' ? 'secret' : 'publishable', keyId: m[2], secret: m[3] };
+  return { kind: m[1] as KeyKind, keyId: m[2], secret: m[3] };
 }
 
 /** HMAC-SHA256 of the secret, keyed with the server's pepper and bound to the key id. */

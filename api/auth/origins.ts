@@ -1,5 +1,5 @@
 /**
- * Allowed origins of a publishable key: exact (`https://shop.example.test`) or one wildcard
+ * Allowed origins of a embed key: exact (`https://shop.example.test`) or one wildcard
  * label at the front (`https://*.example.test`, which matches sub-domains but not the apex).
  */
 const ORIGIN = /^https?:\/\/(\*\.)?[a-z0-9-]+(\.[a-z0-9-]+)*(:\d{1,5})?$/;

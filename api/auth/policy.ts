@@ -16,11 +16,11 @@ export type Policy =
       role?: Role;
       /** Only the platform operator (users only). */
       operator?: true;
-      /** Browser (publishable) keys may call it: only sizing. */
-      publishable?: true;
+      /** Browser (embed) keys may call it: only sizing. */
+      embed?: true;
     };
 
-const sizing: Policy = { scope: 'sizing:run', role: 'estimator', publishable: true };
+const sizing: Policy = { scope: 'sizing:run', role: 'estimator', embed: true };
 const keysAdmin: Policy = { scope: 'keys:manage', role: 'admin' };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
@@ -38,7 +38,7 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,
   'GET /v1/keys/:id': keysAdmin,
-  'POST /v1/keys/:id/roll': keysAdmin,
+  'POST /v1/keys/:id/rotate': keysAdmin,
   'POST /v1/keys/:id/revoke': keysAdmin,
 
   // Accounts: signing in needs no credentials; /me is for console users only (keys have no scope for it).
@@ -49,6 +49,7 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/auth/password-reset/confirm': { public: true },
   'POST /v1/auth/invitations/accept': { public: true },
   'GET /v1/auth/me': {},
+  'POST /v1/auth/switch-organization': {},
   // Keys cannot manage members: no scope on any member route.
   'GET /v1/members': { role: 'viewer' },
   'POST /v1/members/invitations': { role: 'admin' },

@@ -10,7 +10,9 @@ export type Principal =
       userId: string;
       email: string;
       operator: boolean;
-      /** The organisation acted in (the only membership, or chosen with Treadwise-Organization). */
+      /** The sign-in session (refresh-token family) the access token belongs to. */
+      sessionId: string;
+      /** The organisation acted in, as named by the access token (see POST /v1/auth/switch-organization). */
       organizationId: string | null;
       /** Role there; an operator acting in an organisation counts as its admin. */
       role: Role | null;

@@ -2,9 +2,9 @@ import type { Scope } from '../auth/scopes.js';
 
 /** The invented demo scenario (see DEVELOPERS.md); every name here is made up. */
 export const demoOrganizations = [
-  { slug: 'harbor-lane', name: 'Harbor Lane Lighting', planId: 'shop', publishableOrigins: ['https://shop.harborlane.test'] },
-  { slug: 'kestrel-finch', name: 'Kestrel & Finch Builders', planId: 'free', publishableOrigins: ['https://plans.kestrelfinch.test'] },
-  { slug: 'quayside-studio', name: 'Quayside Studio', planId: 'free', publishableOrigins: ['https://quayside.test'] },
+  { slug: 'harbor-lane', name: 'Harbor Lane Lighting', planId: 'shop', embedOrigins: ['https://shop.harborlane.test'] },
+  { slug: 'kestrel-finch', name: 'Kestrel & Finch Builders', planId: 'free', embedOrigins: ['https://plans.kestrelfinch.test'] },
+  { slug: 'quayside-studio', name: 'Quayside Studio', planId: 'free', embedOrigins: ['https://quayside.test'] },
 ] as const;
 
 /**
@@ -25,4 +25,4 @@ export const demoMembers = [
 ] as const;
 
 /** Server-side demo keys: everything a partner's server needs, but not key management. */
-export const demoSecretKeyScopes: Scope[] = ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'usage:read'];
+export const demoServerKeyScopes: Scope[] = ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'usage:read'];

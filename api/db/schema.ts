@@ -77,6 +77,8 @@ export const refreshTokens = pgTable(
       .notNull()
       .references(() => users.id, { onDelete: 'cascade' }),
     familyId: uuid('family_id').notNull(),
+    /** The organisation the session acts in: a refresh keeps the one the user last switched to. */
+    organizationId: uuid('organization_id').references(() => organizations.id, { onDelete: 'set null' }),
     tokenHash: text('token_hash').notNull().unique(),
     expiresAt: at('expires_at').notNull(),
     usedAt: at('used_at'),
@@ -102,7 +104,7 @@ export const emailTokens = pgTable('email_tokens', {
 
 /**
  * API keys. `keyId` is the public part shown in logs and charts; only an HMAC-SHA256 of the
- * secret is stored. A rolled key keeps its previous hash until `previousValidUntil`.
+ * secret is stored. A rotated key keeps its previous hash until `previousValidUntil`.
  */
 export const apiKeys = pgTable(
   'api_keys',
@@ -112,7 +114,7 @@ export const apiKeys = pgTable(
     organizationId: uuid('organization_id')
       .notNull()
       .references(() => organizations.id, { onDelete: 'cascade' }),
-    kind: text('kind', { enum: ['secret', 'publishable'] }).notNull(),
+    kind: text('kind', { enum: ['server', 'embed'] }).notNull(),
     name: text('name').notNull(),
     scopes: text('scopes').array().notNull(),
     allowedOrigins: text('allowed_origins').array().notNull().default(sql`'{}'::text[]`),

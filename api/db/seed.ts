@@ -1,16 +1,16 @@
 import { count } from 'drizzle-orm';
-import { formatKey, generateKey, hashSecret } from '../auth/key-format.js';
+import { formatKey, generateKey, hashSecret, type KeyKind } from '../auth/key-format.js';
 import type { Database } from './client.js';
 import { apiKeys, organizations } from './schema.js';
 import { addMember } from '../services/members.js';
 import { createUserService } from '../services/users.js';
-import { DEMO_PASSWORD, demoMembers, demoOperator, demoOrganizations, demoSecretKeyScopes } from './demo-data.js';
+import { DEMO_PASSWORD, demoMembers, demoOperator, demoOrganizations, demoServerKeyScopes } from './demo-data.js';
 
 const SEED_LOCK = 740_312;
 
 export interface DemoKey {
   organization: string;
-  kind: 'secret' | 'publishable';
+  kind: KeyKind;
   token: string;
   allowedOrigins: string[];
 }
@@ -41,15 +41,15 @@ export async function seedDemo(database: Database, enabled: boolean, pepper: Buf
           const user = await users.createUser({ email: person.email, name: person.name, password: DEMO_PASSWORD });
           await addMember(tx, { organizationId: org.id, userId: user.id, role: person.role });
         }
-        for (const kind of ['secret', 'publishable'] as const) {
+        for (const kind of ['server', 'embed'] as const) {
           const key = generateKey(kind);
-          const allowedOrigins = kind === 'publishable' ? [...demo.publishableOrigins] : [];
+          const allowedOrigins = kind === 'embed' ? [...demo.embedOrigins] : [];
           await tx.insert(apiKeys).values({
             keyId: key.keyId,
             organizationId: org.id,
             kind,
-            name: kind === 'secret' ? 'Demo server key' : 'Demo page key',
-            scopes: kind === 'secret' ? demoSecretKeyScopes : ['sizing:run'],
+            name: kind === 'server' ? 'Demo server key' : 'Demo page key',
+            scopes: kind === 'server' ? demoServerKeyScopes : ['sizing:run'],
             allowedOrigins,
             secretHash: hashSecret(pepper, key.keyId, key.secret),
           });

@@ -2,12 +2,12 @@ import type { RequestHandler } from 'express';
 import type { AllowedOrigins } from '../auth/allowed-origins.js';
 
 /** Headers a shop's page must be able to read from our responses. */
-export const EXPOSED_HEADERS = ['Request-Id', 'RateLimit', 'RateLimit-Policy', 'Retry-After', 'Idempotent-Replayed'];
-const ALLOWED_HEADERS = ['Authorization', 'Content-Type', 'Request-Id', 'Idempotency-Key'];
+export const EXPOSED_HEADERS = ['X-Request-Id', 'RateLimit', 'RateLimit-Policy', 'Retry-After'];
+const ALLOWED_HEADERS = ['Authorization', 'Content-Type', 'X-Request-Id', 'Idempotency-Key'];
 
 /**
  * CORS for shops' pages. The preflight is answered from the origin alone (allowed when any active
- * publishable key lists it); the real request is then checked against its own key's list by
+ * embed key lists it); the real request is then checked against its own key's list by
  * authenticate(). Error responses carry the headers too, so the page can read the problem.
  */
 export function cors(allowedOrigins: AllowedOrigins): RequestHandler {

@@ -42,8 +42,9 @@ const inProgress = () => new HttpProblem(409, 'idempotency_request_in_progress',
 
 /**
  * `Idempotency-Key` on a creating POST: the first response is stored per caller for 24 h and
- * replayed (`Idempotent-Replayed: true`); the same key with another body is a 422, and a retry
- * while the first is still running a 409.
+ * replayed byte for byte — a replay is recognisable by its body's original `requestId`, so no
+ * header marks it; the same key with another body is a 422, and a retry while the first is
+ * still running a 409.
  */
 export function idempotent({ db, clock, pepper }: { db: Db; clock: () => Date; pepper: Buffer }): RequestHandler {
   const { seal, open } = sealer(pepper);
@@ -77,7 +78,6 @@ export function idempotent({ db, clock, pepper }: { db: Db; clock: () => Date; p
         [claimed] = await claim();
         if (!claimed) throw inProgress();
       } else {
-        res.setHeader('Idempotent-Replayed', 'true');
         return res.status(existing.status).json(open(existing.body as Sealed));
       }
     }

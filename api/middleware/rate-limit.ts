@@ -22,10 +22,10 @@ export const SIGN_IN_FAILURES_PER_IP = 100;
 export const PASSWORD_RESETS_PER_IP = 20;
 
 /**
- * Per client IP and publishable key: a tenth of the key's per-minute rate, at least 10, so no
+ * Per client IP and embed key: a tenth of the key's per-minute rate, at least 10, so no
  * single visitor (or a script with a forged Origin) can use up a shop's limit.
  */
-export function publishableRatePerIp(ratePerMinute: number): number {
+export function embedRatePerIp(ratePerMinute: number): number {
   return Math.max(10, Math.ceil(ratePerMinute / 10));
 }
 
@@ -89,7 +89,7 @@ function limiter(services: Services, logger: Logger, spec: LimiterSpec): Request
 /**
  * Everything that limits and counts traffic, in order, to mount on `/v1` right after
  * authenticate() and authorize (it needs the principal and the matched route pattern):
- * metering, the per-IP sign-in limits, the per-user limit, the per-IP limit of publishable keys,
+ * metering, the per-IP sign-in limits, the per-user limit, the per-IP limit of embed keys,
  * the per-key limit from the plan, and the monthly quota.
  */
 export function trafficMiddleware(deps: AppDeps, services: Services): RequestHandler[] {
@@ -97,7 +97,7 @@ export function trafficMiddleware(deps: AppDeps, services: Services): RequestHan
   const logger = deps.logger;
   const ratePerMinute = async (res: Response) => (await plans.forOrganization(apiKeyOf(res)!.organizationId)).ratePerMinute;
 
-  const [signInIp, passwordResetIp, perUser, publishableIp, perKey] = [
+  const [signInIp, passwordResetIp, perUser, embedIp, perKey] = [
     limiter(services, logger, {
       name: 'sign-in-failures-ip',
       windowMs: QUARTER_HOUR_MS,
@@ -129,10 +129,10 @@ export function trafficMiddleware(deps: AppDeps, services: Services): RequestHan
     limiter(services, logger, {
       name: 'api-key-client-ip',
       windowMs: MINUTE_MS,
-      limit: async (_req, res) => publishableRatePerIp(await ratePerMinute(res)),
+      limit: async (_req, res) => embedRatePerIp(await ratePerMinute(res)),
       keyGenerator: (req, res) => `${apiKeyOf(res)!.keyId}:${clientIp(req)}`,
-      skip: (_req, res) => apiKeyOf(res)?.kind !== 'publishable',
-      who: 'This publishable key, from this address,',
+      skip: (_req, res) => apiKeyOf(res)?.kind !== 'embed',
+      who: 'This embed key, from this address,',
     }),
     limiter(services, logger, {
       name: 'api-key',
@@ -148,7 +148,7 @@ export function trafficMiddleware(deps: AppDeps, services: Services): RequestHan
   // trip, and the hot path (a key calling sizing) needs just one or two.
   const applicable = (req: Request, res: Response): RequestHandler[] => {
     const principal = principalOf(res);
-    if (principal.type === 'api_key') return principal.kind === 'publishable' ? [publishableIp, perKey] : [perKey];
+    if (principal.type === 'api_key') return principal.kind === 'embed' ? [embedIp, perKey] : [perKey];
     if (principal.type === 'user') return [perUser];
     const route = routeOf(req, res);
     if (SIGN_IN_ROUTES.has(route)) return [signInIp];

@@ -16,8 +16,8 @@ export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
     type: 'http',
     scheme: 'bearer',
     description:
-      'An API key (`tw_sec_…` from servers, `tw_pub_…` from allowed browser origins) or a console access token from `POST /v1/auth/sign-in`. ' +
-      'Users acting in one of several organisations send `Treadwise-Organization: <slug>`.',
+      'An API key (`tw_server_…` from servers, `tw_embed_…` from allowed browser origins) or a console access token from `POST /v1/auth/sign-in`. ' +
+      'The access token names the organisation its user acts in; `POST /v1/auth/switch-organization` issues one for another.',
   });
   for (const register of registrars) register(registry);
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
@@ -28,14 +28,14 @@ export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
       description:
         'Sizing for motion-activated LED lighting on stairs and corridors: strip per tread, ' +
         'controller outputs, drivers, cable and voltage drop, pixel data, reels, sensors and the ' +
-        'bill of materials. Errors are RFC 9457 problem+json; every response carries `Request-Id`.\n\n' +
+        'bill of materials. Errors are RFC 9457 problem+json; every response carries `X-Request-Id`. Lists answer `{ items, nextCursor }` (`nextCursor` is null on the last page). A replayed `Idempotency-Key` request answers the stored response byte for byte, its `requestId` that of the first call.\n\n' +
         'Figures are estimates from nominal data. Mains work is for a licensed electrician; local codes prevail.',
     },
     servers: [{ url: '/' }],
     tags: [
       { name: 'Health', description: 'Liveness and readiness.' },
       { name: 'Calculations', description: 'Stateless sizing calculations (scope sizing:run; estimator role).' },
-      { name: 'API keys', description: 'Secret and publishable keys (admin role or keys:manage scope).' },
+      { name: 'API keys', description: 'Server and embed keys (admin role or keys:manage scope).' },
       { name: 'Auth', description: 'Console sign-in, sessions, password reset and invitations.' },
       { name: 'Members', description: 'People in an organisation and their roles (admin, estimator, viewer).' },
       { name: 'Organizations', description: 'Partner organisations and their plans (created by the operator).' },

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { organizationOf } from '../auth/principal.js';
 import { validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
+import { pageOf } from '../../shared/schemas/page.js';
 import { pageQuerySchema } from '../services/pagination.js';
 import type { RouteModule } from './route-module.js';
 
@@ -27,9 +28,7 @@ const auditEventSchema = z
   })
   .meta({ id: 'AuditEvent', description: 'One entry of the audit trail. Secrets are never recorded.' });
 
-const auditPageSchema = z
-  .object({ data: z.array(auditEventSchema), hasMore: z.boolean(), nextCursor: z.string().nullable() })
-  .meta({ id: 'AuditEventPage' });
+const auditPageSchema = pageOf(auditEventSchema, 'AuditEventPage');
 
 export const auditRoutes: RouteModule = {
   basePath: '/v1/audit-events',

@@ -9,6 +9,8 @@ import {
   sessionSchema,
   signInRequestSchema,
   signOutRequestSchema,
+  switchedOrganizationSchema,
+  switchOrganizationRequestSchema,
   type AcceptInvitationRequest,
   type Me,
   type SignInRequest,
@@ -77,6 +79,24 @@ export const authRoutes: RouteModule = {
       res.json(body);
     });
 
+    router.post('/switch-organization', validateBody(switchOrganizationRequestSchema), async (req, res) => {
+      const p = principalOf(res);
+      if (p.type !== 'user') throw problems.unauthenticated();
+      const { organization } = res.locals.body as z.output<typeof switchOrganizationRequestSchema>;
+      const result = await sessions.switchOrganization(p.userId, p.sessionId, organization);
+      if (!result.ok) {
+        if (result.reason === 'session_ended') throw problems.unauthenticated('This session has ended (signed out or expired). Sign in again.', 'credential_revoked');
+        throw problems.notFound('No such organisation.');
+      }
+      await audit.record(auditContext(req, res), {
+        action: 'auth.organization_switched',
+        organizationId: result.switched.organization.id,
+        targetType: 'organization',
+        targetId: result.switched.organization.id,
+      });
+      res.json(result.switched);
+    });
+
     router.post('/password-reset', validateBody(passwordResetRequestSchema), async (req, res) => {
       const { email } = res.locals.body as z.output<typeof passwordResetRequestSchema>;
       const ctx = auditContext(req, res);
@@ -107,6 +127,7 @@ export const authRoutes: RouteModule = {
         userId: accepted.user.id,
         email: accepted.user.email,
         operator: accepted.user.operator,
+        sessionId: accepted.sessionId,
         organizationId: accepted.organizationId,
         role: accepted.role,
       };
@@ -179,6 +200,24 @@ export const authRoutes: RouteModule = {
         200: { description: 'The user and their memberships.', content: { 'application/json': { schema: meSchema } } },
         401: problemResponse('No or invalid access token.'),
         403: problemResponse('Called with an API key.'),
+      },
+    });
+    registry.registerPath({
+      method: 'post',
+      path: '/v1/auth/switch-organization',
+      tags: ['Auth'],
+      summary: 'Act in another organisation',
+      description:
+        'Issues an access token that acts in the given organisation (a membership of yours; the operator may choose any). ' +
+        'The session remembers the choice: later refreshes keep it. Console users only; API keys act in their own organisation.',
+      security: [{ bearer: [] }],
+      request: { body: json(switchOrganizationRequestSchema) },
+      responses: {
+        200: { description: 'A token for the chosen organisation.', content: { 'application/json': { schema: switchedOrganizationSchema } } },
+        400: invalid,
+        401: problemResponse('No, unknown or expired access token, or the session has ended (`credential_*`).'),
+        403: problemResponse('Called with an API key.'),
+        404: problemResponse('Not an organisation you may act in.'),
       },
     });
     registry.registerPath({

@@ -5,11 +5,11 @@ import {
   apiKeySchema,
   apiKeyWithTokenSchema,
   createApiKeyRequestSchema,
-  rollApiKeyRequestSchema,
+  rotateApiKeyRequestSchema,
   type CreateApiKeyRequest,
 } from '../../shared/schemas/api-keys.js';
 import { organizationOf, principalOf } from '../auth/principal.js';
-import { PUBLISHABLE_SCOPES, ROLE_SCOPES, type Scope } from '../auth/scopes.js';
+import { EMBED_SCOPES, ROLE_SCOPES, type Scope } from '../auth/scopes.js';
 import { idempotent } from '../middleware/idempotency.js';
 import { validateBody, validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
@@ -31,7 +31,7 @@ function grantableScopes(res: Response): readonly Scope[] {
 
 /**
  * Tells the organisation's admins. Sent after the change is committed and not awaited: a mail
- * failure must not turn a created or rolled key (whose token is in this response) into a 500.
+ * failure must not turn a created or rotated key (whose token is in this response) into a 500.
  */
 function notifyAdmins(deps: AppDeps, services: Services, organizationId: string, subject: string, text: string): void {
   adminEmails(deps.database.db, organizationId)
@@ -45,7 +45,7 @@ async function assertKeyMayManage(res: Response, services: Services, organizatio
   if (p.type !== 'api_key') return;
   const target = await services.apiKeys.get(organizationId, id);
   if (!target.scopes.every((s) => p.scopes.includes(s as Scope))) {
-    throw new HttpProblem(403, 'scope_exceeds_caller', 'Key too powerful', 'A key cannot roll or revoke a key with scopes it does not hold.');
+    throw new HttpProblem(403, 'scope_exceeds_caller', 'Key too powerful', 'A key cannot rotate or revoke a key with scopes it does not hold.');
   }
 }
 
@@ -65,7 +65,7 @@ export const keyRoutes: RouteModule = {
       const body = res.locals.body as CreateApiKeyRequest;
       const organizationId = organizationOf(res);
       const scopes = body.scopes ?? (['sizing:run'] as Scope[]);
-      const ceiling = body.kind === 'publishable' ? PUBLISHABLE_SCOPES : grantableScopes(res);
+      const ceiling = body.kind === 'embed' ? EMBED_SCOPES : grantableScopes(res);
       const excess = scopes.filter((s) => !ceiling.includes(s) || !grantableScopes(res).includes(s));
       if (excess.length) {
         throw new HttpProblem(403, 'scope_exceeds_creator', 'Scopes not grantable', `You cannot grant ${excess.join(', ')}.`, {
@@ -96,7 +96,7 @@ export const keyRoutes: RouteModule = {
         createdByUserId: p.type === 'user' ? p.userId : null,
         createdByKeyId: p.type === 'api_key' ? p.keyId : null,
       });
-      await services.keyEvents.changed(key.keyId); // a new publishable key's origins, on every instance
+      await services.keyEvents.changed(key.keyId); // a new embed key's origins, on every instance
       await audit.record(auditContext(req, res), {
         action: 'api_key.created',
         organizationId,
@@ -105,22 +105,22 @@ export const keyRoutes: RouteModule = {
         data: { name: key.name, kind: key.kind, scopes: key.scopes, allowedOrigins: key.allowedOrigins },
       });
       notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" created`, `A ${key.kind} key ${key.keyId} ("${key.name}") was created with scopes ${key.scopes.join(', ')}.`);
-      res.status(201).json({ key, token });
+      res.status(201).json({ key, requestId: String(req.id), token });
     });
 
     router.get('/:id', async (req, res) => {
       res.json(await apiKeys.get(organizationOf(res), idParam(req)));
     });
 
-    router.post('/:id/roll', validateBody(rollApiKeyRequestSchema), async (req, res) => {
+    router.post('/:id/rotate', validateBody(rotateApiKeyRequestSchema), async (req, res) => {
       const organizationId = organizationOf(res);
-      const { gracePeriodSeconds } = res.locals.body as z.output<typeof rollApiKeyRequestSchema>;
+      const { overlapHours } = res.locals.body as z.output<typeof rotateApiKeyRequestSchema>;
       await assertKeyMayManage(res, services, organizationId, idParam(req));
-      const { key, token } = await apiKeys.roll(organizationId, idParam(req), gracePeriodSeconds);
+      const { key, token } = await apiKeys.rotate(organizationId, idParam(req), overlapHours);
       await services.keyEvents.changed(key.keyId);
-      await audit.record(auditContext(req, res), { action: 'api_key.rolled', organizationId, targetType: 'api_key', targetId: key.keyId, data: { gracePeriodSeconds } });
-      notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" rolled`, `Key ${key.keyId} ("${key.name}") has a new secret. The old one works until ${key.previousSecretValidUntil ?? 'now'}.`);
-      res.json({ key, token });
+      await audit.record(auditContext(req, res), { action: 'api_key.rotated', organizationId, targetType: 'api_key', targetId: key.keyId, data: { overlapHours } });
+      notifyAdmins(deps, services, organizationId, `Treadwise: API key "${key.name}" rotated`, `Key ${key.keyId} ("${key.name}") has a new secret. The old one works until ${key.previousSecretValidUntil ?? 'now'}.`);
+      res.json({ key, requestId: String(req.id), token });
     });
 
     router.post('/:id/revoke', async (req, res) => {
@@ -161,7 +161,7 @@ export const keyRoutes: RouteModule = {
       tags: ['API keys'],
       summary: 'Create an API key',
       description:
-        'Creates a secret (`tw_sec_…`) or publishable (`tw_pub_…`) key. The whole key is in this response only; ' +
+        'Creates a server (`tw_server_…`) or embed (`tw_embed_…`) key. The whole key is in this response only; ' +
         'Treadwise keeps just an HMAC of its secret. Scopes can never exceed the creator’s. Send `Idempotency-Key` to retry safely.',
       security,
       request: {
@@ -187,17 +187,17 @@ export const keyRoutes: RouteModule = {
     });
     registry.registerPath({
       method: 'post',
-      path: '/v1/keys/{id}/roll',
+      path: '/v1/keys/{id}/rotate',
       tags: ['API keys'],
-      summary: 'Roll an API key',
-      description: 'Issues a new secret for the same key id. The old secret keeps working for the grace period (0 to 7 days), then stops.',
+      summary: 'Rotate an API key',
+      description: 'Issues a new secret for the same key id. The old secret keeps working beside it for `overlapHours` (0 to 72), then stops.',
       security,
-      request: { params: idParams, body: { required: false, content: { 'application/json': { schema: rollApiKeyRequestSchema } } } },
+      request: { params: idParams, body: { required: false, content: { 'application/json': { schema: rotateApiKeyRequestSchema } } } },
       responses: {
         200: { description: 'The key and its new token (shown once).', content: { 'application/json': { schema: apiKeyWithTokenSchema } } },
         ...problems,
         404: problemResponse('No such key.'),
-        409: problemResponse('The key is revoked or expired.'),
+        409: problemResponse('The key is revoked or expired (`key_revoked`, `key_expired`), or another rotation of it is running (`rotation_in_progress`).'),
       },
     });
     registry.registerPath({

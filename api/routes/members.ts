@@ -38,7 +38,7 @@ export const memberRoutes: RouteModule = {
         targetId: invitation.id,
         data: { email: invitation.email, role, expiresAt: invitation.expiresAt },
       });
-      res.status(201).json({ invitation });
+      res.status(201).json({ invitation, requestId: String(req.id) });
     });
 
     router.patch('/:id', validateBody(updateMemberRequestSchema), async (req, res) => {
@@ -76,7 +76,7 @@ export const memberRoutes: RouteModule = {
   docs(registry) {
     const security = [{ bearer: [] }];
     const idParams = z.object({ id: z.uuid().meta({ description: 'The membership id (`id` in the member list).' }) });
-    const orgNote = ' Acts in the organisation of the `Treadwise-Organization` header (or the caller’s only one). API keys cannot manage members.';
+    const orgNote = ' Acts in the organisation the access token names (see POST /v1/auth/switch-organization). API keys cannot manage members.';
     const denied = {
       401: problemResponse('No or invalid credentials.'),
       403: problemResponse('Needs the admin role; API keys are refused.'),

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import {
   createOrganizationRequestSchema,
   organizationPageSchema,
+  createdOrganizationSchema,
   organizationSchema,
   updateOrganizationRequestSchema,
   type CreateOrganizationRequest,
@@ -47,7 +48,7 @@ export const organizationRoutes: RouteModule = {
         targetId: organization.id,
         data: { slug: organization.slug, name: organization.name, planId: organization.planId },
       });
-      res.status(201).json(organization);
+      res.status(201).json({ ...organization, requestId: String(req.id) });
     });
 
     router.get('/:id', async (req, res) => {
@@ -113,7 +114,7 @@ export const organizationRoutes: RouteModule = {
         body: { required: true, content: { 'application/json': { schema: createOrganizationRequestSchema } } },
       },
       responses: {
-        201: { description: 'The new organisation.', content: { 'application/json': { schema: organizationSchema } } },
+        201: { description: 'The new organisation.', content: { 'application/json': { schema: createdOrganizationSchema } } },
         400: problemResponse('Invalid body, or an unknown plan (`unknown_plan`).'),
         401: unauthenticated,
         403: problemResponse('Not the operator.'),

@@ -116,24 +116,25 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
       return view(await find(organizationId, id));
     },
 
-    /** New secret; the old one keeps working for `graceSeconds` (0 ends it at once). */
-    async roll(organizationId: string, id: string, graceSeconds: number): Promise<{ key: ApiKeyView; token: string; row: ApiKeyRow }> {
+    /** New secret; the old one keeps working for `overlapHours` (0 ends it at once). */
+    async rotate(organizationId: string, id: string, overlapHours: number): Promise<{ key: ApiKeyView; token: string; row: ApiKeyRow }> {
       const current = await find(organizationId, id);
       const now = clock();
-      if (current.revokedAt) throw problems.conflict('key_revoked', 'A revoked key cannot be rolled.');
-      if (current.expiresAt && current.expiresAt <= now) throw problems.conflict('key_expired', 'An expired key cannot be rolled.');
+      if (current.revokedAt) throw problems.conflict('key_revoked', 'A revoked key cannot be rotated.');
+      if (current.expiresAt && current.expiresAt <= now) throw problems.conflict('key_expired', 'An expired key cannot be rotated.');
+      const overlapMs = overlapHours * 3600 * 1000;
       const secret = newSecret();
       const [row] = await db
         .update(apiKeys)
         .set({
           secretHash: hashSecret(pepper, current.keyId, secret),
-          previousSecretHash: graceSeconds > 0 ? current.secretHash : null,
-          previousValidUntil: graceSeconds > 0 ? new Date(now.getTime() + graceSeconds * 1000) : null,
+          previousSecretHash: overlapMs > 0 ? current.secretHash : null,
+          previousValidUntil: overlapMs > 0 ? new Date(now.getTime() + overlapMs) : null,
         })
-        // Only if nobody rolled it meanwhile: two rolls at once must not hand out a dead token.
+        // Only if nobody rotated it meanwhile: two rotations at once must not hand out a dead token.
         .where(and(eq(apiKeys.id, current.id), eq(apiKeys.secretHash, current.secretHash)))
         .returning();
-      if (!row) throw problems.conflict('key_changed', 'The key was rolled by another request at the same time; try again.');
+      if (!row) throw problems.conflict('rotation_in_progress', 'The key was rotated by another request at the same time; try again.');
       return { key: view(row), token: formatKey(row.kind, row.keyId, secret), row };
     },
 

@@ -26,6 +26,8 @@ interface MemberDeps {
 
 export interface AcceptedInvitation {
   session: Session;
+  /** The new session's id (its refresh-token family). */
+  sessionId: string;
   user: UserRow;
   organizationId: string;
   membershipId: string;
@@ -236,8 +238,10 @@ export function createMemberService({ db, clock, publicUrl, users: userService, 
             .select({ id: memberships.id, role: memberships.role })
             .from(memberships)
             .where(and(eq(memberships.organizationId, organizationId), eq(memberships.userId, user.id))))[0];
+        const started = await sessions.startSession(user, organizationId, tx);
         return {
-          session: await sessions.startSession(user, tx),
+          session: started.session,
+          sessionId: started.sessionId,
           user,
           organizationId,
           membershipId: membership.id,

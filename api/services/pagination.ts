@@ -1,15 +1,10 @@
 import { z } from 'zod';
 import { HttpProblem } from '../problem.js';
 
-export const pageQuerySchema = z.object({
-  limit: z.coerce.number().int().min(1).max(100).default(25),
-  cursor: z.string().max(200).optional(),
-});
-export type PageQuery = z.output<typeof pageQuerySchema>;
+export { pageQuerySchema, type PageQuery } from '../../shared/schemas/page.js';
 
 export interface Page<T> {
-  data: T[];
-  hasMore: boolean;
+  items: T[];
   nextCursor: string | null;
 }
 
@@ -31,11 +26,10 @@ export function decodeCursor<T>(cursor: string | undefined, schema: z.ZodType<T>
 
 /** Rows fetched with limit + 1 tell whether there is more without a count query. */
 export function toPage<R, T>(rows: R[], limit: number, view: (r: R) => T, cursorOf: (r: R) => unknown): Page<T> {
-  const hasMore = rows.length > limit;
-  const pageRows = hasMore ? rows.slice(0, limit) : rows;
+  const more = rows.length > limit;
+  const pageRows = more ? rows.slice(0, limit) : rows;
   return {
-    data: pageRows.map(view),
-    hasMore,
-    nextCursor: hasMore ? encodeCursor(cursorOf(pageRows[pageRows.length - 1])) : null,
+    items: pageRows.map(view),
+    nextCursor: more ? encodeCursor(cursorOf(pageRows[pageRows.length - 1])) : null,
   };
 }

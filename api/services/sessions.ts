@@ -1,10 +1,11 @@
 import { createHmac, randomBytes, randomUUID } from 'node:crypto';
-import { and, eq, isNull, sql } from 'drizzle-orm';
-import type { Session } from '../../shared/schemas/accounts.js';
+import { and, eq, gt, isNull, sql } from 'drizzle-orm';
+import type { OrganizationRef, Session, SwitchedOrganization } from '../../shared/schemas/accounts.js';
 import type { AccessTokens } from '../auth/access-tokens.js';
 import { verifyPassword } from '../auth/passwords.js';
 import type { Db } from '../db/client.js';
-import { refreshTokens, users } from '../db/schema.js';
+import { organizations, refreshTokens, users } from '../db/schema.js';
+import type { MembershipView } from '../../shared/schemas/accounts.js';
 import { userView, type UserRow, type UserService } from './users.js';
 
 export const REFRESH_TOKEN_TTL_MS = 30 * 24 * 3600 * 1000;
@@ -32,6 +33,8 @@ export type RefreshResult =
   /** A token already exchanged came back: someone holds a copy, so the whole family is revoked. */
   | { ok: false; reason: 'reused'; userId: string };
 
+export type SwitchResult = { ok: true; switched: SwitchedOrganization } | { ok: false; reason: 'not_found' | 'session_ended' };
+
 interface SessionDeps {
   db: Db;
   pepper: Buffer;
@@ -44,21 +47,47 @@ interface SessionDeps {
 export function createSessionService({ db, pepper, clock, accessTokens, users: userService }: SessionDeps) {
   const digest = (token: string) => createHmac('sha256', pepper).update(`refresh-token.${token}`).digest('hex');
 
-  /** A new refresh token in `familyId` plus an access token, as the API returns them. */
-  async function issue(user: UserRow, familyId: string, tx: Db = db): Promise<Session> {
+  /**
+   * A new refresh token in `familyId` plus an access token, as the API returns them. The session
+   * acts in `organizationId` when the user may act there; a user's only (or first) membership
+   * otherwise; an operator acts platform-wide until they switch.
+   */
+  async function issue(user: UserRow, familyId: string, organizationId: string | null, tx: Db = db): Promise<Session> {
     const now = clock();
+    const memberships = await userService.membershipsOf(user.id, tx);
+    const organization = await actingOrganization(user, memberships, organizationId, tx);
     const refreshToken = randomBytes(32).toString('base64url');
     const refreshTokenExpiresAt = new Date(now.getTime() + REFRESH_TOKEN_TTL_MS);
-    await tx.insert(refreshTokens).values({ userId: user.id, familyId, tokenHash: digest(refreshToken), expiresAt: refreshTokenExpiresAt, createdAt: now });
-    const access = await accessTokens.sign({ sub: user.id, email: user.email });
+    await tx.insert(refreshTokens).values({
+      userId: user.id,
+      familyId,
+      organizationId: organization?.id ?? null,
+      tokenHash: digest(refreshToken),
+      expiresAt: refreshTokenExpiresAt,
+      createdAt: now,
+    });
+    const access = await accessTokens.sign({ sub: user.id, email: user.email, sid: familyId, org: organization?.id ?? null });
     return {
       accessToken: access.token,
       accessTokenExpiresAt: access.expiresAt.toISOString(),
       refreshToken,
       refreshTokenExpiresAt: refreshTokenExpiresAt.toISOString(),
       user: userView(user),
-      memberships: await userService.membershipsOf(user.id, tx),
+      organization,
+      memberships,
     };
+  }
+
+  async function actingOrganization(user: UserRow, memberships: MembershipView[], wanted: string | null, tx: Db): Promise<OrganizationRef | null> {
+    if (wanted) {
+      const member = memberships.find((m) => m.organization.id === wanted);
+      if (member) return member.organization;
+      if (user.operator) {
+        const [org] = await tx.select({ id: organizations.id, slug: organizations.slug, name: organizations.name }).from(organizations).where(eq(organizations.id, wanted));
+        if (org) return org;
+      }
+    }
+    return user.operator ? null : (memberships[0]?.organization ?? null);
   }
 
   async function revokeFamily(familyId: string, tx: Db = db): Promise<void> {
@@ -67,8 +96,47 @@ export function createSessionService({ db, pepper, clock, accessTokens, users: u
 
   return {
     /** A session for a user already proven (invitation accepted): a new token family. */
-    startSession(user: UserRow, tx: Db = db): Promise<Session> {
-      return issue(user, randomUUID(), tx);
+    async startSession(user: UserRow, organizationId: string | null, tx: Db = db): Promise<{ session: Session; sessionId: string }> {
+      const sessionId = randomUUID();
+      return { session: await issue(user, sessionId, organizationId, tx), sessionId };
+    },
+
+    /**
+     * Acts in another organisation: a new access token, and the session's refresh tokens remember
+     * the choice so a refresh keeps it. The operator may switch to any organisation, others only
+     * to their memberships (anything else is not found, so ids do not leak).
+     */
+    async switchOrganization(userId: string, sessionId: string, slugOrId: string): Promise<SwitchResult> {
+      const user = await userService.get(userId);
+      if (!user) return { ok: false, reason: 'session_ended' };
+      const now = clock();
+      const [live] = await db
+        .select({ id: refreshTokens.id })
+        .from(refreshTokens)
+        .where(and(eq(refreshTokens.familyId, sessionId), eq(refreshTokens.userId, userId), isNull(refreshTokens.usedAt), isNull(refreshTokens.revokedAt), gt(refreshTokens.expiresAt, now)));
+      if (!live) return { ok: false, reason: 'session_ended' };
+      const memberships = await userService.membershipsOf(userId);
+      const isId = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(slugOrId);
+      const member = memberships.find((m) => (isId ? m.organization.id === slugOrId.toLowerCase() : m.organization.slug === slugOrId));
+      let organization: OrganizationRef | undefined = member?.organization;
+      if (!organization && user.operator) {
+        [organization] = await db
+          .select({ id: organizations.id, slug: organizations.slug, name: organizations.name })
+          .from(organizations)
+          .where(isId ? eq(organizations.id, slugOrId.toLowerCase()) : eq(organizations.slug, slugOrId));
+      }
+      if (!organization) return { ok: false, reason: 'not_found' };
+      await db.update(refreshTokens).set({ organizationId: organization.id }).where(and(eq(refreshTokens.familyId, sessionId), eq(refreshTokens.userId, userId)));
+      const access = await accessTokens.sign({ sub: user.id, email: user.email, sid: sessionId, org: organization.id });
+      return {
+        ok: true,
+        switched: {
+          accessToken: access.token,
+          accessTokenExpiresAt: access.expiresAt.toISOString(),
+          organization,
+          role: member?.role ?? 'admin', // the operator acts as an admin anywhere
+        },
+      };
     },
 
     async signIn(email: string, password: string): Promise<SignInResult> {
@@ -93,7 +161,7 @@ export function createSessionService({ db, pepper, clock, accessTokens, users: u
         return { ok: false, reason: 'bad_password', userId: user.id };
       }
       if (user.failedSignIns > 0 || user.lockedUntil) await db.update(users).set({ failedSignIns: 0, lockedUntil: null }).where(eq(users.id, user.id));
-      return { ok: true, session: await issue(user, randomUUID()), user, userId: user.id };
+      return { ok: true, session: await issue(user, randomUUID(), null), user, userId: user.id };
     },
 
     /** Exchanges a refresh token for a new pair; the presented one is used up. */
@@ -120,7 +188,7 @@ export function createSessionService({ db, pepper, clock, accessTokens, users: u
           await revokeFamily(row.familyId, tx);
           return { ok: false as const, reason: 'reused' as const, userId: row.userId };
         }
-        return { ok: true as const, session: await issue(user, row.familyId, tx), userId: user.id };
+        return { ok: true as const, session: await issue(user, row.familyId, row.organizationId, tx), userId: user.id };
       });
     },
 

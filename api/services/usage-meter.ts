@@ -9,7 +9,7 @@ export type StatusClass = '2xx' | '3xx' | '4xx' | '5xx';
 /** One request made with an API key, as the traffic middleware saw it. */
 export interface UsageSample {
   organizationId: string;
-  /** Public key id (`tw_sec_<keyId>_…`), the one shown in charts. */
+  /** Public key id (`tw_server_<keyId>_…`), the one shown in charts. */
   keyId: string;
   /** Row id of the key, for `api_keys.last_used_at`. */
   apiKeyId: string;

@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { createdByRequestIdSchema } from './common.js';
+import { pageOf } from './page.js';
 
 export const SCOPE_VALUES = [
   'sizing:run',
@@ -10,6 +12,8 @@ export const SCOPE_VALUES = [
   'usage:read',
   'keys:manage',
 ] as const;
+
+export const keyKindSchema = z.enum(['server', 'embed']).meta({ id: 'KeyKind', description: '`server` keys for servers, `embed` keys for shop web pages.' });
 
 export const scopeSchema = z.enum(SCOPE_VALUES).meta({ id: 'Scope', description: 'What a key may do.' });
 
@@ -24,70 +28,72 @@ const originPattern = z
 export const createApiKeyRequestSchema = z
   .object({
     name: z.string().trim().min(1).max(100).meta({ description: 'What the key is for.', example: 'Product pages' }),
-    kind: z.enum(['secret', 'publishable']).default('secret').meta({
-      description: '`secret` (tw_sec_…) for servers; `publishable` (tw_pub_…) for browser pages, sizing only, from its allowed origins.',
+    kind: keyKindSchema.default('server').meta({
+      description: '`server` (tw_server_…) for servers; `embed` (tw_embed_…) for shop web pages: sizing only, from its allowed origins.',
     }),
     scopes: z.array(scopeSchema).min(1).max(8).optional().meta({
-      description: 'Defaults to ["sizing:run"]. Never more than the creator holds; publishable keys get only sizing:run.',
+      description: 'Defaults to ["sizing:run"]. Never more than the creator holds; embed keys get only sizing:run.',
     }),
     allowedOrigins: z.array(originPattern).max(20).optional().meta({
-      description: 'Publishable keys only (required there): page origins allowed to use the key; one leading `*.` label matches sub-domains.',
+      description: 'Embed keys only (required there): page origins allowed to use the key; one leading `*.` label matches sub-domains.',
     }),
     expiresAt: z.iso.datetime({ offset: true }).nullable().optional().meta({ description: 'When the key stops working; none by default.' }),
   })
   .superRefine((v, ctx) => {
-    if (v.kind === 'publishable') {
-      if (!v.allowedOrigins?.length) ctx.addIssue({ code: 'custom', path: ['allowedOrigins'], message: 'a publishable key needs at least one allowed origin' });
-      if (v.scopes && v.scopes.some((s) => s !== 'sizing:run')) ctx.addIssue({ code: 'custom', path: ['scopes'], message: 'publishable keys may only have sizing:run' });
+    if (v.kind === 'embed') {
+      if (!v.allowedOrigins?.length) ctx.addIssue({ code: 'custom', path: ['allowedOrigins'], message: 'an embed key needs at least one allowed origin' });
+      if (v.scopes && v.scopes.some((s) => s !== 'sizing:run')) ctx.addIssue({ code: 'custom', path: ['scopes'], message: 'embed keys may only have sizing:run' });
     } else if (v.allowedOrigins?.length) {
-      ctx.addIssue({ code: 'custom', path: ['allowedOrigins'], message: 'only publishable keys have allowed origins' });
+      ctx.addIssue({ code: 'custom', path: ['allowedOrigins'], message: 'only embed keys have allowed origins' });
     }
   })
   .meta({
     id: 'CreateApiKeyRequest',
-    example: { name: 'Product pages', kind: 'publishable', allowedOrigins: ['https://shop.harborlane.test'] },
+    example: { name: 'Product pages', kind: 'embed', allowedOrigins: ['https://shop.harborlane.test'] },
   });
 
-export const rollApiKeyRequestSchema = z
+/** Longest overlap of an old secret after a rotation: three days, enough for a weekend deploy. */
+export const MAX_OVERLAP_HOURS = 72;
+
+export const rotateApiKeyRequestSchema = z
   .object({
-    gracePeriodSeconds: z
+    overlapHours: z
       .int()
       .min(0)
-      .max(7 * 24 * 3600)
-      .default(24 * 3600)
-      .meta({ description: 'How long the old secret keeps working (0 to 7 days; default 1 day).', example: 3600 }),
+      .max(MAX_OVERLAP_HOURS)
+      .default(24)
+      .meta({ description: `Hours the old secret keeps working beside the new one (0 to ${MAX_OVERLAP_HOURS}; default 24; 0 stops it at once).`, example: 2 }),
   })
-  .meta({ id: 'RollApiKeyRequest' });
+  .meta({ id: 'RotateApiKeyRequest' });
 
 export const apiKeySchema = z
   .object({
     id: z.uuid(),
     keyId: z.string().meta({ description: 'Public part of the key, shown in logs and usage.', example: 'q7m2x4kd9fhp' }),
-    kind: z.enum(['secret', 'publishable']),
+    kind: keyKindSchema,
     name: z.string(),
     scopes: z.array(z.string()),
     allowedOrigins: z.array(z.string()),
     expiresAt: z.string().nullable(),
     lastUsedAt: z.string().nullable(),
     revokedAt: z.string().nullable(),
-    previousSecretValidUntil: z.string().nullable().meta({ description: 'After a roll: until when the old secret still works.' }),
+    previousSecretValidUntil: z.string().nullable().meta({ description: 'After a rotation: until when the old secret still works.' }),
     createdAt: z.string(),
     status: z.enum(['active', 'expired', 'revoked']),
   })
-  .meta({ id: 'ApiKey', description: 'An API key as listed; the secret is never shown again after creation or roll.' });
+  .meta({ id: 'ApiKey', description: 'An API key as listed; the secret is never shown again after creation or rotation.' });
 
 export const apiKeyWithTokenSchema = z
   .object({
     key: apiKeySchema,
+    requestId: createdByRequestIdSchema,
     token: z.string().meta({
       description: 'The whole key — shown only in this response. Store it now.',
-      example: 'tw_pub_q7m2x4kd9fhp_3d7Kc0yZ1rT9bQw2aXv8nLm4pE6sH5uJ',
+      example: 'tw_embed_q7m2x4kd9fhp_3d7Kc0yZ1rT9bQw2aXv8nLm4pE6sH5uJ',
     }),
   })
   .meta({ id: 'ApiKeyWithToken' });
 
-export const apiKeyPageSchema = z
-  .object({ data: z.array(apiKeySchema), hasMore: z.boolean(), nextCursor: z.string().nullable() })
-  .meta({ id: 'ApiKeyPage' });
+export const apiKeyPageSchema = pageOf(apiKeySchema, 'ApiKeyPage');
 
 export type CreateApiKeyRequest = z.output<typeof createApiKeyRequestSchema>;

@@ -16,3 +16,12 @@ export const warningSchema = z
   .meta({ id: 'Warning', description: 'A limit reached or a default assumed.' });
 
 export const engineVersionSchema = z.string().meta({ description: 'Semver of the sizing engine that produced the result.' });
+
+/**
+ * On answers of creating POSTs: the request that made the thing. A replay of an
+ * `Idempotency-Key` request answers the first response byte for byte, so it carries the first
+ * call's id, which tells a client it got a replay.
+ */
+export const createdByRequestIdSchema = z
+  .string()
+  .meta({ description: 'The X-Request-Id of the request that created this; on an Idempotency-Key replay, the first call’s.', example: '5f0c9a1e-2b7d-4c3e-9a51-0d8e6f4b2a10' });

@@ -9,7 +9,7 @@ export const problemSchema = z
     detail: z.string().optional(),
     instance: z.string().optional(),
     code: z.string().meta({ description: 'Stable snake_case code to branch on.', example: 'validation_failed' }),
-    requestId: z.string().optional().meta({ description: 'Same as the Request-Id response header.' }),
+    requestId: z.string().optional().meta({ description: 'Same as the X-Request-Id response header.' }),
     errors: z
       .array(z.object({ path: z.string(), message: z.string() }))
       .optional()

@@ -23,7 +23,7 @@ const DEFAULT_REFERENCES: Record<keyof typeof PIXEL_DEFAULTS, string> = {
   bitsPerPixel: '24 bits per RGB pixel — WS2812B datasheet',
   resetUs: 'reset ≥ 280 µs on newer parts — WS2812B and WS2812B-2020 datasheets',
   clockHz: '1 MHz clock, a conservative rate for two-wire parts (common practice, no published source)',
-  currentPerPixelMa: '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide',
+  currentPerPixelMa: '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory)',
   supplyVoltageV: '5 V pixel strip (common practice, no published source)',
   brightnessPercent: 'no brightness cap',
 };

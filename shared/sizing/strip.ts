@@ -2,7 +2,7 @@ import { round, type TraceEntry } from './trace.js';
 
 /** Gap left at each end of a tread so the strip clears the stringer (domain rule, default). */
 export const DEFAULT_END_CLEARANCE_MM = 20;
-/** 5 V RGB pixel at full white, 20 mA per colour — Adafruit NeoPixel Überguide. */
+/** 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory). */
 export const DEFAULT_CURRENT_PER_PIXEL_MA = 60;
 
 // Lengths such as 17 × 33.3 mm must not lose a whole pitch to float noise.
@@ -118,7 +118,7 @@ export function pixelCurrentTrace(
     },
     reference:
       currentPerPixelMa === undefined
-        ? '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide; brightness scales linearly'
+        ? '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory); brightness scales linearly'
         : 'current per pixel as given; brightness scales linearly',
   };
 }

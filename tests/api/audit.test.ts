@@ -27,8 +27,8 @@ const list = (token: string, query = '') => request(t.app).get(`/v1/audit-events
 describe('GET /v1/audit-events', () => {
   it('shows an organisation only its own events, newest first, with actor, target and request id', async () => {
     const res = await list(adminB, '?action=api_key.created').expect(200);
-    expect(res.body.data).toHaveLength(1);
-    const [event] = res.body.data;
+    expect(res.body.items).toHaveLength(1);
+    const [event] = res.body.items;
     expect(event).toMatchObject({ action: 'api_key.created', actor: { type: 'user' }, target: { type: 'api_key' } });
     expect(event.requestId).toBeTruthy();
     expect(event.data.name).toBe('B key');
@@ -36,11 +36,11 @@ describe('GET /v1/audit-events', () => {
 
   it('pages with a cursor without repeating events', async () => {
     const first = await list(adminA, '?action=api_key.created&limit=2').expect(200);
-    expect(first.body.hasMore).toBe(true);
+    expect(first.body.nextCursor).not.toBeNull();
     const second = await list(adminA, `?action=api_key.created&limit=2&cursor=${first.body.nextCursor}`).expect(200);
-    const names = [...first.body.data, ...second.body.data].map((e: { data: { name: string } }) => e.data.name);
+    const names = [...first.body.items, ...second.body.items].map((e: { data: { name: string } }) => e.data.name);
     expect(names).toEqual(['A key 2', 'A key 1', 'A key 0']);
-    expect(second.body.hasMore).toBe(false);
+    expect(second.body.nextCursor).toBeNull();
   });
 
   it('is for admins only', async () => {

@@ -136,7 +136,7 @@ describe('access tokens (JWT)', () => {
   it('refuses an unsigned token (alg: none) carrying valid claims', async () => {
     const unsigned = new UnsecuredJWT(claims).encode();
     const res = await me(unsigned).expect(401);
-    expect(res.body.code).toBe('invalid_token');
+    expect(res.body.code).toBe('credential_unknown');
   });
 
   it('refuses HS256 tokens keyed with the public key (algorithm confusion)', async () => {
@@ -144,7 +144,11 @@ describe('access tokens (JWT)', () => {
     const raw = Buffer.from(t.secrets.jwtPublicKey.export({ format: 'jwk' }).x as string, 'base64url');
     for (const secret of [pem, raw]) {
       const forged = await new SignJWT(claims).setProtectedHeader({ alg: 'HS256', typ: 'JWT' }).sign(secret);
-      expect((await me(forged)).status).toBe(401);
+      const res = await me(forged).expect(401);
+      expect(res.body.code).toBe('credential_unknown');
+      // Long expired and forged: the bad signature is what is reported, never the expiry.
+      const stale = await new SignJWT(claims).setProtectedHeader({ alg: 'HS256', typ: 'JWT' }).setExpirationTime(1).sign(secret);
+      expect((await me(stale).expect(401)).body.code).toBe('credential_unknown');
     }
   });
 
@@ -161,7 +165,7 @@ describe('access tokens (JWT)', () => {
     await me(valid).expect(200);
     advance(1000);
     const res = await me(valid).expect(401);
-    expect(res.body.code).toBe('invalid_token');
+    expect(res.body.code).toBe('credential_expired');
   });
 
   it('keeps API keys out of /v1/auth/me', async () => {
@@ -238,7 +242,7 @@ describe('password reset', () => {
   async function resetLinkFor(email: string): Promise<string> {
     await app.locals.services.passwordResets.settled(); // the mail goes out after the 202
     const page = await app.locals.services.mailer.outbox({ limit: 100 });
-    const message = page.data.find((m) => m.to === email && m.subject.includes('password'));
+    const message = page.items.find((m) => m.to === email && m.subject.includes('password'));
     expect(message, `a reset e-mail to ${email}`).toBeDefined();
     const link = /https:\/\/console\.treadwise\.test\/reset-password\?token=([A-Za-z0-9_-]+)/.exec(message!.text);
     expect(link, 'the link points at PUBLIC_URL').not.toBeNull();
@@ -247,11 +251,11 @@ describe('password reset', () => {
 
   it('answers 202 for known and unknown addresses, and mails only the known one', async () => {
     const { email } = await createMember(app, org.id, 'viewer');
-    const before = (await app.locals.services.mailer.outbox({ limit: 100 })).data.length;
+    const before = (await app.locals.services.mailer.outbox({ limit: 100 })).items.length;
     await request(app).post('/v1/auth/password-reset').send({ email }).expect(202);
     await request(app).post('/v1/auth/password-reset').send({ email: 'ghost@members.test' }).expect(202);
     await app.locals.services.passwordResets.settled(); // the mail goes out after the answer
-    const after = (await app.locals.services.mailer.outbox({ limit: 100 })).data;
+    const after = (await app.locals.services.mailer.outbox({ limit: 100 })).items;
     expect(after.length - before).toBe(1);
     expect(after.some((m) => m.to === 'ghost@members.test')).toBe(false);
   });

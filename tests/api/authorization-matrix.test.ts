@@ -2,7 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { POLICIES, type Policy } from '../../api/auth/policy.js';
 import { ROLES, SCOPES, roleAtLeast, type Role, type Scope } from '../../api/auth/scopes.js';
-import { createMember, createOperator, signIn } from '../support/accounts.js';
+import { createMember, createOperator, signIn, switchTo } from '../support/accounts.js';
 import { mountedRoutes } from '../support/mounted-routes.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
@@ -23,7 +23,7 @@ interface Credential {
   as:
     | { kind: 'none' }
     | { kind: 'dead' }
-    | { kind: 'key'; publishable: boolean; scopes: readonly Scope[] }
+    | { kind: 'key'; embed: boolean; scopes: readonly Scope[] }
     | { kind: 'user'; operator: boolean; role: Role | null };
 }
 
@@ -35,17 +35,17 @@ beforeAll(async () => {
   const org = await createOrganization(t, 'matrix-org');
   credentials.push({ name: 'no credentials', as: { kind: 'none' } });
   for (const scope of SCOPES) {
-    credentials.push({ name: `secret key with ${scope}`, token: (await createKey(t, org.id, { scopes: [scope] })).token, as: { kind: 'key', publishable: false, scopes: [scope] } });
+    credentials.push({ name: `secret key with ${scope}`, token: (await createKey(t, org.id, { scopes: [scope] })).token, as: { kind: 'key', embed: false, scopes: [scope] } });
   }
-  const pub = await createKey(t, org.id, { kind: 'publishable', allowedOrigins: [ORIGIN] });
-  credentials.push({ name: 'publishable key', token: pub.token, origin: ORIGIN, as: { kind: 'key', publishable: true, scopes: ['sizing:run'] } });
+  const pub = await createKey(t, org.id, { kind: 'embed', allowedOrigins: [ORIGIN] });
+  credentials.push({ name: 'embed key', token: pub.token, origin: ORIGIN, as: { kind: 'key', embed: true, scopes: ['sizing:run'] } });
 
   const expiring = await createKey(t, org.id, { scopes: [...SCOPES], expiresAt: new Date(now.getTime() + 1000) });
   const revoked = await createKey(t, org.id, { scopes: [...SCOPES] });
   await t.app.locals.services.apiKeys.revoke(org.id, revoked.key.id);
   credentials.push({ name: 'expired key', token: expiring.token, as: { kind: 'dead' } });
   credentials.push({ name: 'revoked key', token: revoked.token, as: { kind: 'dead' } });
-  credentials.push({ name: 'malformed token', token: 'tw_sec_nope', as: { kind: 'dead' } });
+  credentials.push({ name: 'malformed token', token: 'tw_server_nope', as: { kind: 'dead' } });
   credentials.push({ name: 'forged access token', token: 'eyJhbGciOiJub25lIn0.eyJzdWIiOiJ4In0.', as: { kind: 'dead' } });
 
   for (const role of ROLES) {
@@ -57,7 +57,7 @@ beforeAll(async () => {
   const operator = await createOperator(t.app);
   const opToken = (await signIn(t.app, operator.email)).accessToken;
   credentials.push({ name: 'operator', token: opToken, as: { kind: 'user', operator: true, role: null } });
-  credentials.push({ name: 'operator in the organisation', token: opToken, headers: { 'Treadwise-Organization': 'matrix-org' }, as: { kind: 'user', operator: true, role: 'admin' } });
+  credentials.push({ name: 'operator in the organisation', token: await switchTo(t.app, opToken, 'matrix-org'), as: { kind: 'user', operator: true, role: 'admin' } });
   now = new Date(now.getTime() + 5000); // past the expiring key's expiry
 });
 afterAll(() => t.close());
@@ -73,7 +73,7 @@ function expected(policy: Policy, cred: Credential): 'allow' | 'deny' {
   if (cred.as.kind !== 'key') return 'deny';
   if (policy.operator) return 'deny';
   if (!policy.scope) return 'deny';
-  if (cred.as.publishable && !policy.publishable) return 'deny';
+  if (cred.as.embed && !policy.embed) return 'deny';
   return cred.as.scopes.includes(policy.scope) ? 'allow' : 'deny';
 }
 

@@ -19,16 +19,16 @@ describe('GET /v1/health', () => {
     expect(healthSchema.parse(res.body)).toMatchObject({ status: 'ok', time: '2026-12-01T09:30:00.000Z' });
   });
 
-  it('mints a Request-Id and echoes a well-formed one the client sent', async () => {
+  it('mints an X-Request-Id and echoes a well-formed one the client sent', async () => {
     const minted = await request(t.app).get('/v1/health');
-    expect(minted.headers['request-id']).toMatch(/^[0-9a-f-]{36}$/);
-    const echoed = await request(t.app).get('/v1/health').set('Request-Id', 'checkout-42.a');
-    expect(echoed.headers['request-id']).toBe('checkout-42.a');
+    expect(minted.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
+    const echoed = await request(t.app).get('/v1/health').set('X-Request-Id', 'checkout-42.a');
+    expect(echoed.headers['x-request-id']).toBe('checkout-42.a');
   });
 
-  it('replaces a malformed Request-Id instead of echoing it', async () => {
-    const res = await request(t.app).get('/v1/health').set('Request-Id', 'bad id <script>');
-    expect(res.headers['request-id']).not.toContain('script');
+  it('replaces a malformed X-Request-Id instead of echoing it', async () => {
+    const res = await request(t.app).get('/v1/health').set('X-Request-Id', 'bad id <script>');
+    expect(res.headers['x-request-id']).not.toContain('script');
   });
 
   it('sets the security headers from helmet', async () => {
@@ -59,7 +59,7 @@ describe('errors', () => {
     const res = await request(t.app).get('/v1/no-such-thing').expect(404);
     expect(res.headers['content-type']).toContain('application/problem+json');
     expect(res.body).toMatchObject({ status: 404, code: 'not_found', instance: '/v1/no-such-thing' });
-    expect(res.body.requestId).toBe(res.headers['request-id']);
+    expect(res.body.requestId).toBe(res.headers['x-request-id']);
   });
 
   it('answers malformed JSON with a 400 problem and no stack trace', async () => {

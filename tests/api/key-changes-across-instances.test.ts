@@ -30,11 +30,11 @@ describe('a key changed on one instance', () => {
     await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);
   });
 
-  it('makes a rolled key’s old secret stop on the other instance when the grace period is 0', async () => {
+  it('makes a rotated key’s old secret stop on the other instance when the overlap is 0', async () => {
     const created = await request(t.app).post('/v1/keys').set('Authorization', `Bearer ${manager}`).send({ name: 'Rolled' }).expect(201);
     await sizeOn(b, created.body.token).expect(200);
-    const rolled = await request(t.app).post(`/v1/keys/${created.body.key.id}/roll`).set('Authorization', `Bearer ${manager}`).send({ gracePeriodSeconds: 0 }).expect(200);
+    const rotated = await request(t.app).post(`/v1/keys/${created.body.key.id}/rotate`).set('Authorization', `Bearer ${manager}`).send({ overlapHours: 0 }).expect(200);
     await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);
-    await sizeOn(b, rolled.body.token).expect(200);
+    await sizeOn(b, rotated.body.token).expect(200);
   });
 });

@@ -43,7 +43,7 @@ async function newSecretKey(scopes = ['sizing:run']) {
 describe('creating keys', () => {
   it('shows the whole key once and stores only an HMAC of its secret', async () => {
     const { key, token } = await newSecretKey();
-    expect(token).toMatch(/^tw_sec_[a-z2-7]{12}_[A-Za-z0-9_-]{32}$/);
+    expect(token).toMatch(/^tw_server_[a-z2-7]{12}_[A-Za-z0-9_-]{32}$/);
     const parsed = parseKey(token)!;
     expect(parsed.keyId).toBe(key.keyId);
 
@@ -67,10 +67,10 @@ describe('creating keys', () => {
     expect(res.body.errors[0].path).toBe('scopes');
   });
 
-  it('requires allowed origins on a publishable key and gives it sizing only', async () => {
-    const missing = await as(managerA).post('/v1/keys', { name: 'Pages', kind: 'publishable' }).expect(400);
+  it('requires allowed origins on a embed key and gives it sizing only', async () => {
+    const missing = await as(managerA).post('/v1/keys', { name: 'Pages', kind: 'embed' }).expect(400);
     expect(missing.body.errors.map((e: { path: string }) => e.path)).toContain('allowedOrigins');
-    const wide = await as(managerA).post('/v1/keys', { name: 'Pages', kind: 'publishable', allowedOrigins: ['https://shop.example.test'], scopes: ['usage:read'] }).expect(400);
+    const wide = await as(managerA).post('/v1/keys', { name: 'Pages', kind: 'embed', allowedOrigins: ['https://shop.example.test'], scopes: ['usage:read'] }).expect(400);
     expect(wide.body.errors.map((e: { path: string }) => e.path)).toContain('scopes');
   });
 
@@ -84,8 +84,11 @@ describe('creating keys', () => {
   it('replays a create with the same Idempotency-Key and refuses the key with another body', async () => {
     const first = await as(managerA).post('/v1/keys', { name: 'Retry-safe' }).set('Idempotency-Key', 'create-1').expect(201);
     const again = await as(managerA).post('/v1/keys', { name: 'Retry-safe' }).set('Idempotency-Key', 'create-1').expect(201);
-    expect(again.headers['idempotent-replayed']).toBe('true');
-    expect(again.body).toEqual(first.body);
+    // No marker header: the replay is byte for byte the first answer, its requestId the first call's.
+    expect(again.text).toBe(first.text);
+    expect(first.body.requestId).toBe(first.headers['x-request-id']);
+    expect(again.body.requestId).not.toBe(again.headers['x-request-id']);
+    expect(Object.keys(again.headers).filter((h) => /replay/i.test(h))).toEqual([]);
     const other = await as(managerA).post('/v1/keys', { name: 'Something else' }).set('Idempotency-Key', 'create-1').expect(422);
     expect(other.body.code).toBe('idempotency_key_reused');
   });
@@ -95,7 +98,7 @@ describe('what a key may do to other keys', () => {
   it('cannot roll or revoke a key with scopes it does not hold', async () => {
     const narrow = await as(managerA).post('/v1/keys', { name: 'Key admin only', scopes: ['keys:manage'] }).expect(201);
     const strong = await newSecretKey(['sizing:run', 'usage:read']);
-    expect((await as(narrow.body.token).post(`/v1/keys/${strong.key.id}/roll`, {}).expect(403)).body.code).toBe('scope_exceeds_caller');
+    expect((await as(narrow.body.token).post(`/v1/keys/${strong.key.id}/rotate`, {}).expect(403)).body.code).toBe('scope_exceeds_caller');
     expect((await as(narrow.body.token).post(`/v1/keys/${strong.key.id}/revoke`).expect(403)).body.code).toBe('scope_exceeds_caller');
     await size(strong.token).expect(200);
   });
@@ -108,7 +111,7 @@ describe('what a key may do to other keys', () => {
   });
 
   it('refuses a wildcard origin over a whole top-level domain', async () => {
-    const res = await as(managerA).post('/v1/keys', { name: 'Too wide', kind: 'publishable', allowedOrigins: ['https://*.test'] }).expect(400);
+    const res = await as(managerA).post('/v1/keys', { name: 'Too wide', kind: 'embed', allowedOrigins: ['https://*.test'] }).expect(400);
     expect(res.body.errors.map((e: { path: string }) => e.path)).toContain('allowedOrigins.0');
   });
 
@@ -123,7 +126,7 @@ describe('what a key may do to other keys', () => {
 describe('using keys', () => {
   it('refuses malformed and tampered keys', async () => {
     const { token } = await newSecretKey();
-    for (const bad of ['tw_sec_short', `${token.slice(0, -1)}${token.endsWith('A') ? 'B' : 'A'}`, token.replace('tw_sec_', 'tw_pub_'), token.toUpperCase()]) {
+    for (const bad of ['tw_server_short', `${token.slice(0, -1)}${token.endsWith('A') ? 'B' : 'A'}`, token.replace('tw_server_', 'tw_embed_'), token.toUpperCase()]) {
       const res = await size(bad);
       expect(res.status, bad).toBe(401);
       expect(res.headers['content-type']).toContain('application/problem+json');
@@ -140,15 +143,15 @@ describe('using keys', () => {
     const res = await as(managerA).post('/v1/keys', { name: 'Short-lived', expiresAt: new Date(now.getTime() + 60_000).toISOString() }).expect(201);
     await size(res.body.token).expect(200);
     advance(61_000);
-    expect((await size(res.body.token).expect(401)).body.code).toBe('api_key_expired');
+    expect((await size(res.body.token).expect(401)).body.code).toBe('credential_expired');
   });
 });
 
 describe('rolling and revoking', () => {
-  it('keeps the old secret working for the grace period, then only the new one', async () => {
+  it('keeps the old secret working for the overlap, then only the new one', async () => {
     const { key, token: oldToken } = await newSecretKey();
-    const rolled = await as(managerA).post(`/v1/keys/${key.id}/roll`, { gracePeriodSeconds: 3600 }).expect(200);
-    const newToken = rolled.body.token as string;
+    const rotated = await as(managerA).post(`/v1/keys/${key.id}/rotate`, { overlapHours: 1 }).expect(200);
+    const newToken = rotated.body.token as string;
     expect(parseKey(newToken)!.keyId).toBe(key.keyId);
     await size(oldToken).expect(200);
     await size(newToken).expect(200);
@@ -157,12 +160,12 @@ describe('rolling and revoking', () => {
     await size(newToken).expect(200);
   });
 
-  it('ends the old secret at once with a grace period of 0', async () => {
+  it('ends the old secret at once with an overlap of 0', async () => {
     const { key, token } = await newSecretKey();
     await size(token).expect(200); // now cached by the hot path
-    const rolled = await as(managerA).post(`/v1/keys/${key.id}/roll`, { gracePeriodSeconds: 0 }).expect(200);
+    const rotated = await as(managerA).post(`/v1/keys/${key.id}/rotate`, { overlapHours: 0 }).expect(200);
     await size(token).expect(401);
-    await size(rolled.body.token).expect(200);
+    await size(rotated.body.token).expect(200);
   });
 
   it('revokes at once, even a key the hot path has cached', async () => {
@@ -170,16 +173,16 @@ describe('rolling and revoking', () => {
     await size(token).expect(200);
     const revoked = await as(managerA).post(`/v1/keys/${key.id}/revoke`).expect(200);
     expect(revoked.body.status).toBe('revoked');
-    expect((await size(token).expect(401)).body.code).toBe('api_key_revoked');
-    await as(managerA).post(`/v1/keys/${key.id}/roll`, {}).expect(409);
+    expect((await size(token).expect(401)).body.code).toBe('credential_revoked');
+    await as(managerA).post(`/v1/keys/${key.id}/rotate`, {}).expect(409);
   });
 });
 
-describe('publishable keys in the browser', () => {
+describe('embed keys in the browser', () => {
   let pub: string;
   beforeAll(async () => {
     const res = await as(managerA)
-      .post('/v1/keys', { name: 'Product pages', kind: 'publishable', allowedOrigins: ['https://shop.harborlane.test', 'https://*.harborlane.test'] })
+      .post('/v1/keys', { name: 'Product pages', kind: 'embed', allowedOrigins: ['https://shop.harborlane.test', 'https://*.harborlane.test'] })
       .expect(201);
     pub = res.body.token;
   });
@@ -187,7 +190,7 @@ describe('publishable keys in the browser', () => {
   it('works from an allowed origin and answers with CORS headers the page can read', async () => {
     const res = await size(pub, 'https://shop.harborlane.test').expect(200);
     expect(res.headers['access-control-allow-origin']).toBe('https://shop.harborlane.test');
-    expect(res.headers['access-control-expose-headers']).toContain('Request-Id');
+    expect(res.headers['access-control-expose-headers']).toContain('X-Request-Id');
     expect(res.headers['access-control-expose-headers']).toContain('RateLimit');
     await size(pub, 'https://checkout.eu.harborlane.test').expect(200);
   });
@@ -220,18 +223,18 @@ describe('isolation between organisations', () => {
   it('never shows, rolls or revokes another organisation’s key (404)', async () => {
     const { key } = await newSecretKey();
     await as(managerB).get(`/v1/keys/${key.id}`).expect(404);
-    await as(managerB).post(`/v1/keys/${key.id}/roll`, {}).expect(404);
+    await as(managerB).post(`/v1/keys/${key.id}/rotate`, {}).expect(404);
     await as(managerB).post(`/v1/keys/${key.id}/revoke`).expect(404);
     const listed = await as(managerB).get('/v1/keys?limit=100').expect(200);
-    expect(listed.body.data.map((k: { id: string }) => k.id)).not.toContain(key.id);
+    expect(listed.body.items.map((k: { id: string }) => k.id)).not.toContain(key.id);
   });
 
   it('pages through keys with a cursor', async () => {
     const first = await as(managerA).get('/v1/keys?limit=2').expect(200);
-    expect(first.body.data).toHaveLength(2);
-    expect(first.body.hasMore).toBe(true);
+    expect(first.body.items).toHaveLength(2);
+    expect(first.body.nextCursor).not.toBeNull();
     const second = await as(managerA).get(`/v1/keys?limit=2&cursor=${first.body.nextCursor}`).expect(200);
-    const ids = [...first.body.data, ...second.body.data].map((k: { id: string }) => k.id);
+    const ids = [...first.body.items, ...second.body.items].map((k: { id: string }) => k.id);
     expect(new Set(ids).size).toBe(ids.length);
     await as(managerA).get('/v1/keys?cursor=not-a-cursor').expect(400);
   });

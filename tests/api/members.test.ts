@@ -3,7 +3,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditEvents, emailTokens } from '../../api/db/schema.js';
 import { memberPageSchema, memberSchema, type MemberView } from '../../shared/schemas/accounts.js';
-import { bearer, createMember, createOperator, signIn, TEST_PASSWORD } from '../support/accounts.js';
+import { bearer, createMember, createOperator, signIn, switchTo, TEST_PASSWORD } from '../support/accounts.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
@@ -36,7 +36,7 @@ async function audit(action: string, targetId: string) {
 
 /** The invitation token from the newest e-mail to `email`. */
 async function invitationToken(email: string): Promise<string> {
-  const message = (await t.app.locals.services.mailer.outbox({ limit: 100 })).data.find((m) => m.to === email);
+  const message = (await t.app.locals.services.mailer.outbox({ limit: 100 })).items.find((m) => m.to === email);
   const match = /accept-invitation\?token=([A-Za-z0-9_%-]+)/.exec(message?.text ?? '');
   expect(match, `an invitation e-mail to ${email}`).not.toBeNull();
   return decodeURIComponent(match![1]);
@@ -54,10 +54,10 @@ describe('GET /v1/members', () => {
         .set(bearer(harbor.tokens.viewer))
         .expect(200);
       const page = memberPageSchema.parse(res.body);
-      expect(page.data.length).toBeLessThanOrEqual(2);
-      seen.push(...page.data);
+      expect(page.items.length).toBeLessThanOrEqual(2);
+      seen.push(...page.items);
       cursor = page.nextCursor ?? undefined;
-      expect(page.hasMore).toBe(cursor !== undefined);
+      expect(page.nextCursor !== null).toBe(cursor !== undefined);
     } while (cursor);
     expect(seen.map((m) => [m.email, m.role])).toEqual([
       ['admin@harbor-lane.test', 'admin'],
@@ -112,7 +112,7 @@ describe('PATCH and DELETE /v1/members/:id', () => {
     const after = await request(t.app).get('/v1/members').set(bearer(gone.tokens.viewer)).expect(403);
     expect(after.body.code).toBe('organization_required');
     const list = memberPageSchema.parse((await request(t.app).get('/v1/members').set(bearer(gone.tokens.admin)).expect(200)).body);
-    expect(list.data.map((m) => m.email)).not.toContain('viewer@gone-soon.test');
+    expect(list.items.map((m) => m.email)).not.toContain('viewer@gone-soon.test');
   });
 });
 
@@ -121,27 +121,30 @@ describe('isolation between organisations', () => {
     const a = await team('org-a');
     const b = await team('org-b');
     const listA = memberPageSchema.parse((await request(t.app).get('/v1/members').set(bearer(a.tokens.admin)).expect(200)).body);
-    expect(listA.data.every((m) => m.email.endsWith('@org-a.test'))).toBe(true);
+    expect(listA.items.every((m) => m.email.endsWith('@org-a.test'))).toBe(true);
 
     const patch = await request(t.app).patch(`/v1/members/${b.viewer.member.id}`).set(bearer(a.tokens.admin)).send({ role: 'admin' }).expect(404);
     expect(patch.body.code).toBe('not_found');
     await request(t.app).delete(`/v1/members/${b.admin.member.id}`).set(bearer(a.tokens.admin)).expect(404);
     await request(t.app).delete(`/v1/members/not-a-uuid`).set(bearer(a.tokens.admin)).expect(404);
-    // naming B in the header does not help: not a member there
-    await request(t.app).get('/v1/members').set(bearer(a.tokens.admin)).set('Treadwise-Organization', 'org-b').expect(404);
+    // switching to B does not help: not a member there, so it is not found
+    const refused = await request(t.app).post('/v1/auth/switch-organization').set(bearer(a.tokens.admin)).send({ organization: 'org-b' }).expect(404);
+    expect(refused.body.code).toBe('not_found');
+    await request(t.app).post('/v1/auth/switch-organization').set(bearer(a.tokens.admin)).send({ organization: b.org.id }).expect(404);
 
     const stillB = memberPageSchema.parse((await request(t.app).get('/v1/members').set(bearer(b.tokens.admin)).expect(200)).body);
-    expect(stillB.data.map((m) => [m.email, m.role])).toContainEqual(['viewer@org-b.test', 'viewer']);
-    expect(stillB.data).toHaveLength(3);
+    expect(stillB.items.map((m) => [m.email, m.role])).toContainEqual(['viewer@org-b.test', 'viewer']);
+    expect(stillB.items).toHaveLength(3);
   });
 
-  it('lets the operator manage members of the organisation named in the header', async () => {
+  it('lets the operator manage members of the organisation switched to', async () => {
     const c = await team('org-c');
     const ops = await createOperator(t.app);
     const token = (await signIn(t.app, ops.email)).accessToken;
     const noHeader = await request(t.app).get('/v1/members').set(bearer(token)).expect(403);
     expect(noHeader.body.code).toBe('organization_required');
-    await request(t.app).patch(`/v1/members/${c.viewer.member.id}`).set(bearer(token)).set('Treadwise-Organization', 'org-c').send({ role: 'estimator' }).expect(200);
+    const inC = await switchTo(t.app, token, 'org-c');
+    await request(t.app).patch(`/v1/members/${c.viewer.member.id}`).set(bearer(inC)).send({ role: 'estimator' }).expect(200);
   });
 });
 

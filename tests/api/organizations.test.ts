@@ -66,7 +66,7 @@ describe('GET /v1/organizations', () => {
         .set(bearer(operatorToken))
         .expect(200);
       const page = organizationPageSchema.parse(res.body);
-      slugs.push(...page.data.map((o) => o.slug));
+      slugs.push(...page.items.map((o) => o.slug));
       cursor = page.nextCursor ?? undefined;
     } while (cursor);
     expect(slugs).toEqual([...slugs].sort());
@@ -79,11 +79,11 @@ describe('GET /v1/organizations', () => {
     await t.app.locals.services.members.addMember({ organizationId: created['quayside-studio'].id, userId: both.user.id, role: 'estimator' });
     const userToken = (await signIn(t.app, both.email)).accessToken;
     const mine = organizationPageSchema.parse((await request(t.app).get('/v1/organizations').set(bearer(userToken)).expect(200)).body);
-    expect(mine.data.map((o) => o.slug)).toEqual(['kestrel-finch', 'quayside-studio']);
+    expect(mine.items.map((o) => o.slug)).toEqual(['kestrel-finch', 'quayside-studio']);
 
     const { token } = await createKey(t, created['quayside-studio'].id, { scopes: ['usage:read'] });
     const keyView = organizationPageSchema.parse((await request(t.app).get('/v1/organizations').set(bearer(token)).expect(200)).body);
-    expect(keyView.data.map((o) => o.slug)).toEqual(['quayside-studio']);
+    expect(keyView.items.map((o) => o.slug)).toEqual(['quayside-studio']);
   });
 
   it('needs usage:read on a key', async () => {

@@ -27,7 +27,7 @@ describe('the invitation e-mail flow', () => {
     await request(t.app).post('/v1/members/invitations').set(bearer(adminToken)).send({ email: 'theo@harborlane.test', role: 'estimator' }).expect(201);
 
     const outbox = outboxPageSchema.parse((await request(t.app).get('/v1/dev/outbox').set(bearer(operatorToken)).expect(200)).body);
-    const message = outbox.data.find((m) => m.to === 'theo@harborlane.test');
+    const message = outbox.items.find((m) => m.to === 'theo@harborlane.test');
     expect(message?.subject).toBe('You are invited to Test harbor-lane on Treadwise');
     const link = /(https:\/\/console\.treadwise\.test\/accept-invitation\?token=[A-Za-z0-9_%-]+)/.exec(message?.text ?? '');
     expect(link, 'a link to PUBLIC_URL/accept-invitation').not.toBeNull();
@@ -70,8 +70,8 @@ describe('GET /v1/dev/outbox', () => {
         .set(bearer(operatorToken))
         .expect(200);
       const page = outboxPageSchema.parse(res.body);
-      subjects.push(...page.data.map((m) => m.subject));
-      times.push(...page.data.map((m) => m.createdAt));
+      subjects.push(...page.items.map((m) => m.subject));
+      times.push(...page.items.map((m) => m.createdAt));
       cursor = page.nextCursor ?? undefined;
     } while (cursor);
     expect(subjects.filter((s) => s.startsWith('Note for'))).toEqual(['Note for bo', 'Note for ada', 'Note for ines']);

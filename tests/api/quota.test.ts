@@ -87,7 +87,7 @@ describe('the monthly quota', () => {
       status: 429,
       code: 'quota_exceeded',
       instance: '/v1/calculations/voltage-drop',
-      requestId: refused.headers['request-id'],
+      requestId: refused.headers['x-request-id'],
     });
     expect(refused.body.detail).toContain('2026-12-01T00:00:00.000Z');
 

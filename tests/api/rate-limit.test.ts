@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { organizations } from '../../api/db/schema.js';
-import { PASSWORD_RESETS_PER_IP, SIGN_IN_FAILURES_PER_IP, USER_RATE_PER_MINUTE, publishableRatePerIp } from '../../api/middleware/rate-limit.js';
+import { PASSWORD_RESETS_PER_IP, SIGN_IN_FAILURES_PER_IP, USER_RATE_PER_MINUTE, embedRatePerIp } from '../../api/middleware/rate-limit.js';
 import { bearer, createMember, signIn, TEST_PASSWORD } from '../support/accounts.js';
 import { closeTraffic } from '../support/app-instance.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
@@ -70,7 +70,7 @@ describe('per API key, at the plan rate', () => {
       detail: expect.stringContaining(`more than ${FREE.ratePerMinute} requests in 1 min`),
       instance: '/v1/calculations/voltage-drop',
       code: 'rate_limited',
-      requestId: refused.headers['request-id'],
+      requestId: refused.headers['x-request-id'],
     });
 
     await size(other.token).expect(200);
@@ -90,11 +90,11 @@ describe('per API key, at the plan rate', () => {
   });
 });
 
-describe('publishable keys, also per client IP', () => {
+describe('embed keys, also per client IP', () => {
   it('limits each address below the key rate, so one caller cannot use up the key', async () => {
     const org = await createOrganization(t);
-    const { token } = await createKey(t, org.id, { kind: 'publishable', allowedOrigins: [SHOP_ORIGIN] });
-    const perIp = publishableRatePerIp(FREE.ratePerMinute);
+    const { token } = await createKey(t, org.id, { kind: 'embed', allowedOrigins: [SHOP_ORIGIN] });
+    const perIp = embedRatePerIp(FREE.ratePerMinute);
     expect(perIp).toBe(10); // the floor: a tenth of 60 is 6, at least 10
     const from = (ip: string) => size(token).set('Origin', SHOP_ORIGIN).set('X-Forwarded-For', ip);
 

@@ -221,7 +221,7 @@ describe('GET /v1/usage', () => {
     expect(res.body.quota.usedThisMonth).toBe(0);
   });
 
-  it('is open to viewers and to keys with usage:read, not to publishable keys or keys without the scope', async () => {
+  it('is open to viewers and to keys with usage:read, not to embed keys or keys without the scope', async () => {
     const org = await createOrganization(t);
     const { token } = await createKey(t, org.id);
     await size(t.app, token).expect(200);
@@ -231,7 +231,7 @@ describe('GET /v1/usage', () => {
 
     const sizingOnly = await createKey(t, org.id, { scopes: ['sizing:run'] });
     expect((await usage(t.app, sizingOnly.token).expect(403)).body.code).toBe('insufficient_scope');
-    const pub = await createKey(t, org.id, { kind: 'publishable', allowedOrigins: [SHOP_ORIGIN] });
+    const pub = await createKey(t, org.id, { kind: 'embed', allowedOrigins: [SHOP_ORIGIN] });
     await usage(t.app, pub.token).set('Origin', SHOP_ORIGIN).expect(403);
   });
 });

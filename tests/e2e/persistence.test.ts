@@ -30,7 +30,7 @@ describe('the embedded database across restarts', () => {
     const first = await startServerProcess({ DATA_DIR: dataDir });
     expect(first.stdout()).toContain('Demo data seeded');
     expect((await fetch(`${first.url}/v1/health/ready`)).status).toBe(200);
-    const key = /harbor-lane\s+secret\s+(tw_sec_\S+)/.exec(first.stdout())![1];
+    const key = /harbor-lane\s+server\s+(tw_server_\S+)/.exec(first.stdout())![1];
     for (let i = 0; i < 3; i++) expect((await sizeWith(first.url, key)).status).toBe(200);
     expect(await first.stop()).toBe(0);
 

@@ -44,7 +44,7 @@ export async function measureHttp(): Promise<HttpFigures> {
       server.once('exit', (code) => reject(new Error(`server exited with ${code}`)));
     });
     const base = /running at (http:\/\/\S+)/.exec(out)![1];
-    const key = /harbor-lane\s+secret\s+(tw_sec_\S+)/.exec(out)![1];
+    const key = /harbor-lane\s+server\s+(tw_server_\S+)/.exec(out)![1];
     const password = /Demo password for every demo account: (\S+)/.exec(out)![1];
     const session = await json(`${base}/v1/auth/sign-in`, { method: 'POST', body: JSON.stringify({ email: 'ops@treadwise.test', password }) });
     const orgs = await json(`${base}/v1/organizations?limit=100`, { headers: { authorization: `Bearer ${session.accessToken}` } });

@@ -29,3 +29,10 @@ export async function signIn(app: App, email: string, password = TEST_PASSWORD):
 }
 
 export const bearer = (token: string) => ({ Authorization: `Bearer ${token}` });
+
+/** Acts in another organisation: the new access token from POST /v1/auth/switch-organization. */
+export async function switchTo(app: App, accessToken: string, organization: string): Promise<string> {
+  const res = await request(app).post('/v1/auth/switch-organization').set(bearer(accessToken)).send({ organization });
+  if (res.status !== 200) throw new Error(`switch to ${organization} failed: ${res.status} ${JSON.stringify(res.body)}`);
+  return res.body.accessToken as string;
+}

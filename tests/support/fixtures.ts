@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import type { Scope } from '../../api/auth/scopes.js';
+import type { KeyKind } from '../../api/auth/key-format.js';
 import { organizations } from '../../api/db/schema.js';
 import type { TestApp } from './test-app.js';
 
@@ -12,14 +13,14 @@ export async function createOrganization(t: TestApp, slug = `org-${randomBytes(3
 export async function createKey(
   t: TestApp,
   organizationId: string,
-  options: { kind?: 'secret' | 'publishable'; scopes?: Scope[]; allowedOrigins?: string[]; expiresAt?: Date | null } = {},
+  options: { kind?: KeyKind; scopes?: Scope[]; allowedOrigins?: string[]; expiresAt?: Date | null } = {},
 ) {
-  const kind = options.kind ?? 'secret';
+  const kind = options.kind ?? 'server';
   return t.app.locals.services.apiKeys.create({
     organizationId,
     kind,
     name: `${kind} test key`,
-    scopes: options.scopes ?? (kind === 'publishable' ? ['sizing:run'] : ['sizing:run', 'usage:read']),
+    scopes: options.scopes ?? (kind === 'embed' ? ['sizing:run'] : ['sizing:run', 'usage:read']),
     allowedOrigins: options.allowedOrigins ?? [],
     expiresAt: options.expiresAt ?? null,
     createdByUserId: null,

@@ -12,15 +12,15 @@ const { originAllowed } = await import('../../api/auth/origins.js');
 
 describe('API key format', () => {
   it('generates keys that parse back to their parts', () => {
-    for (const kind of ['secret', 'publishable'] as const) {
+    for (const kind of ['server', 'embed'] as const) {
       const key = generateKey(kind);
       expect(parseKey(key.token)).toEqual({ kind, keyId: key.keyId, secret: key.secret });
     }
   });
 
   it('rejects anything not exactly in the format', () => {
-    const { token } = generateKey('secret');
-    for (const bad of ['', 'tw_sec_', token.slice(1), `${token}x`, token.replace('_', '-'), token.replace(/^tw_sec/, 'tw_key')]) {
+    const { token } = generateKey('server');
+    for (const bad of ['', 'tw_server_', token.slice(1), `${token}x`, token.replace('_', '-'), token.replace(/^tw_server/, 'tw_key')]) {
       expect(parseKey(bad), bad).toBeNull();
     }
   });

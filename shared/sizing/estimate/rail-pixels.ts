@@ -96,7 +96,7 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
       inputs: { pixels, currentPerPixelMa: rail.currentPerPixelMa ?? 60, brightnessPercent: rail.brightnessPercent ?? 100, voltageV: rail.voltageV },
       reference:
         rail.currentPerPixelMa === undefined
-          ? '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide; P = V·I'
+          ? '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory); P = V·I'
           : 'current per pixel as given; P = V·I',
     },
     ...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `rail.${e.quantity}` })),

@@ -77,7 +77,7 @@ const DEFAULTS = {
     'below a lit hallway (~80 lx) and EN 12464-1:2021 corridors 100 lx / stairs 150 lx, so the lights help only when general light is off (common practice, no published source)',
   ),
   useDaylightCutoff: defaultEntry('sensors.useDaylightCutoff', true, '', 'Treadwise default: orientation lights are wanted only after dark'),
-  currentPerPixelMa: defaultEntry('currentPerPixelMa', 60, 'mA', '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide'),
+  currentPerPixelMa: defaultEntry('currentPerPixelMa', 60, 'mA', '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory)'),
   bitsPerPixel: defaultEntry('bitsPerPixel', 24, 'bits', '24 bits per RGB pixel — WS2812B datasheet'),
   brightnessPercent: defaultEntry('brightnessPercent', 100, '%', 'no brightness cap'),
 } as const;
