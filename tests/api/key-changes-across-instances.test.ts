@@ -31,7 +31,7 @@ describe('a key changed on one instance', () => {
   });
 
   it('makes a rotated key’s old secret stop on the other instance when the overlap is 0', async () => {
-    const created = await request(t.app).post('/v1/keys').set('Authorization', `Bearer ${manager}`).send({ name: 'Rolled' }).expect(201);
+    const created = await request(t.app).post('/v1/keys').set('Authorization', `Bearer ${manager}`).send({ name: 'Rotated' }).expect(201);
     await sizeOn(b, created.body.token).expect(200);
     const rotated = await request(t.app).post(`/v1/keys/${created.body.key.id}/rotate`).set('Authorization', `Bearer ${manager}`).send({ overlapHours: 0 }).expect(200);
     await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);

@@ -95,7 +95,7 @@ describe('creating keys', () => {
 });
 
 describe('what a key may do to other keys', () => {
-  it('cannot roll or revoke a key with scopes it does not hold', async () => {
+  it('cannot rotate or revoke a key with scopes it does not hold', async () => {
     const narrow = await as(managerA).post('/v1/keys', { name: 'Key admin only', scopes: ['keys:manage'] }).expect(201);
     const strong = await newSecretKey(['sizing:run', 'usage:read']);
     expect((await as(narrow.body.token).post(`/v1/keys/${strong.key.id}/rotate`, {}).expect(403)).body.code).toBe('scope_exceeds_caller');
@@ -147,7 +147,7 @@ describe('using keys', () => {
   });
 });
 
-describe('rolling and revoking', () => {
+describe('rotating and revoking', () => {
   it('keeps the old secret working for the overlap, then only the new one', async () => {
     const { key, token: oldToken } = await newSecretKey();
     const rotated = await as(managerA).post(`/v1/keys/${key.id}/rotate`, { overlapHours: 1 }).expect(200);
