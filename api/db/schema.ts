@@ -47,10 +47,26 @@ export const users = pgTable('users', {
   name: text('name'),
   passwordHash: text('password_hash'), // null until an invitation is accepted
   operator: boolean('operator').notNull().default(false),
-  failedSignIns: integer('failed_sign_ins').notNull().default(0),
-  lockedUntil: at('locked_until'),
   createdAt: createdAt(),
 });
+
+/**
+ * Failed password checks per account *and* source address: the lock a run of wrong passwords
+ * earns applies to the address that made them, so a stranger cannot lock the owner out.
+ */
+export const signInFailures = pgTable(
+  'sign_in_failures',
+  {
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    source: text('source').notNull(),
+    failures: integer('failures').notNull().default(0),
+    lockedUntil: at('locked_until'),
+    updatedAt: at('updated_at').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.source] })],
+);
 
 export const memberships = pgTable(
   'memberships',

@@ -1,7 +1,8 @@
 import type { Request, RequestHandler, Response } from 'express';
-import { ipKeyGenerator, rateLimit, type AugmentedRequest, type ValueDeterminingMiddleware } from 'express-rate-limit';
+import { rateLimit, type AugmentedRequest, type ValueDeterminingMiddleware } from 'express-rate-limit';
 import type { Logger } from 'pino';
 import { principalOf } from '../auth/principal.js';
+import { clientAddress } from './client-address.js';
 import type { AppDeps } from '../deps.js';
 import { HttpProblem } from '../problem.js';
 import type { Services } from '../services/container.js';
@@ -29,14 +30,15 @@ export function embedRatePerIp(ratePerMinute: number): number {
   return Math.max(10, Math.ceil(ratePerMinute / 10));
 }
 
-const SIGN_IN_ROUTES = new Set(['POST /v1/auth/sign-in']);
+// Every route that checks an existing account's password: guesses there count the same.
+const SIGN_IN_ROUTES = new Set(['POST /v1/auth/sign-in', 'POST /v1/auth/invitations/accept']);
 const PASSWORD_RESET_ROUTES = new Set(['POST /v1/auth/password-reset', 'POST /v1/auth/password-reset/confirm']);
 
 const apiKeyOf = (res: Response) => {
   const p = principalOf(res);
   return p.type === 'api_key' ? p : undefined;
 };
-const clientIp = (req: Request) => ipKeyGenerator(req.ip ?? '');
+const clientIp = clientAddress;
 
 interface LimiterSpec {
   /** Policy name in the draft-8 headers, and the limiter's Redis key prefix. */

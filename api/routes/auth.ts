@@ -16,6 +16,7 @@ import {
   type SignInRequest,
 } from '../../shared/schemas/accounts.js';
 import { principalOf, type Principal } from '../auth/principal.js';
+import { clientAddress } from '../middleware/client-address.js';
 import { validateBody } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
 import { HttpProblem, problems } from '../problem.js';
@@ -35,17 +36,13 @@ export const authRoutes: RouteModule = {
 
     router.post('/sign-in', validateBody(signInRequestSchema), async (req, res) => {
       const { email, password } = res.locals.body as SignInRequest;
-      const result = await sessions.signIn(email, password);
+      const result = await sessions.signIn(email, password, clientAddress(req));
       const ctx = auditContext(req, res);
       const target = result.userId ? { targetType: 'user', targetId: result.userId } : {};
       if (!result.ok) {
         await audit.record(ctx, { action: 'auth.sign_in_failed', organizationId: null, ...target, data: { email, reason: result.reason } });
-        if (result.reason === 'locked') {
-          throw new HttpProblem(429, 'account_locked', 'Account locked', `Too many failed sign-ins. Try again in ${result.retryAfterS} s.`, {
-            headers: { 'Retry-After': String(result.retryAfterS) },
-          });
-        }
-        throw invalidCredentials(); // the same answer for an unknown e-mail and a wrong password
+        // One answer for an unknown e-mail, a wrong password and a locked-out source.
+        throw invalidCredentials();
       }
       await audit.record(ctx, { action: 'auth.signed_in', organizationId: null, ...target });
       res.json(result.session);
@@ -120,7 +117,7 @@ export const authRoutes: RouteModule = {
 
     router.post('/invitations/accept', validateBody(acceptInvitationRequestSchema), async (req, res) => {
       const body = res.locals.body as AcceptInvitationRequest;
-      const accepted = await members.acceptInvitation(body);
+      const accepted = await members.acceptInvitation(body, clientAddress(req));
       // The new member is the actor: they proved themselves with the link.
       const actor: Principal = {
         type: 'user',
@@ -159,14 +156,15 @@ export const authRoutes: RouteModule = {
       summary: 'Sign in',
       description:
         'Exchanges an e-mail address and password for a 15-minute access token and a 30-day refresh token. ' +
-        'A wrong password and an unknown address get the same 401. After 5 failures in a row the account is locked ' +
-        'for 1 minute, doubling with each further failure up to 1 hour (429 `account_locked` with `Retry-After`).',
+        'A wrong password, an unknown address and a locked-out source get the same 401. After 5 failures in a row from one ' +
+        'address the account is locked for that address for 1 minute, doubling with each further failure up to 1 hour; ' +
+        'other addresses are not affected, and a password reset lifts every lock.',
       request: { body: json(signInRequestSchema) },
       responses: {
         200: session,
         400: invalid,
         401: problemResponse('Wrong e-mail address or password (`invalid_credentials`).'),
-        429: problemResponse('The account is locked for a while (`account_locked`), or too many sign-ins from this address.'),
+        429: problemResponse('Too many failed sign-ins from this address (`rate_limited`).'),
       },
     });
     registry.registerPath({

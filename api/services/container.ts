@@ -11,6 +11,7 @@ import { createMemberService } from './members.js';
 import { createOrganizationService } from './organizations.js';
 import { createPasswordResetService } from './password-resets.js';
 import { createSessionService } from './sessions.js';
+import { createSignInGuard } from './sign-in-guard.js';
 import { createUserService } from './users.js';
 import { createPlanService } from './plans.js';
 import { createQuotaService } from './quotas.js';
@@ -26,7 +27,8 @@ export function createServices(deps: AppDeps) {
   const mailer = createMailer({ db, smtpUrl: deps.config.smtpUrl, from: deps.config.mailFrom, clock });
   const users = createUserService({ db, clock });
   const emailTokens = createEmailTokenService({ db, pepper: deps.secrets.pepper, clock });
-  const sessions = createSessionService({ db, pepper: deps.secrets.pepper, clock, accessTokens, users });
+  const signInGuard = createSignInGuard({ db, clock });
+  const sessions = createSessionService({ db, pepper: deps.secrets.pepper, clock, accessTokens, users, guard: signInGuard });
   const accountMail = { db, publicUrl: deps.config.publicUrl, users, emailTokens, sessions, mailer };
   // Traffic: plans are cached, the monthly tally syncs after each usage flush.
   const plans = createPlanService({ db, clock });
@@ -42,8 +44,9 @@ export function createServices(deps: AppDeps) {
     users,
     emailTokens,
     sessions,
+    signInGuard,
     passwordResets: createPasswordResetService(accountMail),
-    members: createMemberService({ ...accountMail, clock }),
+    members: createMemberService({ ...accountMail, clock, guard: signInGuard }),
     organizations: createOrganizationService({ db, clock }),
     allowedOrigins,
     audit: createAuditService({ db, clock }),

@@ -1,7 +1,8 @@
 import { and, asc, eq, gt } from 'drizzle-orm';
 import { z } from 'zod';
 import type { InvitationView, MemberView, Session } from '../../shared/schemas/accounts.js';
-import { hashPassword, verifyPassword } from '../auth/passwords.js';
+import { hashPassword } from '../auth/passwords.js';
+import type { SignInGuard } from './sign-in-guard.js';
 import type { Role } from '../auth/scopes.js';
 import type { Db } from '../db/client.js';
 import { memberships, organizations, users } from '../db/schema.js';
@@ -22,6 +23,7 @@ interface MemberDeps {
   emailTokens: EmailTokenService;
   sessions: SessionService;
   mailer: Mailer;
+  guard: SignInGuard;
 }
 
 export interface AcceptedInvitation {
@@ -75,7 +77,7 @@ export async function addMember(db: Db, input: AddMemberInput, clock: () => Date
 export const invalidToken = () => new HttpProblem(400, 'invalid_token', 'Invalid token', 'The link is unknown, already used or expired.');
 
 /** Who belongs to an organisation, in which role, and how people are invited in. */
-export function createMemberService({ db, clock, publicUrl, users: userService, emailTokens, sessions, mailer }: MemberDeps) {
+export function createMemberService({ db, clock, publicUrl, users: userService, emailTokens, sessions, mailer, guard }: MemberDeps) {
   /** Scoped to the organisation: another organisation's member is simply not found (404). */
   async function find(organizationId: string, id: string, tx: Db = db, lock = false): Promise<MemberRow> {
     if (!z.uuid().safeParse(id).success) throw problems.notFound('No such member.');
@@ -182,7 +184,8 @@ export function createMemberService({ db, clock, publicUrl, users: userService, 
      * account, adds the membership once its own password is confirmed. Either way the result is
      * a signed-in session.
      */
-    async acceptInvitation(input: { token: string; name?: string; password?: string }): Promise<AcceptedInvitation> {
+    /** `source` is the client's address: a wrong password here counts towards that source's lockout. */
+    async acceptInvitation(input: { token: string; name?: string; password?: string }, source: string): Promise<AcceptedInvitation> {
       const invitation = await emailTokens.peek('invitation', input.token);
       if (!invitation?.organizationId || !invitation.role) throw invalidToken();
       const existing = await userService.findByEmail(invitation.email);
@@ -199,7 +202,9 @@ export function createMemberService({ db, clock, publicUrl, users: userService, 
         if (!input.password) {
           throw problems.validation([{ path: 'password', message: 'the password of your existing account' }], 'You already have an account: confirm with its password.');
         }
-        if (!(await verifyPassword(existing.passwordHash, input.password))) {
+        // The same guard as sign-in: guesses here count towards the lockout, and a locked source
+        // gets the same answer as a wrong password.
+        if ((await guard.check(existing, input.password, source)) !== 'ok') {
           throw new HttpProblem(401, 'invalid_credentials', 'Unauthenticated', 'The password of the existing account is wrong.');
         }
       }

@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm';
 import { hashPassword } from '../auth/passwords.js';
 import type { Db } from '../db/client.js';
-import { users } from '../db/schema.js';
+import { signInFailures, users } from '../db/schema.js';
 import type { EmailTokenService } from './email-tokens.js';
 import type { Mailer } from './mailer.js';
 import type { SessionService } from './sessions.js';
@@ -68,7 +68,8 @@ export function createPasswordResetService({ db, publicUrl, users: userService, 
       return db.transaction(async (tx) => {
         const row = await emailTokens.consume('password_reset', token, tx);
         if (!row?.userId) return null;
-        await tx.update(users).set({ passwordHash, failedSignIns: 0, lockedUntil: null }).where(eq(users.id, row.userId));
+        await tx.update(users).set({ passwordHash }).where(eq(users.id, row.userId));
+        await tx.delete(signInFailures).where(eq(signInFailures.userId, row.userId)); // lifts every lockout
         await emailTokens.voidFor('password_reset', row.userId, tx);
         await sessions.revokeAllFor(row.userId, tx);
         return row.userId;

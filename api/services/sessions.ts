@@ -1,31 +1,20 @@
 import { createHmac, randomBytes, randomUUID } from 'node:crypto';
-import { and, eq, gt, isNull, sql } from 'drizzle-orm';
+import { and, eq, gt, isNull } from 'drizzle-orm';
 import type { OrganizationRef, Session, SwitchedOrganization } from '../../shared/schemas/accounts.js';
 import type { AccessTokens } from '../auth/access-tokens.js';
 import { verifyPassword } from '../auth/passwords.js';
 import type { Db } from '../db/client.js';
-import { organizations, refreshTokens, users } from '../db/schema.js';
+import { organizations, refreshTokens } from '../db/schema.js';
+import type { SignInGuard } from './sign-in-guard.js';
 import type { MembershipView } from '../../shared/schemas/accounts.js';
 import { userView, type UserRow, type UserService } from './users.js';
 
 export const REFRESH_TOKEN_TTL_MS = 30 * 24 * 3600 * 1000;
 
-/**
- * Lockout: the 5th failure in a row locks the account for 1 minute; each further failure after
- * a lock doubles it, up to 1 hour. Common practice, no published source for these numbers.
- */
-export const LOCKOUT = { freeFailures: 5, firstLockMs: 60_000, maxLockMs: 3_600_000 } as const;
-
-export function lockDurationMs(failures: number): number {
-  if (failures < LOCKOUT.freeFailures) return 0;
-  const doublings = Math.min(failures - LOCKOUT.freeFailures, 20);
-  return Math.min(LOCKOUT.firstLockMs * 2 ** doublings, LOCKOUT.maxLockMs);
-}
-
 export type SignInResult =
   | { ok: true; session: Session; user: UserRow; userId: string }
-  | { ok: false; reason: 'unknown_email' | 'bad_password'; userId: string | null }
-  | { ok: false; reason: 'locked'; userId: string; retryAfterS: number };
+  /** `locked`: the source is locked out; callers answer it exactly as a wrong password. */
+  | { ok: false; reason: 'unknown_email' | 'bad_password' | 'locked'; userId: string | null };
 
 export type RefreshResult =
   | { ok: true; session: Session; userId: string }
@@ -41,10 +30,11 @@ interface SessionDeps {
   clock: () => Date;
   accessTokens: AccessTokens;
   users: UserService;
+  guard: SignInGuard;
 }
 
 /** Sign-in, refresh-token rotation with reuse detection, and sign-out. */
-export function createSessionService({ db, pepper, clock, accessTokens, users: userService }: SessionDeps) {
+export function createSessionService({ db, pepper, clock, accessTokens, users: userService, guard }: SessionDeps) {
   const digest = (token: string) => createHmac('sha256', pepper).update(`refresh-token.${token}`).digest('hex');
 
   /**
@@ -139,28 +129,15 @@ export function createSessionService({ db, pepper, clock, accessTokens, users: u
       };
     },
 
-    async signIn(email: string, password: string): Promise<SignInResult> {
+    /** `source` is the client's address: a lockout applies to the account from that source only. */
+    async signIn(email: string, password: string, source: string): Promise<SignInResult> {
       const user = await userService.findByEmail(email);
       if (!user) {
-        await verifyPassword(null, password);
+        await verifyPassword(null, password); // the same work as for a real account
         return { ok: false, reason: 'unknown_email', userId: null };
       }
-      const now = clock();
-      if (user.lockedUntil && user.lockedUntil > now) {
-        // No password check while locked: guesses made now cannot succeed and do not count.
-        return { ok: false, reason: 'locked', userId: user.id, retryAfterS: Math.ceil((user.lockedUntil.getTime() - now.getTime()) / 1000) };
-      }
-      if (!(await verifyPassword(user.passwordHash, password))) {
-        const [counted] = await db
-          .update(users)
-          .set({ failedSignIns: sql`${users.failedSignIns} + 1` })
-          .where(eq(users.id, user.id))
-          .returning({ failedSignIns: users.failedSignIns });
-        const lockMs = lockDurationMs(counted?.failedSignIns ?? 0);
-        if (lockMs > 0) await db.update(users).set({ lockedUntil: new Date(now.getTime() + lockMs) }).where(eq(users.id, user.id));
-        return { ok: false, reason: 'bad_password', userId: user.id };
-      }
-      if (user.failedSignIns > 0 || user.lockedUntil) await db.update(users).set({ failedSignIns: 0, lockedUntil: null }).where(eq(users.id, user.id));
+      const checked = await guard.check(user, password, source);
+      if (checked !== 'ok') return { ok: false, reason: checked === 'locked' ? 'locked' : 'bad_password', userId: user.id };
       return { ok: true, session: await issue(user, randomUUID(), null), user, userId: user.id };
     },
 

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { MembershipView, UserView } from '../../shared/schemas/accounts.js';
 import { hashPassword } from '../auth/passwords.js';
 import type { Db } from '../db/client.js';
-import { memberships, organizations, users } from '../db/schema.js';
+import { memberships, organizations, signInFailures, users } from '../db/schema.js';
 import { problems } from '../problem.js';
 
 export type UserRow = typeof users.$inferSelect;
@@ -57,7 +57,8 @@ export function createUserService({ db, clock }: { db: Db; clock: () => Date }) 
     /** Sets a new password and lifts any sign-in lockout. */
     async setPassword(userId: string, password: string, tx: Db = db): Promise<void> {
       const passwordHash = await hashPassword(password);
-      await tx.update(users).set({ passwordHash, failedSignIns: 0, lockedUntil: null }).where(eq(users.id, userId));
+      await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
+      await tx.delete(signInFailures).where(eq(signInFailures.userId, userId));
     },
 
     /** The organisations a user belongs to, by slug. */
