@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { createdByRequestIdSchema } from './common.js';
 import { pageOf } from './page.js';
+import { nameText } from './text.js';
 
 /** Requests and responses of sign-in, sessions, members, organisations and the dev outbox. */
 
@@ -155,7 +156,7 @@ export const invitationResponseSchema = z
 export const acceptInvitationRequestSchema = z
   .object({
     token: tokenSchema.meta({ description: 'The `token` parameter of the invitation link.' }),
-    name: z.string().trim().min(1).max(100).optional().meta({ description: 'Needed when the invitation creates a new account.', example: 'Ines' }),
+    name: nameText(100).optional().meta({ description: 'Needed when the invitation creates a new account.', example: 'Ines' }),
     password: newPasswordSchema.optional().meta({ description: 'Needed when the invitation creates a new account; ignored for an existing one.' }),
   })
   .meta({ id: 'AcceptInvitationRequest', example: { token: 'Xh2bQ9mV4rT7cK1wZs8dNf3pLa6yGe0uJi5oRt2vBnE', name: 'Ines', password: 'correct-horse-battery' } });
@@ -197,11 +198,11 @@ export const slugSchema = z
 const planIdSchema = z.string().min(1).max(40).meta({ description: 'The plan (quota and rate), e.g. free, shop or partner.', example: 'shop' });
 
 export const createOrganizationRequestSchema = z
-  .object({ slug: slugSchema, name: z.string().trim().min(1).max(100), planId: planIdSchema.optional() })
+  .object({ slug: slugSchema, name: nameText(100), planId: planIdSchema.optional() })
   .meta({ id: 'CreateOrganizationRequest', example: { slug: 'quayside-studio', name: 'Quayside Studio', planId: 'free' } });
 
 export const updateOrganizationRequestSchema = z
-  .object({ name: z.string().trim().min(1).max(100).optional(), planId: planIdSchema.optional() })
+  .object({ name: nameText(100).optional(), planId: planIdSchema.optional() })
   .refine((v) => v.name !== undefined || v.planId !== undefined, { message: 'give name or planId' })
   .meta({ id: 'UpdateOrganizationRequest', example: { planId: 'partner' } });
 

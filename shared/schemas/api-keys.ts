@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { createdByRequestIdSchema } from './common.js';
 import { pageOf } from './page.js';
+import { nameText } from './text.js';
 
 export const SCOPE_VALUES = [
   'sizing:run',
@@ -27,7 +28,7 @@ const originPattern = z
 
 export const createApiKeyRequestSchema = z
   .object({
-    name: z.string().trim().min(1).max(100).meta({ description: 'What the key is for.', example: 'Product pages' }),
+    name: nameText(100).meta({ description: 'What the key is for.', example: 'Product pages' }),
     kind: keyKindSchema.default('server').meta({
       description: '`server` (tw_server_…) for servers; `embed` (tw_embed_…) for shop web pages: sizing only, from its allowed origins.',
     }),
