@@ -53,10 +53,9 @@ async function keyPrincipal(deps: AuthenticateDeps, token: string, origin: strin
   const now = deps.clock();
   if (!row || row.kind !== parsed.kind) throw unknownCredential('API key');
   const digest = hashSecret(deps.pepper, parsed.keyId, parsed.secret);
-  const current = digestsEqual(digest, row.secretHash);
-  const previous =
-    !current && row.previousSecretHash !== null && row.previousValidUntil !== null && row.previousValidUntil > now && digestsEqual(digest, row.previousSecretHash);
-  if (!current && !previous) throw unknownCredential('API key');
+  const nowIso = now.toISOString();
+  const valid = digestsEqual(digest, row.secretHash) || row.overlappingSecrets.some((s) => s.validUntil > nowIso && digestsEqual(digest, s.hash));
+  if (!valid) throw unknownCredential('API key');
   if (row.revokedAt) throw problems.unauthenticated('The API key has been revoked.', 'credential_revoked');
   if (row.expiresAt && row.expiresAt <= now) throw expiredCredential('API key');
   if (row.kind === 'embed') {

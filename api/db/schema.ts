@@ -15,6 +15,12 @@ import {
   uuid,
 } from 'drizzle-orm/pg-core';
 
+/** An older secret of a rotated key, valid until `validUntil` (ISO time). */
+export interface OverlappingSecret {
+  hash: string;
+  validUntil: string;
+}
+
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 const at = (name: string) => timestamp(name, { withTimezone: true });
 
@@ -120,7 +126,8 @@ export const emailTokens = pgTable('email_tokens', {
 
 /**
  * API keys. `keyId` is the public part shown in logs and charts; only an HMAC-SHA256 of the
- * secret is stored. A rotated key keeps its previous hash until `previousValidUntil`.
+ * secret is stored. After a rotation the older secrets keep working until the end of the overlap each was granted
+ * (`overlappingSecrets`).
  */
 export const apiKeys = pgTable(
   'api_keys',
@@ -135,8 +142,9 @@ export const apiKeys = pgTable(
     scopes: text('scopes').array().notNull(),
     allowedOrigins: text('allowed_origins').array().notNull().default(sql`'{}'::text[]`),
     secretHash: text('secret_hash').notNull(),
-    previousSecretHash: text('previous_secret_hash'),
-    previousValidUntil: at('previous_valid_until'),
+    /** Hashes of older secrets still in their overlap, each with its end (ISO time). */
+    overlappingSecrets: jsonb('overlapping_secrets').$type<OverlappingSecret[]>().notNull().default([]),
+
     expiresAt: at('expires_at'),
     lastUsedAt: at('last_used_at'),
     revokedAt: at('revoked_at'),

@@ -1,7 +1,7 @@
 import { and, desc, eq, lt, or } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db/client.js';
-import { apiKeys } from '../db/schema.js';
+import { apiKeys, type OverlappingSecret } from '../db/schema.js';
 import { formatKey, generateKey, hashSecret, newSecret, type KeyKind } from '../auth/key-format.js';
 import type { Scope } from '../auth/scopes.js';
 import { problems } from '../problem.js';
@@ -37,6 +37,15 @@ export interface CreateKeyInput {
 }
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+/** Older secrets a key may have in their overlap at once: enough for repeated rotations, bounded for the hot path. */
+export const MAX_OVERLAPPING_SECRETS = 3;
+
+function lastOverlapEnd(secrets: readonly OverlappingSecret[], now: Date): string | null {
+  let last: string | null = null;
+  for (const s of secrets) if (s.validUntil > now.toISOString() && (!last || s.validUntil > last)) last = s.validUntil;
+  return last;
+}
 const cursorSchema = z.tuple([z.iso.datetime(), z.uuid()]);
 
 export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buffer; clock: () => Date }) {
@@ -53,7 +62,7 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
       expiresAt: iso(row.expiresAt),
       lastUsedAt: iso(row.lastUsedAt),
       revokedAt: iso(row.revokedAt),
-      previousSecretValidUntil: row.previousValidUntil && row.previousValidUntil > now ? iso(row.previousValidUntil) : null,
+      previousSecretValidUntil: lastOverlapEnd(row.overlappingSecrets, now),
       createdAt: row.createdAt.toISOString(),
       status,
     };
@@ -69,6 +78,9 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
     if (!row) throw problems.notFound('No such API key.');
     return row;
   };
+
+  const rotating = new Set<string>();
+  const rotationInProgress = () => problems.conflict('rotation_in_progress', 'Another rotation of this key is running; try again when it has finished.');
 
   return {
     view,
@@ -116,26 +128,19 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
       return view(await find(organizationId, id));
     },
 
-    /** New secret; the old one keeps working for `overlapHours` (0 ends it at once). */
+    /**
+     * New secret; the old one keeps working for `overlapHours` (0 ends it at once). One rotation
+     * of a key at a time: another arriving meanwhile is a 409, on this instance at once and across
+     * instances through the conditional update below.
+     */
     async rotate(organizationId: string, id: string, overlapHours: number): Promise<{ key: ApiKeyView; token: string; row: ApiKeyRow }> {
-      const current = await find(organizationId, id);
-      const now = clock();
-      if (current.revokedAt) throw problems.conflict('key_revoked', 'A revoked key cannot be rotated.');
-      if (current.expiresAt && current.expiresAt <= now) throw problems.conflict('key_expired', 'An expired key cannot be rotated.');
-      const overlapMs = overlapHours * 3600 * 1000;
-      const secret = newSecret();
-      const [row] = await db
-        .update(apiKeys)
-        .set({
-          secretHash: hashSecret(pepper, current.keyId, secret),
-          previousSecretHash: overlapMs > 0 ? current.secretHash : null,
-          previousValidUntil: overlapMs > 0 ? new Date(now.getTime() + overlapMs) : null,
-        })
-        // Only if nobody rotated it meanwhile: two rotations at once must not hand out a dead token.
-        .where(and(eq(apiKeys.id, current.id), eq(apiKeys.secretHash, current.secretHash)))
-        .returning();
-      if (!row) throw problems.conflict('rotation_in_progress', 'The key was rotated by another request at the same time; try again.');
-      return { key: view(row), token: formatKey(row.kind, row.keyId, secret), row };
+      if (rotating.has(id)) throw rotationInProgress();
+      rotating.add(id);
+      try {
+        return await rotateOnce(organizationId, id, overlapHours);
+      } finally {
+        rotating.delete(id);
+      }
     },
 
     async revoke(organizationId: string, id: string): Promise<{ key: ApiKeyView; row: ApiKeyRow; changed: boolean }> {
@@ -143,7 +148,7 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
       if (current.revokedAt) return { key: view(current), row: current, changed: false };
       const [row] = await db
         .update(apiKeys)
-        .set({ revokedAt: clock(), previousSecretHash: null, previousValidUntil: null })
+        .set({ revokedAt: clock(), overlappingSecrets: [] })
         .where(eq(apiKeys.id, current.id))
         .returning();
       return { key: view(row), row, changed: true };
@@ -155,6 +160,34 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
       return row;
     },
   };
+
+  async function rotateOnce(organizationId: string, id: string, overlapHours: number): Promise<{ key: ApiKeyView; token: string; row: ApiKeyRow }> {
+    const current = await find(organizationId, id);
+    const now = clock();
+    if (current.revokedAt) throw problems.conflict('key_revoked', 'A revoked key cannot be rotated.');
+    if (current.expiresAt && current.expiresAt <= now) throw problems.conflict('key_expired', 'An expired key cannot be rotated.');
+    const live = current.overlappingSecrets.filter((s) => s.validUntil > now.toISOString());
+    if (live.length >= MAX_OVERLAPPING_SECRETS) {
+      throw problems.conflict('overlaps_exhausted', `This key already has ${live.length} older secrets in their overlap; wait until one ends (${live[0].validUntil}) or revoke the key.`);
+    }
+    const overlapMs = overlapHours * 3600 * 1000;
+    const secret = newSecret();
+    const [row] = await db
+      .update(apiKeys)
+      .set({
+        secretHash: hashSecret(pepper, current.keyId, secret),
+        // Every overlap granted earlier runs its course; only ended ones are dropped.
+        overlappingSecrets: [
+          ...current.overlappingSecrets.filter((s) => s.validUntil > now.toISOString()),
+          ...(overlapMs > 0 ? [{ hash: current.secretHash, validUntil: new Date(now.getTime() + overlapMs).toISOString() }] : []),
+        ],
+      })
+      // Only if nobody rotated it meanwhile: two rotations at once must not hand out a dead token.
+      .where(and(eq(apiKeys.id, current.id), eq(apiKeys.secretHash, current.secretHash)))
+      .returning();
+    if (!row) throw rotationInProgress();
+    return { key: view(row), token: formatKey(row.kind, row.keyId, secret), row };
+  }
 }
 
 export type ApiKeyService = ReturnType<typeof createApiKeyService>;

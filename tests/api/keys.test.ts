@@ -168,6 +168,43 @@ describe('rotating and revoking', () => {
     await size(rotated.body.token).expect(200);
   });
 
+  it('serialises concurrent rotations: every token handed out works, and every overlap granted is honoured', async () => {
+    const { key, token: original } = await newSecretKey();
+    const answers = await Promise.all([1, 2, 3].map(() => as(managerA).post(`/v1/keys/${key.id}/rotate`, { overlapHours: 2 })));
+    const won = answers.filter((r) => r.status === 200);
+    const refused = answers.filter((r) => r.status !== 200);
+    expect(won.length).toBeGreaterThanOrEqual(1);
+    for (const r of refused) expect(r.body).toEqual(expect.objectContaining({ status: 409, code: 'rotation_in_progress' }));
+    // The original and every secret handed out work until their overlaps end; the newest for good.
+    for (const tok of [original, ...won.map((r) => r.body.token as string)]) await size(tok).expect(200);
+    advance(2 * 3600_000 - 1000);
+    for (const tok of [original, ...won.map((r) => r.body.token as string)]) await size(tok).expect(200);
+    advance(2000);
+    await size(original).expect(401);
+    await size(won.at(-1)!.body.token).expect(200);
+  });
+
+  it('refuses a rotation while another of the same key runs (409 rotation_in_progress)', async () => {
+    const { key } = await newSecretKey();
+    const tries = await Promise.allSettled([1, 2, 3, 4].map(() => t.app.locals.services.apiKeys.rotate(orgA.id, key.id, 1)));
+    expect(tries.filter((r) => r.status === 'fulfilled')).toHaveLength(1);
+    for (const r of tries.filter((x): x is PromiseRejectedResult => x.status === 'rejected')) expect(r.reason).toMatchObject({ status: 409, code: 'rotation_in_progress' });
+  });
+
+  it('keeps an earlier overlap running through a later rotation', async () => {
+    const { key, token: first } = await newSecretKey();
+    const second = (await as(managerA).post(`/v1/keys/${key.id}/rotate`, { overlapHours: 48 }).expect(200)).body.token as string;
+    advance(3600_000);
+    const third = (await as(managerA).post(`/v1/keys/${key.id}/rotate`, { overlapHours: 0 }).expect(200)).body;
+    // The second secret was given no overlap; the first keeps the 48 h it was granted.
+    await size(second).expect(401);
+    await size(first).expect(200);
+    expect(third.key.previousSecretValidUntil).toBe(new Date(now.getTime() + 47 * 3600_000).toISOString());
+    advance(47 * 3600_000);
+    await size(first).expect(401);
+    await size(third.token).expect(200);
+  });
+
   it('revokes at once, even a key the hot path has cached', async () => {
     const { key, token } = await newSecretKey();
     await size(token).expect(200);
