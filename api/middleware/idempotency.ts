@@ -38,6 +38,17 @@ function sealer(pepper: Buffer) {
   };
 }
 
+/** A response that shows a secret once is replayed for this long only (and only to the same credential). */
+export const SECRET_REPLAY_WINDOW_MS = 10 * 60 * 1000;
+
+interface IdempotencyOptions {
+  db: Db;
+  clock: () => Date;
+  pepper: Buffer;
+  /** Set on routes whose answer carries a secret: replays end after this long instead of 24 h. */
+  secretReplayMs?: number;
+}
+
 const inProgress = () => new HttpProblem(409, 'idempotency_request_in_progress', 'Request in progress', 'A request with this Idempotency-Key is still running.');
 
 /**
@@ -46,7 +57,7 @@ const inProgress = () => new HttpProblem(409, 'idempotency_request_in_progress',
  * header marks it; the same key with another body is a 422, and a retry while the first is
  * still running a 409.
  */
-export function idempotent({ db, clock, pepper }: { db: Db; clock: () => Date; pepper: Buffer }): RequestHandler {
+export function idempotent({ db, clock, pepper, secretReplayMs }: IdempotencyOptions): RequestHandler {
   const { seal, open } = sealer(pepper);
   return async (req, res, next) => {
     const key = req.get('Idempotency-Key');
@@ -55,7 +66,10 @@ export function idempotent({ db, clock, pepper }: { db: Db; clock: () => Date; p
       throw new HttpProblem(400, 'invalid_idempotency_key', 'Invalid Idempotency-Key', 'Use 1–255 printable ASCII characters.');
     }
     const principal = principalOf(res);
-    const owner = `${actorRef(principal)}@${principal.type === 'anonymous' ? '-' : (principal.organizationId ?? '-')}`;
+    // The owner is the credential itself: a user's replay stays within the sign-in session that
+    // made the first call, a key's within that key.
+    const credential = principal.type === 'user' ? `${actorRef(principal)}/${principal.sessionId}` : actorRef(principal);
+    const owner = `${credential}@${principal.type === 'anonymous' ? '-' : (principal.organizationId ?? '-')}`;
     const requestHash = createHash('sha256')
       .update(`${req.method} ${req.baseUrl}${req.path}\n${JSON.stringify(req.body ?? null)}`)
       .digest('hex');
@@ -78,6 +92,14 @@ export function idempotent({ db, clock, pepper }: { db: Db; clock: () => Date; p
         [claimed] = await claim();
         if (!claimed) throw inProgress();
       } else {
+        if (secretReplayMs !== undefined && now.getTime() - existing.createdAt.getTime() > secretReplayMs) {
+          throw new HttpProblem(
+            409,
+            'idempotency_replay_expired',
+            'Replay window ended',
+            `The first answer to this Idempotency-Key showed a secret, which is replayed for ${secretReplayMs / 60_000} minutes only. The thing it created exists: list it instead.`,
+          );
+        }
         return res.status(existing.status).json(open(existing.body as Sealed));
       }
     }

@@ -10,7 +10,7 @@ import {
 } from '../../shared/schemas/api-keys.js';
 import { organizationOf, principalOf } from '../auth/principal.js';
 import { EMBED_SCOPES, ROLE_SCOPES, type Scope } from '../auth/scopes.js';
-import { idempotent } from '../middleware/idempotency.js';
+import { idempotent, SECRET_REPLAY_WINDOW_MS } from '../middleware/idempotency.js';
 import { validateBody, validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
 import { HttpProblem } from '../problem.js';
@@ -61,7 +61,7 @@ export const keyRoutes: RouteModule = {
       res.json(await apiKeys.list(organizationOf(res), res.locals.query as PageQuery));
     });
 
-    router.post('/', validateBody(createApiKeyRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper }), async (req, res) => {
+    router.post('/', validateBody(createApiKeyRequestSchema), idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper, secretReplayMs: SECRET_REPLAY_WINDOW_MS }), async (req, res) => {
       const body = res.locals.body as CreateApiKeyRequest;
       const organizationId = organizationOf(res);
       const scopes = body.scopes ?? (['sizing:run'] as Scope[]);
@@ -162,7 +162,7 @@ export const keyRoutes: RouteModule = {
       summary: 'Create an API key',
       description:
         'Creates a server (`tw_server_…`) or embed (`tw_embed_…`) key. The whole key is in this response only; ' +
-        'Treadwise keeps just an HMAC of its secret. Scopes can never exceed the creator’s. Send `Idempotency-Key` to retry safely.',
+        'Treadwise keeps just an HMAC of its secret. Scopes can never exceed the creator’s. Send `Idempotency-Key` to retry safely: since the answer holds the secret, a retry is replayed only to the same credential (key, or sign-in session) and only for 10 minutes, then answers 409 `idempotency_replay_expired`.',
       security,
       request: {
         headers: z.object({ 'Idempotency-Key': z.string().max(255).optional() }),
@@ -172,6 +172,7 @@ export const keyRoutes: RouteModule = {
         201: { description: 'The key and its token (shown once).', content: { 'application/json': { schema: apiKeyWithTokenSchema } } },
         400: problemResponse('Invalid request.'),
         ...problems,
+        409: problemResponse('A request with this Idempotency-Key is still running, or its 10-minute replay window has ended (`idempotency_replay_expired`).'),
         422: problemResponse('Idempotency-Key reused with another body.'),
       },
     });

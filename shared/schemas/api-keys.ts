@@ -24,6 +24,10 @@ const originPattern = z
   .regex(/^https?:\/\/(\*\.)?[a-z0-9-]+(\.[a-z0-9-]+)*(:\d{1,5})?$/, 'an origin like https://shop.example.test or https://*.example.test')
   // A wildcard needs a registrable domain under it: https://*.test would open the key to a whole TLD.
   .refine((o) => !o.includes('*.') || /^https?:\/\/\*\.[a-z0-9-]+\.[a-z0-9-]+/.test(o), 'a wildcard needs at least two labels after "*." (https://*.example.test)')
+  .refine((o) => {
+    const port = /:(\d+)$/.exec(o);
+    return !port || (Number(port[1]) >= 1 && Number(port[1]) <= 65535);
+  }, 'a port from 1 to 65535')
   .meta({ example: 'https://shop.harborlane.test' });
 
 export const createApiKeyRequestSchema = z

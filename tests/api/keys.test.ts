@@ -110,9 +110,31 @@ describe('what a key may do to other keys', () => {
     await as(parent.body.token).post('/v1/keys', { name: 'Within', expiresAt: new Date(now.getTime() + 1800_000).toISOString() }).expect(201);
   });
 
+  it('refuses an origin whose port does not exist', async () => {
+    for (const origin of ['https://shop.example.test:99999', 'https://shop.example.test:0']) {
+      const res = await as(managerA).post('/v1/keys', { name: 'Bad port', kind: 'embed', allowedOrigins: [origin] }).expect(400);
+      expect(res.body.errors[0].path).toBe('allowedOrigins.0');
+    }
+    await as(managerA).post('/v1/keys', { name: 'Good port', kind: 'embed', allowedOrigins: ['https://shop.example.test:8443'] }).expect(201);
+  });
+
   it('refuses a wildcard origin over a whole top-level domain', async () => {
     const res = await as(managerA).post('/v1/keys', { name: 'Too wide', kind: 'embed', allowedOrigins: ['https://*.test'] }).expect(400);
     expect(res.body.errors.map((e: { path: string }) => e.path)).toContain('allowedOrigins.0');
+  });
+
+  it('replays a created key’s secret only to the same credential and only for 10 minutes', async () => {
+    const first = await as(managerA).post('/v1/keys', { name: 'Short replay' }).set('Idempotency-Key', 'short-1').expect(201);
+    // Another credential of the same organisation with the same Idempotency-Key is another request.
+    const otherManager = (await createKey(t, orgA.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
+    const other = await as(otherManager).post('/v1/keys', { name: 'Short replay' }).set('Idempotency-Key', 'short-1').expect(201);
+    expect(other.body.token).not.toBe(first.body.token);
+    advance(10 * 60_000 - 1000);
+    expect((await as(managerA).post('/v1/keys', { name: 'Short replay' }).set('Idempotency-Key', 'short-1').expect(201)).body.token).toBe(first.body.token);
+    advance(2000);
+    const late = await as(managerA).post('/v1/keys', { name: 'Short replay' }).set('Idempotency-Key', 'short-1').expect(409);
+    expect(late.body.code).toBe('idempotency_replay_expired');
+    expect(late.text).not.toContain(first.body.token);
   });
 
   it('keeps a replayable create only encrypted: the token is not in the database', async () => {
