@@ -51,7 +51,7 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
-  app.use('/v1', cors(services.allowedOrigins), authenticate({ db: deps.database.db, pepper: deps.secrets.pepper, clock: deps.clock, ...services }), authorize);
+  app.use('/v1', cors(services.allowedOrigins, services.keyCache), authenticate({ db: deps.database.db, pepper: deps.secrets.pepper, clock: deps.clock, ...services }), authorize);
   app.use('/v1', ...trafficMiddleware(deps, services)); // limits, quota and metering: after authorize (needs principal and route)
   for (const module of modules) app.use(module.basePath, module.router(deps, services));
   app.use('/v1', notFoundHandler);

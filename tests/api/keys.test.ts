@@ -254,6 +254,25 @@ describe('embed keys in the browser', () => {
     await size(pub, 'https://checkout.eu.harborlane.test').expect(200);
   });
 
+  it('answers CORS only on the sizing routes, and only for the presented embed key’s origins', async () => {
+    const SHOP = 'https://shop.harborlane.test';
+    const { token: shopKey } = await createKey(t, orgA.id, { kind: 'embed', allowedOrigins: [SHOP] });
+    const { token: otherKey } = await createKey(t, orgA.id, { kind: 'embed', allowedOrigins: ['https://other-shop.test'] });
+    // Preflights on account routes never allow a page, even from an origin some key lists.
+    for (const [path, method] of [['/v1/auth/sign-in', 'POST'], ['/v1/keys', 'POST'], ['/v1/members', 'GET'], ['/v1/usage', 'GET']]) {
+      const pre = await request(t.app).options(path).set('Origin', SHOP).set('Access-Control-Request-Method', method).expect(204);
+      expect(pre.headers['access-control-allow-origin']).toBeUndefined();
+    }
+    const signIn = await request(t.app).post('/v1/auth/sign-in').set('Origin', SHOP).send({ email: 'x@y.test', password: 'whatever-it-is' });
+    expect(signIn.headers['access-control-allow-origin']).toBeUndefined();
+    // The real request: the presented key's own origins only.
+    expect((await size(shopKey, SHOP).expect(200)).headers['access-control-allow-origin']).toBe(SHOP);
+    const wrongKey = await size(otherKey, SHOP).expect(403);
+    expect(wrongKey.headers['access-control-allow-origin']).toBeUndefined();
+    const serverKeyFromPage = await size(managerA, SHOP).expect(200);
+    expect(serverKeyFromPage.headers['access-control-allow-origin']).toBeUndefined();
+  });
+
   it('is refused without an Origin, or from another origin', async () => {
     expect((await size(pub).expect(403)).body.code).toBe('origin_required');
     expect((await size(pub, 'https://harborlane.test').expect(403)).body.code).toBe('origin_not_allowed');
