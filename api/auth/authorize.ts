@@ -16,6 +16,7 @@ export const authorize: RequestHandler = (req, res, next) => {
     throw new HttpProblem(404, 'not_found', 'Not found', `No route for ${req.method} ${path}.`);
   }
   res.locals.routePattern = found.pattern;
+  res.locals.routePolicy = found.policy;
   const { policy } = found;
   if (policy.public) return next();
 

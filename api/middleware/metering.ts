@@ -1,4 +1,5 @@
 import type { Request, RequestHandler, Response } from 'express';
+import type { Policy } from '../auth/policy.js';
 import { principalOf } from '../auth/principal.js';
 import type { AppDeps } from '../deps.js';
 import { HttpProblem } from '../problem.js';
@@ -14,7 +15,7 @@ interface TrafficLocals {
   metered?: boolean;
 }
 
-const locals = (res: Response) => res.locals as TrafficLocals & { routePattern?: string };
+const locals = (res: Response) => res.locals as TrafficLocals & { routePattern?: string; routePolicy?: Policy };
 
 /** `POST /v1/estimates`: the policy pattern with its method, whichever form authorize() stored. */
 export function routeOf(req: Request, res: Response): string {
@@ -24,15 +25,30 @@ export function routeOf(req: Request, res: Response): string {
   return /^[A-Z]+ /.test(pattern) ? pattern : `${method} ${pattern}`;
 }
 
+/** Usage rows of signed-in users' sizing (the console's bench) carry this in place of a key id. */
+export const CONSOLE_KEY_ID = 'console';
+
 /**
- * Counts every call made with an API key once it has been answered (or the client went away):
- * organisation, key, UTC day, route pattern, status class and latency. Recording is in memory;
- * the usage meter writes in batches.
+ * Who a call is metered and billed to: every call made with an API key, and sizing run by a
+ * signed-in user (the same engine work, so the same quota). Other console calls are not metered.
+ */
+function meteredAs(res: Response): { organizationId: string; keyId: string; apiKeyId: string | null } | null {
+  const p = principalOf(res);
+  if (p.type === 'api_key') return { organizationId: p.organizationId, keyId: p.keyId, apiKeyId: p.apiKeyId };
+  const policy = locals(res).routePolicy;
+  if (p.type === 'user' && p.organizationId && policy && !policy.public && policy.scope === 'sizing:run') return { organizationId: p.organizationId, keyId: CONSOLE_KEY_ID, apiKeyId: null };
+  return null;
+}
+
+/**
+ * Counts every metered call once it has been answered (or the client went away): organisation,
+ * key, UTC day, route pattern, status class and latency. Recording is in memory; the usage meter
+ * writes in batches.
  */
 export function meterRequests(deps: AppDeps, services: Services): RequestHandler {
   return (req, res, next) => {
-    const principal = principalOf(res);
-    if (principal.type !== 'api_key') return next();
+    const principal = meteredAs(res);
+    if (!principal) return next();
     const at = deps.clock();
     const started = performance.now();
     locals(res).trafficAt = at;
@@ -65,8 +81,8 @@ export function meterRequests(deps: AppDeps, services: Services): RequestHandler
  */
 export function enforceQuota(deps: AppDeps, services: Services): RequestHandler {
   return async (_req, res, next) => {
-    const principal = principalOf(res);
-    if (principal.type !== 'api_key') return next();
+    const principal = meteredAs(res);
+    if (!principal) return next();
     const l = locals(res);
     const at = l.trafficAt ?? deps.clock();
     const decision = await services.quotas.admit(principal.organizationId, at);

@@ -9,10 +9,10 @@ export type StatusClass = '2xx' | '3xx' | '4xx' | '5xx';
 /** One request made with an API key, as the traffic middleware saw it. */
 export interface UsageSample {
   organizationId: string;
-  /** Public key id (`tw_server_<keyId>_…`), the one shown in charts. */
+  /** Public key id (`tw_server_<keyId>_…`), the one shown in charts; `console` for signed-in users' sizing. */
   keyId: string;
-  /** Row id of the key, for `api_keys.last_used_at`. */
-  apiKeyId: string;
+  /** Row id of the key, for `api_keys.last_used_at`; null for console users' sizing calls. */
+  apiKeyId: string | null;
   /** When the request arrived, on the injected clock; its UTC day is the counter's day. */
   at: Date;
   /** Route pattern as in the policy table, e.g. `POST /v1/estimates`. */
@@ -204,7 +204,7 @@ export function createUsageMeter({
         latencyMs: sample.latencyMs,
         buckets,
       });
-      touch(sample.apiKeyId, sample.at);
+      if (sample.apiKeyId) touch(sample.apiKeyId, sample.at);
     },
 
     /** Writes everything recorded so far; resolves once it is in the database. */

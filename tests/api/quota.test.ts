@@ -158,3 +158,24 @@ describe('the monthly quota', () => {
     await closeTraffic(two);
   });
 });
+
+describe('sizing from the console', () => {
+  it('counts against the same quota as keys, is metered as "console", and stops when the quota is spent', async () => {
+    now = new Date('2026-11-21T10:00:00Z');
+    const { org, token } = await tinyOrganization();
+    const estimator = await createMember(t.app, org.id, 'estimator');
+    const user = (await signIn(t.app, estimator.email)).accessToken;
+    expect(await calls(t.app, token, 6)).toEqual([200, 200, 200, 200, 200, 200]);
+    const fromConsole = await calls(t.app, user, 5);
+    // 10 calls a month (the tiny plan above): the user's 5th call is the 11th of the month.
+    expect(fromConsole).toEqual([200, 200, 200, 200, 429]);
+    const refused = await size(t.app, user).expect(429);
+    expect(refused.body.code).toBe('quota_exceeded');
+    await size(t.app, token).expect(429);
+    // Account routes of the console are not metered and keep working.
+    await request(t.app).get('/v1/members').set(bearer(user)).expect(200);
+    await t.app.locals.services.usageMeter.flush();
+    const usage = await request(t.app).get('/v1/usage?from=2026-11-21&to=2026-11-21').set(bearer(user)).expect(200);
+    expect(usage.body.totals.byKey).toContainEqual(expect.objectContaining({ keyId: 'console', requests: 6, limited: 2 }));
+  });
+});
