@@ -30,6 +30,8 @@ export const plans = pgTable('plans', {
   name: text('name').notNull(),
   monthlyQuota: integer('monthly_quota').notNull(),
   ratePerMinute: integer('rate_per_minute').notNull(),
+  /** Active (not revoked, not expired) API keys an organisation on this plan may hold. */
+  maxApiKeys: integer('max_api_keys').notNull().default(5),
   createdAt: createdAt(),
 });
 

@@ -31,6 +31,7 @@ export function embedRatePerIp(ratePerMinute: number): number {
 }
 
 // Every route that checks an existing account's password: guesses there count the same.
+const KEY_CREATION_ROUTES = new Set(['POST /v1/keys']);
 const SIGN_IN_ROUTES = new Set(['POST /v1/auth/sign-in', 'POST /v1/auth/invitations/accept']);
 const PASSWORD_RESET_ROUTES = new Set(['POST /v1/auth/password-reset', 'POST /v1/auth/password-reset/confirm']);
 
@@ -49,6 +50,8 @@ interface LimiterSpec {
   skip: ValueDeterminingMiddleware<boolean>;
   /** Count only failed calls (sign-in: brute force is what we stop). */
   failuresOnly?: boolean;
+  /** Count only calls that succeeded (key creation: refused attempts made nothing). */
+  successesOnly?: boolean;
   /** Who went over the limit, for the problem's detail. */
   who: string;
 }
@@ -61,6 +64,7 @@ function limiter(services: Services, logger: Logger, spec: LimiterSpec): Request
     keyGenerator: spec.keyGenerator,
     skip: spec.skip,
     skipSuccessfulRequests: spec.failuresOnly ?? false,
+    skipFailedRequests: spec.successesOnly ?? false,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     identifier: spec.name,
@@ -99,7 +103,13 @@ export function trafficMiddleware(deps: AppDeps, services: Services): RequestHan
   const logger = deps.logger;
   const ratePerMinute = async (res: Response) => (await plans.forOrganization(apiKeyOf(res)!.organizationId)).ratePerMinute;
 
-  const [signInIp, passwordResetIp, perUser, embedIp, perKey] = [
+  const organizationOfCaller = (res: Response) => {
+    const p = principalOf(res);
+    return p.type === 'anonymous' ? '' : (p.organizationId ?? '');
+  };
+  const orgRate = async (res: Response) => (await plans.forOrganization(organizationOfCaller(res))).ratePerMinute;
+
+  const [signInIp, passwordResetIp, perUser, embedIp, perKey, perOrganization, keyCreations] = [
     limiter(services, logger, {
       name: 'sign-in-failures-ip',
       windowMs: QUARTER_HOUR_MS,
@@ -144,15 +154,36 @@ export function trafficMiddleware(deps: AppDeps, services: Services): RequestHan
       skip: (_req, res) => apiKeyOf(res) === undefined,
       who: 'This API key',
     }),
+    // The plan's rate is the organisation's: several keys share it rather than each having its own.
+    limiter(services, logger, {
+      name: 'organization',
+      windowMs: MINUTE_MS,
+      limit: (_req, res) => orgRate(res),
+      keyGenerator: (_req, res) => organizationOfCaller(res),
+      skip: (_req, res) => organizationOfCaller(res) === '',
+      who: 'This organisation',
+    }),
+    // Keys created per organisation in an hour, whoever creates them: no more than the plan lets
+    // it hold. Each new key is a fresh rate bucket and e-mails the admins, so bursts are bounded.
+    limiter(services, logger, {
+      name: 'key-creations',
+      windowMs: 60 * MINUTE_MS,
+      successesOnly: true,
+      limit: async (_req, res) => (await plans.forOrganization(organizationOfCaller(res))).maxApiKeys,
+      keyGenerator: (_req, res) => organizationOfCaller(res),
+      skip: (req, res) => organizationOfCaller(res) === '' || !KEY_CREATION_ROUTES.has(routeOf(req, res)),
+      who: 'This organisation',
+    }),
   ];
 
   // Only the limiters that apply to this caller and route run: each one costs a store round
   // trip, and the hot path (a key calling sizing) needs just one or two.
   const applicable = (req: Request, res: Response): RequestHandler[] => {
     const principal = principalOf(res);
-    if (principal.type === 'api_key') return principal.kind === 'embed' ? [embedIp, perKey] : [perKey];
-    if (principal.type === 'user') return [perUser];
     const route = routeOf(req, res);
+    const creating = KEY_CREATION_ROUTES.has(route) ? [keyCreations] : [];
+    if (principal.type === 'api_key') return [...(principal.kind === 'embed' ? [embedIp] : []), perKey, perOrganization, ...creating];
+    if (principal.type === 'user') return [perUser, ...creating];
     if (SIGN_IN_ROUTES.has(route)) return [signInIp];
     if (PASSWORD_RESET_ROUTES.has(route)) return [passwordResetIp];
     return [];

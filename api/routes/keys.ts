@@ -86,6 +86,15 @@ export const keyRoutes: RouteModule = {
           });
         }
       }
+      const plan = await services.plans.forOrganization(organizationId);
+      if ((await apiKeys.countActive(organizationId)) >= plan.maxApiKeys) {
+        throw new HttpProblem(
+          409,
+          'key_limit_reached',
+          'Key limit reached',
+          `The ${plan.name} plan allows ${plan.maxApiKeys} active keys per organisation. Revoke a key you no longer use, or move to a larger plan.`,
+        );
+      }
       const { key, token } = await apiKeys.create({
         organizationId,
         kind: body.kind,
@@ -172,7 +181,7 @@ export const keyRoutes: RouteModule = {
         201: { description: 'The key and its token (shown once).', content: { 'application/json': { schema: apiKeyWithTokenSchema } } },
         400: problemResponse('Invalid request.'),
         ...problems,
-        409: problemResponse('A request with this Idempotency-Key is still running, or its 10-minute replay window has ended (`idempotency_replay_expired`).'),
+        409: problemResponse('The plan’s cap on active keys is reached (`key_limit_reached`), or a request with this Idempotency-Key is still running, or its 10-minute replay window has ended (`idempotency_replay_expired`).'),
         422: problemResponse('Idempotency-Key reused with another body.'),
       },
     });

@@ -1,4 +1,4 @@
-import { and, desc, eq, lt, or } from 'drizzle-orm';
+import { and, count, desc, eq, gt, isNull, lt, or } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db/client.js';
 import { apiKeys, type OverlappingSecret } from '../db/schema.js';
@@ -122,6 +122,16 @@ export function createApiKeyService({ db, pepper, clock }: { db: Db; pepper: Buf
         .orderBy(desc(apiKeys.createdAt), desc(apiKeys.id))
         .limit(page.limit + 1);
       return toPage(rows, page.limit, view, (r) => [r.createdAt.toISOString(), r.id]);
+    },
+
+    /** Keys that still work (not revoked, not expired): what the plan's key cap counts. */
+    async countActive(organizationId: string): Promise<number> {
+      const now = clock();
+      const [row] = await db
+        .select({ n: count() })
+        .from(apiKeys)
+        .where(and(eq(apiKeys.organizationId, organizationId), isNull(apiKeys.revokedAt), or(isNull(apiKeys.expiresAt), gt(apiKeys.expiresAt, now))));
+      return row?.n ?? 0;
     },
 
     async get(organizationId: string, id: string): Promise<ApiKeyView> {

@@ -7,6 +7,7 @@ export interface Plan {
   name: string;
   monthlyQuota: number;
   ratePerMinute: number;
+  maxApiKeys: number;
 }
 
 interface Entry {
@@ -24,7 +25,7 @@ export function createPlanService({ db, clock, ttlMs = 60_000 }: { db: Db; clock
 
   const load = async (organizationId: string): Promise<Plan> => {
     const [row] = await db
-      .select({ id: plans.id, name: plans.name, monthlyQuota: plans.monthlyQuota, ratePerMinute: plans.ratePerMinute })
+      .select({ id: plans.id, name: plans.name, monthlyQuota: plans.monthlyQuota, ratePerMinute: plans.ratePerMinute, maxApiKeys: plans.maxApiKeys })
       .from(organizations)
       .innerJoin(plans, eq(plans.id, organizations.planId))
       .where(eq(organizations.id, organizationId));

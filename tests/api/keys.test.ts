@@ -2,7 +2,7 @@ import request from 'supertest';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashSecret, parseKey } from '../../api/auth/key-format.js';
-import { apiKeys, auditEvents, idempotencyRecords } from '../../api/db/schema.js';
+import { apiKeys, auditEvents, idempotencyRecords, organizations } from '../../api/db/schema.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
@@ -20,6 +20,8 @@ const VD = { supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSec
 beforeAll(async () => {
   t = await createTestApp({}, clock);
   orgA = await createOrganization(t, 'harbor-lane-test');
+  // The internal plan: these tests create far more keys than a free organisation may hold.
+  await t.database.db.update(organizations).set({ planId: 'platform' }).where(eq(organizations.id, orgA.id));
   orgB = await createOrganization(t, 'kestrel-finch-test');
   managerA = (await createKey(t, orgA.id, { scopes: ['keys:manage', 'sizing:run', 'usage:read'] })).token;
   managerB = (await createKey(t, orgB.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
@@ -315,5 +317,39 @@ describe('isolation between organisations', () => {
     const ids = [...first.body.items, ...second.body.items].map((k: { id: string }) => k.id);
     expect(new Set(ids).size).toBe(ids.length);
     await as(managerA).get('/v1/keys?cursor=not-a-cursor').expect(400);
+  });
+});
+
+describe('limits on keys per organisation', () => {
+  it('caps active keys by plan (free: 5) and counts only working keys', async () => {
+    const org = await createOrganization(t); // the free plan (migration 0007: 5 keys)
+    const admin = (await createKey(t, org.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
+    for (let i = 2; i <= 5; i++) await as(admin).post('/v1/keys', { name: `Key ${i}` }).expect(201);
+    const sixth = await as(admin).post('/v1/keys', { name: 'Key 6' }).expect(409);
+    expect(sixth.body.code).toBe('key_limit_reached');
+    const list = await as(admin).get('/v1/keys').expect(200);
+    const spare = list.body.items.find((k: { name: string }) => k.name === 'Key 5');
+    await as(admin).post(`/v1/keys/${spare.id}/revoke`).expect(200);
+    await as(admin).post('/v1/keys', { name: 'Key 6' }).expect(201);
+  });
+
+  it('limits key creations per organisation and hour, whichever credential creates them', async () => {
+    const org = await createOrganization(t);
+    const admin = (await createKey(t, org.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
+    const otherAdmin = (await createKey(t, org.id, { scopes: ['keys:manage', 'sizing:run'] })).token;
+    // Free plan: 5 creations an hour (its key cap), shared by both credentials; refused ones do not count.
+    await as(admin).post('/v1/keys', { name: 'bad\u0000name' }).expect(400);
+    await as(admin).post('/v1/keys', { name: 'One' }).expect(201);
+    await as(otherAdmin).post('/v1/keys', { name: 'Two' }).expect(201);
+    await as(admin).post('/v1/keys', { name: 'Three' }).expect(201);
+    // Revoked again at once: the cap on active keys never binds here, only the creation rate.
+    for (const k of (await as(admin).get('/v1/keys').expect(200)).body.items.filter((x: { name: string }) => ['One', 'Two', 'Three'].includes(x.name))) {
+      await as(admin).post(`/v1/keys/${k.id}/revoke`).expect(200);
+    }
+    await as(otherAdmin).post('/v1/keys', { name: 'Four' }).expect(201);
+    await as(admin).post('/v1/keys', { name: 'Five' }).expect(201);
+    const sixth = await as(admin).post('/v1/keys', { name: 'Six' }).expect(429);
+    expect(sixth.headers['ratelimit-policy']).toContain('"key-creations"; q=5; w=3600');
+    advance(3600_000);
   });
 });

@@ -49,10 +49,11 @@ describe('per API key, at the plan rate', () => {
     expect(res.headers['ratelimit-limit']).toBeUndefined();
   });
 
-  it('answers 429 rate_limited as problem+json with Retry-After past the limit; other keys are unaffected', async () => {
+  it('answers 429 rate_limited as problem+json with Retry-After past the limit; other organisations are unaffected', async () => {
     const org = await createOrganization(t);
     const { token } = await createKey(t, org.id);
-    const other = await createKey(t, org.id);
+    const elsewhere = await createOrganization(t);
+    const other = await createKey(t, elsewhere.id);
     const served = await times(FREE.ratePerMinute, () => size(token));
     expect(served.map((r) => r.status)).toEqual(new Array(FREE.ratePerMinute).fill(200));
 
@@ -75,9 +76,21 @@ describe('per API key, at the plan rate', () => {
 
     await size(other.token).expect(200);
     // The refused call is metered as limited and not billed against the month.
-    const usage = await request(t.app).get('/v1/usage').set(bearer(other.token)).expect(200);
-    expect(usage.body.totals).toMatchObject({ requests: FREE.ratePerMinute + 2, limited: 1 });
-    expect(usage.body.quota.usedThisMonth).toBe(FREE.ratePerMinute + 1);
+    const usage = await request(t.app).get('/v1/usage').set(bearer(token)).expect(429); // still limited this minute
+    expect(usage.body.code).toBe('rate_limited');
+  });
+
+  it('shares the plan’s rate between all keys of one organisation', async () => {
+    const org = await createOrganization(t);
+    const first = await createKey(t, org.id);
+    const second = await createKey(t, org.id);
+    // Half the plan's rate from each key (free plan: 60 a minute, migration 0001) uses it up.
+    const served = [...(await times(FREE.ratePerMinute / 2, () => size(first.token))), ...(await times(FREE.ratePerMinute / 2, () => size(second.token)))];
+    expect(served.every((r) => r.status === 200)).toBe(true);
+    const refused = await size(second.token).expect(429);
+    expect(refused.headers.ratelimit).toMatch(/"organization"; r=0; t=\d+/);
+    expect(refused.headers['ratelimit-policy']).toContain(`"organization"; q=${FREE.ratePerMinute}; w=60`);
+    await size(first.token).expect(429);
   });
 
   it("takes the rate from the organisation's plan", async () => {
