@@ -6,6 +6,7 @@ import { createApp } from './app.js';
 import { loadSecrets } from './auth/secrets.js';
 import type { Config } from './config.js';
 import { openDatabase, type Database } from './db/client.js';
+import { lockDataDir, type DataDirLock } from './db/data-dir-lock.js';
 import { migrateDatabase } from './db/migrate.js';
 import { seedDemo, type SeedResult } from './db/seed.js';
 
@@ -18,18 +19,43 @@ export interface RunningServer {
 }
 
 export async function startServer(config: Config, logger: Logger): Promise<RunningServer> {
+  // The embedded database has one owner: lock DATA_DIR before reading its secrets or files.
+  // A real server (DATABASE_URL) has no data directory and is shared by design.
+  const lock = config.databaseUrl ? undefined : await lockDataDir(config.dataDir, lockLost(logger));
+  try {
+    return await listening(config, logger, lock);
+  } catch (err) {
+    await lock?.release();
+    throw err;
+  }
+}
+
+/** Another process removed or replaced our lock: stop at once rather than write beside it. */
+const lockLost = (logger: Logger) => (err: Error) => {
+  logger.fatal({ err }, 'the data directory lock was lost; stopping so two servers never write one database');
+  process.exit(1);
+};
+
+async function listening(config: Config, logger: Logger, lock: DataDirLock | undefined): Promise<RunningServer> {
   const secrets = loadSecrets(config); // before the database: a missing secret is a config error
   const database = await openDatabase({
     url: config.databaseUrl,
     dataDir: path.join(config.dataDir, 'pglite'),
   });
-  await migrateDatabase(database);
-  const seed = await seedDemo(database, config.seedDemo, secrets.pepper);
-  const app = createApp({ config, database, logger, secrets, clock: () => new Date() });
-
-  const server: Server = await new Promise((resolve, reject) => {
-    const s = app.listen(config.port, config.host, (err?: Error) => (err ? reject(err) : resolve(s)));
-  });
+  let app: ReturnType<typeof createApp>;
+  let seed: SeedResult;
+  let server: Server;
+  try {
+    await migrateDatabase(database);
+    seed = await seedDemo(database, config.seedDemo, secrets.pepper);
+    app = createApp({ config, database, logger, secrets, clock: () => new Date() });
+    server = await new Promise((resolve, reject) => {
+      const s = app.listen(config.port, config.host, (err?: Error) => (err ? reject(err) : resolve(s)));
+    });
+  } catch (err) {
+    await database.close(); // before the lock goes, so the next owner finds the files closed
+    throw err;
+  }
   const { port } = server.address() as AddressInfo;
   const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host;
 
@@ -46,6 +72,7 @@ export async function startServer(config: Config, logger: Logger): Promise<Runni
       await app.locals.services.usageMeter.close();
       await app.locals.services.rateLimitStores.close();
       await database.close();
+      await lock?.release();
     })());
 
   return { url: `http://${host}:${port}`, database, seed, close };
