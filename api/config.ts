@@ -28,6 +28,7 @@ const configSchema = z
       .regex(/^(false|true|loopback|linklocal|uniquelocal|\d{1,2}|[0-9a-f.:/, ]+)$/i, 'false, loopback, a hop count or addresses')
       .default('false'),
     PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).optional(),
+    SHUTDOWN_DRAIN_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
     USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(10_000),
   })
   .transform((env) => ({
@@ -51,6 +52,8 @@ const configSchema = z
     trustProxy: env.TRUST_PROXY === 'false' ? false : env.TRUST_PROXY === 'true' ? true : /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY,
     // Links in e-mails point here; the default suits the local demo.
     publicUrl: (env.PUBLIC_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, ''),
+    // On SIGTERM, how long answers under way may take to reach slow clients before they are cut.
+    shutdownDrainMs: env.SHUTDOWN_DRAIN_MS,
     // How often buffered usage counters are written (a graceful shutdown also writes them).
     usageFlushIntervalMs: env.USAGE_FLUSH_INTERVAL_MS,
   }));

@@ -9,12 +9,16 @@ import { openDatabase, type Database } from './db/client.js';
 import { lockDataDir, type DataDirLock } from './db/data-dir-lock.js';
 import { migrateDatabase } from './db/migrate.js';
 import { seedDemo, type SeedResult } from './db/seed.js';
+import { gracefulCloser } from './graceful-close.js';
 
 export interface RunningServer {
   url: string;
   database: Database;
   seed: SeedResult;
-  /** Stops accepting connections, finishes in-flight requests, then closes the database. */
+  /**
+   * Stops accepting connections, lets in-flight answers reach their clients (up to
+   * SHUTDOWN_DRAIN_MS), writes the buffered usage, closes the database and releases DATA_DIR.
+   */
   close(): Promise<void>;
 }
 
@@ -56,17 +60,15 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     await database.close(); // before the lock goes, so the next owner finds the files closed
     throw err;
   }
+  const closer = gracefulCloser(server);
   const { port } = server.address() as AddressInfo;
   const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host;
 
   let closing: Promise<void> | undefined;
   const close = () =>
     (closing ??= (async () => {
-      await new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        // Idle keep-alive sockets would hold close() open; in-flight requests still finish.
-        server.closeIdleConnections();
-      });
+      // Answers under way reach their clients (up to SHUTDOWN_DRAIN_MS), then the sockets close.
+      await closer.close(config.shutdownDrainMs);
       // In-flight requests are done: write the buffered usage and last-used times, then close.
       await app.locals.services.passwordResets.settled(); // reset mails started before the stop
       await app.locals.services.usageMeter.close();
