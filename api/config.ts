@@ -29,7 +29,8 @@ const configSchema = z
       .default('false'),
     PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).optional(),
     SHUTDOWN_DRAIN_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
-    USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(10_000),
+    USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(1_000),
+    USAGE_FLUSH_AFTER_CALLS: z.coerce.number({ error: 'must be a whole number of calls' }).int().min(1).max(1_000_000).default(100),
   })
   .transform((env) => ({
     nodeEnv: env.NODE_ENV,
@@ -54,8 +55,10 @@ const configSchema = z
     publicUrl: (env.PUBLIC_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, ''),
     // On SIGTERM, how long answers under way may take to reach slow clients before they are cut.
     shutdownDrainMs: env.SHUTDOWN_DRAIN_MS,
-    // How often buffered usage counters are written (a graceful shutdown also writes them).
+    // Buffered usage counters are written this often and as soon as this many calls wait (a
+    // graceful shutdown also writes them): together they bound what a crash can lose.
     usageFlushIntervalMs: env.USAGE_FLUSH_INTERVAL_MS,
+    usageFlushAfterCalls: env.USAGE_FLUSH_AFTER_CALLS,
   }));
 
 export type Config = z.output<typeof configSchema>;
