@@ -19,7 +19,7 @@ export interface AuthenticateDeps {
   clock: () => Date;
 }
 
-const BEARER = /^Bearer ([^\s]+)$/;
+const BEARER = /^Bearer ([^\s]+)$/i; // RFC 9110 §11.1: the scheme is case-insensitive
 const ORG_HEADER = 'treadwise-organization';
 
 /**
@@ -29,6 +29,8 @@ const ORG_HEADER = 'treadwise-organization';
  */
 export function authenticate(deps: AuthenticateDeps): RequestHandler {
   return async (req, res, next) => {
+    // Node keeps one of two Authorization headers; which credential counts must not be a guess.
+    if ((req.headersDistinct.authorization?.length ?? 0) > 1) throw problems.badRequest('duplicate_authorization', 'Send one Authorization header, not several.');
     const header = req.headers.authorization;
     // Public routes ignore credentials, so a stale token never blocks sign-in, refresh or health.
     if (!header || policyFor(req.method, req.baseUrl + req.path)?.policy.public) {
