@@ -10,6 +10,7 @@ import { lockDataDir, type DataDirLock } from './db/data-dir-lock.js';
 import { migrateDatabase } from './db/migrate.js';
 import { seedDemo, type SeedResult } from './db/seed.js';
 import { gracefulCloser } from './graceful-close.js';
+import { createHttpServer } from './http-server.js';
 
 export interface RunningServer {
   url: string;
@@ -53,8 +54,13 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     await migrateDatabase(database);
     seed = await seedDemo(database, config.seedDemo, secrets.pepper);
     app = createApp({ config, database, logger, secrets, clock: () => new Date() });
-    server = await new Promise((resolve, reject) => {
-      const s = app.listen(config.port, config.host, (err?: Error) => (err ? reject(err) : resolve(s)));
+    server = createHttpServer(app, config);
+    await new Promise<void>((resolve, reject) => {
+      server.once('error', reject);
+      server.listen(config.port, config.host, () => {
+        server.off('error', reject);
+        resolve();
+      });
     });
   } catch (err) {
     await database.close(); // before the lock goes, so the next owner finds the files closed
