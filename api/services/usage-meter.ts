@@ -177,6 +177,7 @@ export function createUsageMeter({
     if (rows.length > 0 || used.length > 0) {
       try {
         await write(rows, used);
+        logger.debug({ requests: rows.reduce((n, r) => n + r.count, 0) }, 'usage counters written');
       } catch (err) {
         for (const row of rows) add(row);
         for (const [id, at] of used) touch(id, at);
