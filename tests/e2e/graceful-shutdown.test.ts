@@ -8,30 +8,9 @@ import { startServerProcess } from './server-process.js';
 const dataDir = mkdtempSync(path.join(tmpdir(), 'treadwise-drain-'));
 afterAll(() => rmSync(dataDir, { recursive: true, force: true }));
 
-/** A client that asks for a large answer over a raw socket and reads only when told to. */
-function slowReader(url: string, pathName: string) {
-  const { hostname, port } = new URL(url);
-  const socket: Socket = connect(Number(port), hostname);
-  const chunks: Buffer[] = [];
-  socket.on('data', (c: Buffer) => chunks.push(c));
-  const ended = new Promise<void>((resolve) => socket.on('close', () => resolve()));
-  socket.on('error', () => undefined); // a reset shows as a short body below
-  socket.write(`GET ${pathName} HTTP/1.1\r\nHost: ${hostname}\r\nConnection: keep-alive\r\n\r\n`);
-  // The first chunk proves the answer is under way; then stop reading, as a slow link would.
-  const started = new Promise<void>((resolve) => socket.once('data', () => (socket.pause(), resolve())));
-  return {
-    started,
-    /** Reads the rest and resolves with the declared and the received body length. */
-    async readAll() {
-      socket.resume();
-      await ended;
-      const raw = Buffer.concat(chunks);
-      const split = raw.indexOf('\r\n\r\n');
-      const head = raw.subarray(0, split).toString();
-      return { head, declared: Number(/content-length: (\d+)/i.exec(head)?.[1]), received: raw.length - split - 4 };
-    },
-  };
-}
+// A slow reader of a large answer is tested on the HTTP layer itself
+// (tests/api/graceful-close.test.ts): the process has no answer large enough to outgrow the
+// socket buffers without depending on the sizing engine's answer ceiling.
 
 /** Resolves once a new connection is refused: the server has stopped accepting. */
 async function refusesConnections(url: string): Promise<void> {
