@@ -7,6 +7,7 @@ import type { AppDeps } from './deps.js';
 import { createServices, type Services } from './services/container.js';
 import { cors } from './middleware/cors.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
+import { jsonBodyOnly } from './middleware/json-body.js';
 import { trafficMiddleware } from './middleware/rate-limit.js';
 import { requestId } from './middleware/request-id.js';
 import { consoleRouter } from './routes/console.js';
@@ -39,6 +40,7 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   // The demo serves plain HTTP on localhost; don't ask browsers to upgrade to HTTPS.
   app.use(helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
   app.use(docsRouter(deps.config)); // after helmet: /docs replaces the CSP with its own
+  app.use('/v1', jsonBodyOnly); // 415 for other types and encodings, before the parser runs
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 
   const services = createServices(deps);

@@ -28,7 +28,17 @@ const configSchema = z
       .regex(/^(false|true|loopback|linklocal|uniquelocal|\d{1,2}|[0-9a-f.:/, ]+)$/i, 'false, loopback, a hop count or addresses')
       .default('false'),
     PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).optional(),
-    USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(10_000),
+    HTTP_HEADERS_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(300_000).default(10_000),
+    HTTP_REQUEST_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(600_000).default(30_000),
+    HTTP_KEEP_ALIVE_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(5_000),
+    HTTP_MAX_CONNECTIONS: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(1_000_000).default(1_000),
+    SHUTDOWN_DRAIN_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
+    USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(1_000),
+    USAGE_FLUSH_AFTER_CALLS: z.coerce.number({ error: 'must be a whole number of calls' }).int().min(1).max(1_000_000).default(100),
+  })
+  .refine((env) => env.HTTP_REQUEST_TIMEOUT_MS >= env.HTTP_HEADERS_TIMEOUT_MS, {
+    path: ['HTTP_REQUEST_TIMEOUT_MS'],
+    message: 'must not be shorter than HTTP_HEADERS_TIMEOUT_MS (the headers are part of the request)',
   })
   .transform((env) => ({
     nodeEnv: env.NODE_ENV,
@@ -51,8 +61,17 @@ const configSchema = z
     trustProxy: env.TRUST_PROXY === 'false' ? false : env.TRUST_PROXY === 'true' ? true : /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY,
     // Links in e-mails point here; the default suits the local demo.
     publicUrl: (env.PUBLIC_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, ''),
-    // How often buffered usage counters are written (a graceful shutdown also writes them).
+    // Slow clients may not hold connections for long; see api/http-server.ts.
+    httpHeadersTimeoutMs: env.HTTP_HEADERS_TIMEOUT_MS,
+    httpRequestTimeoutMs: env.HTTP_REQUEST_TIMEOUT_MS,
+    httpKeepAliveTimeoutMs: env.HTTP_KEEP_ALIVE_TIMEOUT_MS,
+    httpMaxConnections: env.HTTP_MAX_CONNECTIONS,
+    // On SIGTERM, how long answers under way may take to reach slow clients before they are cut.
+    shutdownDrainMs: env.SHUTDOWN_DRAIN_MS,
+    // Buffered usage counters are written this often and as soon as this many calls wait (a
+    // graceful shutdown also writes them): together they bound what a crash can lose.
     usageFlushIntervalMs: env.USAGE_FLUSH_INTERVAL_MS,
+    usageFlushAfterCalls: env.USAGE_FLUSH_AFTER_CALLS,
   }));
 
 export type Config = z.output<typeof configSchema>;

@@ -19,6 +19,7 @@ export class HttpProblem extends Error {
 export const problems = {
   validation: (errors: FieldError[], detail = 'The request does not match the schema.') =>
     new HttpProblem(400, 'validation_failed', 'Invalid request', detail, { errors }),
+  badRequest: (code: string, detail: string) => new HttpProblem(400, code, 'Bad request', detail),
   notFound: (detail = 'No such resource.') => new HttpProblem(404, 'not_found', 'Not found', detail),
   conflict: (code: string, detail: string) => new HttpProblem(409, code, 'Conflict', detail),
   unauthenticated: (detail = 'Send a valid API key or access token as `Authorization: Bearer …`.', code = 'credential_missing') =>

@@ -19,7 +19,7 @@ export interface AuthenticateDeps {
   clock: () => Date;
 }
 
-const BEARER = /^Bearer ([^\s]+)$/;
+const BEARER = /^Bearer ([^\s]+)$/i; // RFC 9110 §11.1: the scheme is case-insensitive
 
 /** Credential failures share four codes, for keys and access tokens alike. */
 const unknownCredential = (what: string) => problems.unauthenticated(`The ${what} is not valid.`, 'credential_unknown');
@@ -32,6 +32,8 @@ const expiredCredential = (what: string) => problems.unauthenticated(`The ${what
  */
 export function authenticate(deps: AuthenticateDeps): RequestHandler {
   return async (req, res, next) => {
+    // Node keeps one of two Authorization headers; which credential counts must not be a guess.
+    if ((req.headersDistinct.authorization?.length ?? 0) > 1) throw problems.badRequest('duplicate_authorization', 'Send one Authorization header, not several.');
     const header = req.headers.authorization;
     // Public routes ignore credentials, so a stale token never blocks sign-in, refresh or health.
     if (!header || policyFor(req.method, req.baseUrl + req.path)?.policy.public) {

@@ -25,6 +25,8 @@ export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
     info: {
       title: 'Treadwise API',
       version: API_VERSION,
+      // The package is UNLICENSED: the API and its document are not licensed for reuse.
+      license: { name: 'Proprietary', identifier: 'LicenseRef-Proprietary' },
       description:
         'Sizing for motion-activated LED lighting on stairs and corridors: strip per tread, ' +
         'controller outputs, drivers, cable and voltage drop, pixel data, reels, sensors and the ' +

@@ -46,6 +46,7 @@ export const auditRoutes: RouteModule = {
       method: 'get',
       path: '/v1/audit-events',
       tags: ['Audit'],
+      operationId: 'listAuditEvents',
       summary: 'List audit events',
       description: 'The organisation’s audit trail, newest first, with cursor pagination (admins).',
       security: [{ bearer: [] }],

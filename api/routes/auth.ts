@@ -153,6 +153,8 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/sign-in',
       tags: ['Auth'],
+      operationId: 'signIn',
+      security: [], // public: no credentials are read
       summary: 'Sign in',
       description:
         'Exchanges an e-mail address and password for a 15-minute access token and a 30-day refresh token. ' +
@@ -171,6 +173,8 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/refresh',
       tags: ['Auth'],
+      operationId: 'refreshSession',
+      security: [], // public: no credentials are read
       summary: 'Refresh a session',
       description:
         'Exchanges a refresh token for a new access token and a new refresh token; the one presented is used up. ' +
@@ -182,6 +186,8 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/sign-out',
       tags: ['Auth'],
+      operationId: 'signOut',
+      security: [], // public: no credentials are read
       summary: 'Sign out',
       description: 'Revokes the refresh token and every token rotated from the same sign-in. Access tokens already issued run out within 15 minutes.',
       request: { body: json(signOutRequestSchema) },
@@ -191,6 +197,7 @@ export const authRoutes: RouteModule = {
       method: 'get',
       path: '/v1/auth/me',
       tags: ['Auth'],
+      operationId: 'getCurrentUser',
       summary: 'The signed-in user',
       description: 'The user behind the access token and the organisations they belong to. For console users only; API keys get 403.',
       security: [{ bearer: [] }],
@@ -204,6 +211,7 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/switch-organization',
       tags: ['Auth'],
+      operationId: 'switchOrganization',
       summary: 'Act in another organisation',
       description:
         'Issues an access token that acts in the given organisation (a membership of yours; the operator may choose any). ' +
@@ -222,6 +230,8 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/password-reset',
       tags: ['Auth'],
+      operationId: 'requestPasswordReset',
+      security: [], // public: no credentials are read
       summary: 'Ask for a password reset',
       description:
         'E-mails a link to `/reset-password?token=…` that works once, for one hour. ' +
@@ -233,6 +243,8 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/password-reset/confirm',
       tags: ['Auth'],
+      operationId: 'confirmPasswordReset',
+      security: [], // public: no credentials are read
       summary: 'Set a new password',
       description: 'Sets a new password with the token from the reset link, lifts any lockout and signs out every session of the account.',
       request: { body: json(passwordResetConfirmSchema) },
@@ -245,6 +257,8 @@ export const authRoutes: RouteModule = {
       method: 'post',
       path: '/v1/auth/invitations/accept',
       tags: ['Auth'],
+      operationId: 'acceptInvitation',
+      security: [], // public: no credentials are read
       summary: 'Accept an invitation',
       description:
         'Uses the token from an invitation link (once, within 7 days). A new address gets an account with the given name ' +

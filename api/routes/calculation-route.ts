@@ -7,6 +7,8 @@ import { problemResponse } from '../openapi/document.js';
 /** One stateless sizing endpoint: a request schema, a pure engine function, a response schema. */
 export interface Calculation<Req extends z.ZodType, Res extends z.ZodType> {
   path: string;
+  /** camelCase name of the operation, for generated clients. */
+  operationId: string;
   summary: string;
   description: string;
   request: Req;
@@ -39,6 +41,7 @@ export function documentCalculation(registry: OpenAPIRegistry, calc: AnyCalculat
     method: 'post',
     path: calc.path,
     tags: ['Calculations'],
+    operationId: calc.operationId,
     security: [{ bearer: [] }],
     summary: calc.summary,
     description: calc.description + (calc.notes ?? CALCULATION_NOTES),

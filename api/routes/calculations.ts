@@ -17,6 +17,7 @@ const BASE = '/v1/calculations';
 const calculations = [
   defineCalculation({
     path: `${BASE}/voltage-drop`,
+    operationId: 'calculateVoltageDrop',
     summary: 'Voltage drop on a two-wire DC run',
     description:
       'Drop along the loop (out and back) of a low-voltage run, Vd = 2·L·I·R′ (IEC 60364-5-52 Annex G, cos φ = 1), ' +
@@ -29,6 +30,7 @@ const calculations = [
   }),
   defineCalculation({
     path: `${BASE}/cable`,
+    operationId: 'calculateCable',
     summary: 'Smallest cable for a run',
     description:
       'The smallest standard size of the conductor table that keeps the drop within `maxDropPercent` and carries ' +
@@ -40,6 +42,7 @@ const calculations = [
   }),
   defineCalculation({
     path: `${BASE}/driver`,
+    operationId: 'calculateDriver',
     summary: 'LED drivers for a load',
     description:
       'Required rating = load / loading limit (80 % by default, common practice; the NEC 125 % continuous-load rule ' +
@@ -52,6 +55,7 @@ const calculations = [
   }),
   defineCalculation({
     path: `${BASE}/pixels`,
+    operationId: 'calculatePixels',
     summary: 'Pixel data timing, outputs and power',
     description:
       'Frame time and refresh rate of an addressable run: one-wire NRZ (24 or 32 bits per pixel at 800 or 400 kbit/s ' +
@@ -63,6 +67,7 @@ const calculations = [
   }),
   defineCalculation({
     path: `${BASE}/reels`,
+    operationId: 'calculateReels',
     summary: 'Cutting tread pieces from reels',
     description:
       'Cuts the pieces from reels (5 m by default) without a joint inside any piece — a one-dimensional cutting-stock ' +

@@ -8,6 +8,7 @@ const BASE = '/v1/estimates';
 
 const estimateCalculation = defineCalculation({
   path: BASE,
+  operationId: 'createEstimate',
   summary: 'Size a whole stair or corridor',
   description:
     'The complete estimate for one of four layouts — `tread-strips` (a constant-voltage strip on each tread, ' +

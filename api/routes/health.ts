@@ -33,18 +33,26 @@ export const healthRoutes: RouteModule = {
       method: 'get',
       path: '/v1/health',
       tags: ['Health'],
+      operationId: 'getLiveness',
+      security: [], // public: no credentials are read
       summary: 'Liveness',
       description: 'Answers while the process is up. Needs no credentials; use it for load-balancer liveness probes.',
-      responses: { 200: { description: 'The API is up.', content: { 'application/json': { schema: healthSchema } } } },
+      responses: {
+        200: { description: 'The API is up.', content: { 'application/json': { schema: healthSchema } } },
+        400: problemResponse('A malformed request, e.g. two Authorization headers (`duplicate_authorization`).'),
+      },
     });
     registry.registerPath({
       method: 'get',
       path: '/v1/health/ready',
       tags: ['Health'],
+      operationId: 'getReadiness',
+      security: [], // public: no credentials are read
       summary: 'Readiness',
       description: 'Answers 200 when the database is reachable, 503 otherwise. Use it for readiness probes.',
       responses: {
         200: { description: 'Ready to serve.', content: { 'application/json': { schema: readinessSchema } } },
+        400: problemResponse('A malformed request, e.g. two Authorization headers (`duplicate_authorization`).'),
         503: problemResponse('The database is not reachable.'),
       },
     });

@@ -86,6 +86,7 @@ export const memberRoutes: RouteModule = {
       method: 'get',
       path: '/v1/members',
       tags: ['Members'],
+      operationId: 'listMembers',
       summary: 'List members',
       description: 'The organisation’s members with their roles, ordered by e-mail, with cursor pagination. Any role may read it.' + orgNote,
       security,
@@ -101,6 +102,7 @@ export const memberRoutes: RouteModule = {
       method: 'post',
       path: '/v1/members/invitations',
       tags: ['Members'],
+      operationId: 'inviteMember',
       summary: 'Invite a member',
       description:
         'E-mails a link to `/accept-invitation?token=…` that works once, within 7 days; accepting it joins the organisation in the given role. ' +
@@ -123,6 +125,7 @@ export const memberRoutes: RouteModule = {
       method: 'patch',
       path: '/v1/members/{id}',
       tags: ['Members'],
+      operationId: 'changeMemberRole',
       summary: 'Change a member’s role',
       description: 'Sets the member’s role. The last admin cannot be demoted.' + orgNote,
       security,
@@ -139,6 +142,7 @@ export const memberRoutes: RouteModule = {
       method: 'delete',
       path: '/v1/members/{id}',
       tags: ['Members'],
+      operationId: 'removeMember',
       summary: 'Remove a member',
       description: 'Removes the member from the organisation at once (their account stays). The last admin cannot be removed.' + orgNote,
       security,

@@ -89,6 +89,7 @@ export const organizationRoutes: RouteModule = {
       method: 'get',
       path: '/v1/organizations',
       tags: ['Organizations'],
+      operationId: 'listOrganizations',
       summary: 'List organisations',
       description:
         'Ordered by slug, with cursor pagination. The operator sees every organisation, a user the ones they belong to, ' +
@@ -106,6 +107,7 @@ export const organizationRoutes: RouteModule = {
       method: 'post',
       path: '/v1/organizations',
       tags: ['Organizations'],
+      operationId: 'createOrganization',
       summary: 'Create an organisation',
       description: 'Operator only. Creates a partner organisation on a plan (default `free`). Send `Idempotency-Key` to retry safely.',
       security,
@@ -126,6 +128,7 @@ export const organizationRoutes: RouteModule = {
       method: 'get',
       path: '/v1/organizations/{id}',
       tags: ['Organizations'],
+      operationId: 'getOrganization',
       summary: 'Get an organisation',
       description: 'For the operator, a member of the organisation, or one of its API keys (scope `usage:read`); anyone else gets 404.',
       security,
@@ -141,6 +144,7 @@ export const organizationRoutes: RouteModule = {
       method: 'patch',
       path: '/v1/organizations/{id}',
       tags: ['Organizations'],
+      operationId: 'updateOrganization',
       summary: 'Update an organisation',
       description: 'Operator only. Renames the organisation or moves it to another plan; the slug never changes.',
       security,

@@ -33,6 +33,7 @@ export const outboxRoutes: RouteModule & { enabled: typeof outboxEnabled } = {
       method: 'get',
       path: '/v1/dev/outbox',
       tags: ['Development'],
+      operationId: 'readOutbox',
       summary: 'Read the local mail sink',
       description:
         'Operator only. Every message the server sent while no SMTP server is configured (invitations, password resets, ' +

@@ -116,6 +116,7 @@ export const usageRoutes: RouteModule = {
       method: 'get',
       path: '/v1/usage',
       tags: ['Usage'],
+      operationId: 'getUsage',
       summary: 'API usage by day',
       description:
         "The organisation's calls made with API keys, by UTC day (every day of the range, quiet days as zeros), each day by route pattern, " +
@@ -134,6 +135,7 @@ export const usageRoutes: RouteModule = {
       method: 'get',
       path: '/v1/usage/export',
       tags: ['Usage'],
+      operationId: 'exportUsage',
       summary: 'Export API usage as CSV',
       description:
         'The same counters as `GET /v1/usage`, with the same filters, as CSV: one row per day × key × route × status class, with ' +

@@ -33,7 +33,7 @@ export function createServices(deps: AppDeps) {
   // Traffic: plans are cached, the monthly tally syncs after each usage flush.
   const plans = createPlanService({ db, clock });
   const quotas = createQuotaService({ db, plans, mailer, clock, logger: deps.logger, publicUrl: deps.config.publicUrl });
-  const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, observer: quotas.observer });
+  const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, flushAfterCalls: deps.config.usageFlushAfterCalls, observer: quotas.observer });
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
   return {

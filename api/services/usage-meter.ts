@@ -61,26 +61,34 @@ export function utcDay(at: Date): string {
 
 /**
  * Counts requests in memory and writes them in batches (the hot path does no writes): every
- * `flushIntervalMs`, on flush() (read-your-writes before a usage query) and on close()
- * (graceful shutdown). A failed write keeps the counts for the next attempt, so none are lost
- * or counted twice.
+ * `flushIntervalMs`, as soon as `flushAfterCalls` calls wait, on flush() (read-your-writes before
+ * a usage query) and on close() (graceful shutdown). A crash therefore loses at most the calls
+ * answered since the last write — fewer than `flushAfterCalls`, or one interval's worth, plus
+ * those answered while a write is under way — so a quota cannot be escaped by crashing. A failed
+ * write keeps the counts for the next attempt, so none are lost or counted twice.
  */
 export function createUsageMeter({
   db,
   logger,
   flushIntervalMs,
+  flushAfterCalls = Number.POSITIVE_INFINITY,
   observer,
 }: {
   db: Db;
   logger: Logger;
   flushIntervalMs: number;
+  /** Start a write as soon as this many calls are buffered. */
+  flushAfterCalls?: number;
   observer?: FlushObserver;
 }) {
   let counters = new Map<string, Counter>();
   let lastUsed = new Map<string, Date>();
+  let pending = 0; // calls in `counters`
   let chain: Promise<void> = Promise.resolve();
+  let countTriggered: Promise<void> | undefined;
 
   const add = (c: Counter) => {
+    pending += c.count;
     const id = [c.organizationId, c.keyId, c.day, c.route, c.statusClass].join('\u0000');
     const existing = counters.get(id);
     if (!existing) return void counters.set(id, c);
@@ -164,10 +172,12 @@ export function createUsageMeter({
     const used = [...lastUsed.entries()];
     counters = new Map();
     lastUsed = new Map();
+    pending = 0;
     const tally = observer?.flushing();
     if (rows.length > 0 || used.length > 0) {
       try {
         await write(rows, used);
+        logger.debug({ requests: rows.reduce((n, r) => n + r.count, 0) }, 'usage counters written');
       } catch (err) {
         for (const row of rows) add(row);
         for (const [id, at] of used) touch(id, at);
@@ -181,6 +191,24 @@ export function createUsageMeter({
     const run = chain.then(flushOnce);
     chain = run.catch(() => undefined);
     return run;
+  };
+
+  /**
+   * One write at a time for the count rule; another follows at once if the calls answered
+   * meanwhile reached the count again. A failed write is retried by the timer, not in a loop.
+   */
+  const flushForCount = () => {
+    if (countTriggered || pending < flushAfterCalls) return;
+    countTriggered = flush().then(
+      () => {
+        countTriggered = undefined;
+        flushForCount();
+      },
+      (err) => {
+        countTriggered = undefined;
+        logger.error({ err }, 'usage counters not written; will retry');
+      },
+    );
   };
 
   const timer = setInterval(() => {
@@ -205,6 +233,7 @@ export function createUsageMeter({
         buckets,
       });
       if (sample.apiKeyId) touch(sample.apiKeyId, sample.at);
+      flushForCount();
     },
 
     /** Writes everything recorded so far; resolves once it is in the database. */
@@ -212,9 +241,18 @@ export function createUsageMeter({
 
     /** Requests recorded and not yet written (for tests and diagnostics). */
     pendingRequests(): number {
-      let n = 0;
-      for (const c of counters.values()) n += c.count;
-      return n;
+      return pending;
+    },
+
+    /** Resolves once every write started so far has ended (for tests: no waiting on the clock). */
+    async settled(): Promise<void> {
+      // A write for the count may start another when it ends: wait until none follows.
+      for (;;) {
+        const seen = chain;
+        await seen;
+        await countTriggered;
+        if (seen === chain && countTriggered === undefined) return;
+      }
     },
 
     /** Graceful shutdown: stop the timer, write what is left, wait for the observer's work. */

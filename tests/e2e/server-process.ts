@@ -4,8 +4,12 @@ import { once } from 'node:events';
 export interface ServerProcess {
   url: string;
   stdout: () => string;
+  stderr: () => string;
+  pid: number;
   /** Sends SIGTERM and resolves with the exit code once the process has shut down. */
   stop(): Promise<number | null>;
+  /** Sends a signal (SIGKILL: a crash) and resolves with the exit code, or the signal, once it is gone. */
+  kill(signal: NodeJS.Signals): Promise<number | NodeJS.Signals | null>;
 }
 
 const SERVER_ENTRY = 'dist/server/main.js'; // built by `npm run build` before this suite
@@ -37,12 +41,21 @@ export async function startServerProcess(env: Record<string, string>): Promise<S
   return {
     url,
     stdout: () => out,
+    stderr: () => err,
+    pid: child.pid!,
     stop: async () => {
       if (child.exitCode !== null) return child.exitCode;
       const exited = once(child, 'exit');
       child.kill('SIGTERM');
       const [code] = await exited;
       return code as number | null;
+    },
+    kill: async (signal) => {
+      if (child.exitCode !== null || child.signalCode !== null) return child.exitCode ?? child.signalCode;
+      const exited = once(child, 'exit');
+      child.kill(signal);
+      const [code, sig] = await exited;
+      return (code as number | null) ?? (sig as NodeJS.Signals | null);
     },
   };
 }

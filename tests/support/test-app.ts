@@ -5,6 +5,12 @@ import { ephemeralSecrets, type Secrets } from '../../api/auth/secrets.js';
 import { createLogger } from '../../api/logger.js';
 import { createTestDatabase } from './test-database.js';
 
+/**
+ * Tests that count writes need the usage meter to write only when asked: no interval or
+ * call-count write during a test (each test file that checks those rules sets its own).
+ */
+export const QUIET_METER = { USAGE_FLUSH_INTERVAL_MS: '3600000', USAGE_FLUSH_AFTER_CALLS: '1000000' };
+
 export interface TestApp {
   app: ReturnType<typeof createApp>;
   database: Database;
@@ -15,7 +21,7 @@ export interface TestApp {
 
 /** createApp with an in-memory (or per-worker PostgreSQL) database and a silent logger. */
 export async function createTestApp(env: NodeJS.ProcessEnv = {}, clock: () => Date = () => new Date()): Promise<TestApp> {
-  const config = loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', CONSOLE_DIR: '/nonexistent', ...env });
+  const config = loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', CONSOLE_DIR: '/nonexistent', ...QUIET_METER, ...env });
   const database = await createTestDatabase();
   const secrets = ephemeralSecrets();
   const app = createApp({ config, database, logger: createLogger('silent'), secrets, clock });
