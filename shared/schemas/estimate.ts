@@ -172,8 +172,17 @@ export const estimateCableSchema = z
       .max(100)
       .optional()
       .meta({
-        description: `Added field: one-way length of each feeder from a driver to the controller (or to a pixel run’s feed point), m. Default ${DEFAULT_FEEDER_LENGTH_M} (driver mounted beside the controller).`,
+        description: `Added field: the part of each feeder that is not along the run — from the driver to the stringer or rail and the connections, m; each feeder adds its distance along the run from the driver (drivers.positionsM) to its controller or feed point. Default ${DEFAULT_FEEDER_LENGTH_M}.`,
         default: DEFAULT_FEEDER_LENGTH_M,
+      }),
+    feederDropPercent: z
+      .number()
+      .min(0.1)
+      .max(20)
+      .optional()
+      .meta({
+        description:
+          'Added field: the share of maxDropPercent given to the feeders, %; the leads get the rest. The limit always applies end to end (driver → feeder → lead → strip). Default: no fixed split — feeder and leads are sized together for the least copper within the end-to-end limit.',
       }),
   })
   .meta({ id: 'EstimateCable', description: 'How runs and feeders are sized.', example: { conductorTable: 'iec60228-class5', maxDropPercent: 5, feederLengthM: 2 } });
@@ -191,6 +200,26 @@ export const estimateDriversSchema = z
     efficiencyPercent: z.number().min(10).max(100).optional().meta({ description: 'Driver efficiency, %; gives the mains input power and current.' }),
     mainsVoltageV: z.number().min(50).max(1000).optional().meta({ description: 'Mains voltage, V AC. Default 230.', default: 230 }),
     powerFactor: z.number().min(0.1).max(1).optional().meta({ description: 'Added field: driver input power factor. Default 0.9 (assumed).', default: 0.9 }),
+    positionsM: z
+      .array(z.number().min(0).max(500))
+      .min(1)
+      .max(50)
+      .optional()
+      .meta({
+        description:
+          'Added field: where the drivers sit, m along the run from its start (a stair: along the stringer from tread 1, landings included; a rail or corridor: from the rail’s start). Each circuit’s driver sits at the listed place nearest its feeds; several places spread the drivers along the run. Default: one place, midway between the farthest feeds. Every feeder is cable.feederLengthM plus its distance along the run.',
+        example: [0],
+      }),
+    currentLimitPercent: z
+      .number()
+      .min(100)
+      .max(300)
+      .optional()
+      .meta({
+        description:
+          'Added field: the driver’s output current limit (overload protection), % of its rated current. Default 150 (constant-voltage LED driver datasheets commonly give 105–150 %, from memory). A cable that could carry less than this limit relies on a fuse the limited driver may never blow, so it is sized for the limit instead.',
+        default: 150,
+      }),
   })
   .meta({ id: 'EstimateDrivers', description: 'How drivers are chosen for each rail voltage.', example: { maxLoadingPercent: 80, availableRatingsW: [60, 100, 150, 240] } });
 
@@ -384,6 +413,8 @@ export const CHECK_IDS = [
   'sensor-supply',
   'rail-grouping',
   'piece-fits-reel',
+  'circuit-protection',
+  'feeder-derating',
 ] as const;
 
 export type CheckId = (typeof CHECK_IDS)[number];
@@ -411,6 +442,10 @@ export const estimateTreadSchema = z
     cableLengthM: z.number().meta({ description: 'One-way length of the cable into this tread, service allowance included, m.' }),
     ...sizeFields,
     dropPercent: z.number().meta({ description: 'Voltage drop to this tread’s strip, % (cumulative from the feed point along a pixel chain).' }),
+    pathDropPercent: z
+      .number()
+      .optional()
+      .meta({ description: 'Added field: drop from the driver to this tread’s strip, end to end (feeder + lead), %; tread strips.' }),
   })
   .meta({ id: 'EstimateTread', description: 'One row of the wiring schedule.', example: alderRowTownhouseResponse.treads[2] });
 
@@ -467,12 +502,13 @@ export const estimateRailSupplySchema = z
     totalRatingW: z.number(),
     loadingPercent: z.number().nullable(),
     maxSupplyW: z.number().nullable().meta({ description: 'Cap on one supply (Class 2), W.' }),
+    circuits: z.int().optional().meta({ description: 'Added field: separate circuits on this voltage, each on its own driver (drivers[].count adds up to it where every circuit has a driver).' }),
     ratingsSource: z.enum(['catalog', 'request', 'default']),
     totalPrice: z.number().optional(),
     inputPowerW: z.number().optional(),
     mainsCurrentA: z.number().optional(),
   })
-  .meta({ id: 'EstimateRailSupply', description: 'Drivers for one rail voltage (one rail per voltage).', example: alderRowTownhouseResponse.drivers[0] });
+  .meta({ id: 'EstimateRailSupply', description: 'Drivers for one rail voltage, one per circuit (drivers[].loadW and loadingPercent: the busiest circuit of that rating).', example: alderRowTownhouseResponse.drivers[0] });
 
 export const estimateFeederRunSchema = z
   .object({
@@ -487,12 +523,66 @@ export const estimateFeederRunSchema = z
     dropPercent: z.number(),
     currentRatingA: z.number().nullable(),
     maxInputCurrentA: z.number().nullable().meta({ description: 'The controller’s maximum input current, when it feeds a controller.' }),
+    circuit: z.int().meta({ description: 'Added field: the circuit (and so the one driver) this feeder belongs to; see `circuits`.' }),
+    feedPoint: z.int().nullable().meta({ description: 'Added field: feed point along the pixel run (1 = its start); null for a controller.' }),
+    positionM: z.number().meta({ description: 'Added field: where the controller or feed point is, m along the run.' }),
+    alongRunM: z.number().meta({ description: 'Added field: distance along the run from the driver to here, m; lengthM = feeder.lengthM + alongRunM.' }),
+    pathDropPercent: z
+      .number()
+      .meta({ description: 'Added field: end-to-end drop from the driver to the farthest strip behind this feeder (feeder + lead, or feeder + chain links), %.' }),
+    fuseA: z.number().nullable().meta({ description: 'Added field: fuse at the driver for this feeder, A (1.25 × I_B ≤ I_n ≤ I_z of the thinnest cable it protects); null when none fits.' }),
+    protectedBy: z
+      .enum(['driver current limit', 'fuse', 'none'])
+      .meta({ description: 'Added field: what keeps the thinnest cable of this feeder within its rating: the driver’s own current limit, the fuse, or nothing (a failed check).' }),
   })
-  .meta({ id: 'EstimateFeederRun', description: 'A feeder from a driver.', example: alderRowTownhouseResponse.feeder.runs[0] });
+  .meta({ id: 'EstimateFeederRun', description: 'A feeder from a circuit’s driver to one controller or pixel feed point.', example: alderRowTownhouseResponse.feeder.runs[0] });
+
+export const estimateCircuitSchema = z
+  .object({
+    circuit: z.int().meta({ description: 'Circuit number, from 1.' }),
+    name: z.string().meta({ description: 'What the circuit feeds, in words (e.g. “controller 1”, “feed points 1–4 of the rail”).' }),
+    voltageV: z.number(),
+    loads: z.array(z.enum(['tread strips', 'rail pixels', 'tread pixels'])).meta({ description: 'What the circuit feeds (one driver may feed a controller and rail feed points on the same voltage).' }),
+    loadW: z.number(),
+    currentA: z.number(),
+    driver: z
+      .object({
+        ratingW: z.number(),
+        loadingPercent: z.number(),
+        currentLimitA: z.number().meta({ description: 'The driver’s output current limit (drivers.currentLimitPercent of its rated current), A: every cable it can overload is sized or fused for it.' }),
+        sku: z.string().optional(),
+      })
+      .nullable()
+      .meta({ description: 'The one driver of this circuit; null when no available rating covers it (a failed check).' }),
+    driverPositionM: z.number().meta({ description: 'Where the driver sits, m along the run.' }),
+    feeds: z.int().meta({ description: 'Feeders from this driver (one per controller or feed point); see feeder.runs with this circuit number.' }),
+    worstPathDropPercent: z.number().meta({ description: 'Worst drop from this driver to a strip, end to end, %.' }),
+    fusesA: z.array(z.number().nullable()).meta({ description: 'Fuse per feeder at the driver, A, in feeder order.' }),
+    protectedBy: z.enum(['driver current limit', 'fuse', 'none']),
+  })
+  .meta({
+    id: 'EstimateCircuit',
+    description:
+      'One supply per circuit: a driver and what it alone feeds. Drivers are never paralleled; Class 2 circuits are never interconnected (not even by a shared 0 V along one data chain).',
+    example: {
+      circuit: 1,
+      name: 'controller 1',
+      voltageV: 24,
+      loads: ['tread strips'],
+      loadW: 119,
+      currentA: 4.9583,
+      driver: { ratingW: 150, loadingPercent: 79.3333, currentLimitA: 9.375 },
+      driverPositionM: 2.177,
+      feeds: 1,
+      worstPathDropPercent: 4.9,
+      fusesA: [8],
+      protectedBy: 'driver current limit',
+    },
+  });
 
 export const estimateFeederSchema = z
   .object({
-    lengthM: z.number().meta({ description: 'Length used for every feeder, m.' }),
+    lengthM: z.number().meta({ description: 'The part of every feeder off the run (cable.feederLengthM), m; each run adds its distance along the run.' }),
     lengthDefaulted: z.boolean(),
     runs: z.array(estimateFeederRunSchema),
   })
@@ -597,7 +687,7 @@ export const estimateSensorsResultSchema = z
 export const bomLineSchema = z
   .object({
     sku: z.string().optional(),
-    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
+    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'fuse', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
     description: z.string(),
     quantity: z.int(),
     unit: z.enum(['reel', 'pcs', 'm', 'pair']),
@@ -651,6 +741,7 @@ export const estimateResponseSchema = z
     treads: z.array(estimateTreadSchema).meta({ description: 'Wiring schedule, foot first; empty for a corridor.' }),
     outputs: estimateOutputsSchema,
     drivers: z.array(estimateRailSupplySchema),
+    circuits: z.array(estimateCircuitSchema).meta({ description: 'Added field: one supply per circuit — each circuit’s driver, load, feeders and protection.' }),
     feeder: estimateFeederSchema,
     pixels: estimatePixelsSchema,
     reels: estimateReelsResultSchema,
@@ -676,6 +767,7 @@ export type EstimateCheck = z.output<typeof estimateCheckSchema>;
 export type EstimateOutputs = z.output<typeof estimateOutputsSchema>;
 export type EstimateRailSupply = z.output<typeof estimateRailSupplySchema>;
 export type EstimateFeederRun = z.output<typeof estimateFeederRunSchema>;
+export type EstimateCircuit = z.output<typeof estimateCircuitSchema>;
 export type EstimatePixelRun = z.output<typeof estimatePixelRunSchema>;
 export type EstimateCableLine = z.output<typeof estimateCableLineSchema>;
 export type EstimateSensorsResult = z.output<typeof estimateSensorsResultSchema>;

@@ -9,6 +9,8 @@ export const DEFAULT_DRIVER_RATINGS_W: readonly number[] = [30, 60, 100, 150, 20
 export const DEFAULT_MAX_LOADING_PERCENT = 80;
 export const DEFAULT_MAINS_VOLTAGE_V = 230;
 export const DEFAULT_POWER_FACTOR = 0.9;
+/** A CV driver's overload limit, % of rated current: datasheets commonly give 105–150 % (from memory); the upper figure is the safe one for cables. */
+export const DEFAULT_CURRENT_LIMIT_PERCENT = 150;
 
 const LOADING_REFERENCE =
   'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load';

@@ -165,6 +165,15 @@ function drafts(input: BomInput): LineDraft[] {
     }
   }
 
+  // One fuse per feeder at its driver, grouped by rating (circuits and protection).
+  const fuses = new Map<number, number>();
+  for (const f of input.supplies.feeders) {
+    if (f.target.currentA > 0 && f.protection.fuseA !== null) fuses.set(f.protection.fuseA, (fuses.get(f.protection.fuseA) ?? 0) + 1);
+  }
+  for (const [ratingA, count] of [...fuses.entries()].sort((a, b) => a[0] - b[0])) {
+    out.push({ category: 'fuse', description: `Inline fuse holder with ${ratingA} A fuse, at the driver output of a feeder`, quantity: count, unit: 'pcs' });
+  }
+
   const controllerItem = input.settings.controllerSku && catalog ? catalog.controllers.find((c) => c.sku === input.settings.controllerSku) : undefined;
   out.push({
     category: 'controller',

@@ -4,6 +4,7 @@ import { conductorTable, describeSize, sizeOfRow } from '../conductors.js';
 import { PRACTICE_MAX_RUN_M } from '../geometry.js';
 import { DROP_LIMIT_REFERENCE, LOOP_REFERENCE } from '../voltage-drop.js';
 import { describeUse, type CableUse } from './cable-schedule.js';
+import type { Feeder } from './circuits.js';
 import { flagged, fmt, passed, treadsText, type Design } from './checks.js';
 import { nextSizeLabel, sizeLabel } from './run-cable.js';
 import { runLengthAdvice } from './stair.js';
@@ -51,46 +52,81 @@ function capitalise(text: string): string {
   return text.charAt(0).toUpperCase() + text.slice(1);
 }
 
+/** Where each circuit's driver would make its longest feeder shortest: midway between its farthest feeds. */
+function spreadPositionsM(d: Design): number[] {
+  return d.supplies.circuits.map((c) => {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const t of c.targets) {
+      lo = Math.min(lo, t.positionM);
+      hi = Math.max(hi, t.positionM);
+    }
+    return Math.round(((lo + hi) / 2) * 100) / 100;
+  });
+}
+
+function feederText(f: Feeder): string {
+  return f.target.to === 'controller' ? `controller ${f.target.controller}` : `pixel feed point ${f.target.feedPoint}`;
+}
+
+/**
+ * The drop limit applies end to end: driver → feeder → lead (or chain links) → strip. Every
+ * path is checked by its value, whatever else its cables fail, so a run that also fails on
+ * current is never reported as within the limit.
+ */
 export function cableDropCheck(d: Design): EstimateCheck {
   const { cable } = d.settings;
   const limit = cable.maxDropPercent;
-  const powered = d.cableUses.filter((u) => u.powered);
-  const worst = worstBy(powered, (u) => u.run.dropPercent);
-  const reference = `${LOOP_REFERENCE}; limit: ${DROP_LIMIT_REFERENCE}`;
-  if (!worst) return passed('cable-drop', 'No cable carries power.', 0, limit, '%', reference);
-  const value = Math.round(worst.run.dropPercent * 1000) / 1000;
-  const failing = powered.filter((u) => u.run.failure === 'drop');
-  if (failing.length === 0) {
-    const feeder = worstBy(
-      powered.filter((u) => u.use === 'feeders'),
-      (u) => u.run.dropPercent,
-    );
-    const lead = worstBy(
-      powered.filter((u) => u.use !== 'feeders'),
-      (u) => u.run.dropPercent,
-    );
-    const total =
-      feeder && lead && feeder.feederTo === 'controller' && lead.use === 'tread leads'
-        ? ` Feeder and lead in series: ${fmt(feeder.run.dropPercent + lead.run.dropPercent)} % at the farthest strip.`
-        : '';
+  const reference = `${LOOP_REFERENCE}; series drop driver → feeder → lead → strip; limit: ${DROP_LIMIT_REFERENCE}`;
+  let worst: Feeder | null = null;
+  for (const f of d.supplies.feeders) if (f.target.currentA > 0 && (!worst || f.pathDropPercent > worst.pathDropPercent)) worst = f;
+  // Powered runs outside any feeder's path (none today) still count on their own.
+  const loose = worstBy(
+    d.cableUses.filter((u) => u.powered && u.use !== 'feeders'),
+    (u) => u.run.dropPercent,
+  );
+  if (!worst && !loose) return passed('cable-drop', 'No cable carries power.', 0, limit, '%', reference);
+  const pathValue = worst ? worst.pathDropPercent : 0;
+  const value = Math.round(Math.max(pathValue, loose ? loose.run.dropPercent : 0) * 1000) / 1000;
+  if (!worst || (loose && loose.run.dropPercent > pathValue)) {
+    const u = loose as CableUse;
+    const ok = u.run.dropPercent <= limit * (1 + 1e-9);
+    const text = `Worst drop ${fmt(u.run.dropPercent, 3)} % on ${describeUse(u)} (${sizeLabel(u.run)})`;
+    return ok
+      ? passed('cable-drop', `${text}, within ${limit} %.`, value, limit, '%', reference)
+      : flagged('cable-drop', 'fail', `${text}, over ${limit} %.`, value, limit, '%', reference, 'Feed the far treads from a second controller nearer to them, or use a higher-voltage strip.');
+  }
+  const behind = worst.pathDropPercent - worst.run.dropPercent;
+  const parts = `feeder ${fmt(worst.run.dropPercent, 3)} % (${sizeLabel(worst.run)}, ${fmt(worst.run.lengthM)} m)${worst.worstBehind ? ` + ${fmt(behind, 3)} % on ${worst.worstBehind}` : ''}`;
+  const split = cable.feederDropPercent !== undefined ? ` (feeders given ${cable.feederDropPercent} % of it)` : '';
+  if (worst.pathDropPercent <= limit * (1 + 1e-9)) {
     return passed(
       'cable-drop',
-      `Worst drop ${fmt(worst.run.dropPercent, 3)} % on ${describeUse(worst)} (${sizeLabel(worst.run)}), within ${limit} %.${total}`,
+      `Worst drop from a driver to a strip ${fmt(worst.pathDropPercent, 3)} % (circuit ${worst.circuit}, to ${feederText(worst)}: ${parts}), within the ${limit} % end-to-end limit${split}.`,
       value,
       limit,
       '%',
       reference,
     );
   }
-  const first = worstBy(failing, (u) => u.run.dropPercent) as CableUse;
   let suggestion: string;
-  if (first.use === 'feeders') {
-    // The largest size's drop grows with length: the length at which it would just pass.
-    const maxLengthM = (first.run.lengthM * limit) / first.run.dropPercent;
-    suggestion = `Shorten the feeder to ${fmt(Math.floor(maxLengthM * 10) / 10, 1)} m or less (mount the driver beside the controller), or split the load over more feeders, or use a higher-voltage supply.`;
+  if (worst.run.dropPercent >= behind) {
+    const spread = spreadPositionsM(d);
+    const moved = d.supplies.circuits.some((c, i) => Math.abs(c.driverPositionM - (spread[i] as number)) > 0.05);
+    if (worst.alongM > 0.05 && moved) {
+      suggestion = `The drivers must be spread along the run: put each circuit's driver midway along what it feeds (drivers.positionsM: [${spread.join(', ')}]), or split the load into more circuits, or use a higher-voltage supply.`;
+    } else if (worst.alongM > 0.05) {
+      suggestion = `Split the load into more circuits with their drivers spread along the run (drivers.positionsM), so each feeder is shorter, or use a higher-voltage supply.`;
+    } else {
+      const maxLengthM = (worst.run.lengthM * Math.max(0, limit - behind)) / worst.run.dropPercent;
+      suggestion = `Shorten the feeder to ${fmt(Math.floor(maxLengthM * 10) / 10, 1)} m or less (mount the driver beside the ${worst.target.to === 'controller' ? 'controller' : 'feed point'}), or split the load over more feeders, or use a higher-voltage supply.`;
+    }
   } else {
-    // The longest run whose drop would pass with the table's largest size, at this current.
-    const passingLengthM = (first.run.lengthM * limit) / first.run.dropPercent;
+    const leadUse = worstBy(
+      d.cableUses.filter((u) => u.use === 'tread leads' || u.use === 'chain links'),
+      (u) => u.run.dropPercent,
+    );
+    const passingLengthM = leadUse && leadUse.run.dropPercent > 0 ? (leadUse.run.lengthM * Math.max(0, limit - worst.run.dropPercent)) / leadUse.run.dropPercent : PRACTICE_MAX_RUN_M;
     suggestion =
       controllerAdvice(d, passingLengthM) ??
       `Feed the far treads from a second controller nearer to them, or use a higher-voltage strip (the same power at twice the voltage drops a quarter as much).`;
@@ -98,7 +134,7 @@ export function cableDropCheck(d: Design): EstimateCheck {
   return flagged(
     'cable-drop',
     'fail',
-    `No size of ${cable.conductorTable} keeps ${describeUse(first)} (${fmt(first.run.currentA, 3)} A over ${fmt(first.run.lengthM)} m) within ${limit} %: even ${describeLargest(d)} drops ${fmt(first.run.dropPercent)} %.`,
+    `The drop from the driver of circuit ${worst.circuit} to the farthest strip behind ${feederText(worst)} is ${fmt(worst.pathDropPercent, 3)} % (${parts}), over the ${limit} % end-to-end limit${split}; no size of ${cable.conductorTable} up to ${describeLargest(d)} brings it within.`,
     value,
     limit,
     '%',

@@ -15,7 +15,7 @@ import { planSensors } from './sensor-layout.js';
 import { endClearanceDefault, pixelDefaults, resolveSettings, type Settings } from './settings.js';
 import type { TreadBlock } from './stair.js';
 import { planReels } from './strip-reels.js';
-import { loadsOf, sizeSupplies } from './supply.js';
+import { applyResizedLeads, loadsOf, sizeSupplies } from './supply.js';
 import { sizeTreadPixels, type TreadPixelPart } from './tread-pixels.js';
 import { sizeTreadStrips, type TreadStripPart } from './tread-strips.js';
 
@@ -75,7 +75,8 @@ export function estimate(input: EstimateInput): EstimateResult {
     reference: 'controller profile',
   });
 
-  const supplies = sizeSupplies(loadsOf(treadStrips, rail, treadPixels, settings), settings, catalog, trace);
+  const supplies = sizeSupplies(loadsOf(treadStrips, rail, treadPixels, settings, stair), settings, catalog, trace);
+  applyResizedLeads(treadStrips, supplies.feeders, settings);
   const sensors = planSensors(input, settings, catalog, controllers, trace);
 
   const { treadReels, railReels, strips } = planReels(treadStrips, treadPixels, rail, settings, catalog, trace);
@@ -137,6 +138,7 @@ export function estimate(input: EstimateInput): EstimateResult {
     treads: treadStrips?.rows ?? treadPixels?.rows ?? [],
     outputs: outputsOf(settings, controllers, treadStrips, treadPixels, rail),
     drivers: supplies.rails.map((r) => r.response),
+    circuits: supplies.circuits.map((c) => c.response),
     feeder: {
       lengthM: settings.cable.feederLengthM,
       lengthDefaulted: settings.cable.feederLengthDefaulted,

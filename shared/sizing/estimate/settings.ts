@@ -2,7 +2,7 @@ import { DEFAULT_FEEDER_LENGTH_M, type EstimateInput } from '../../schemas/estim
 import type { ControllerProfile } from '../../schemas/controller.js';
 import { DEFAULT_MIN_CROSS_SECTION_MM2, type CableOptions } from '../cable.js';
 import { DEFAULT_METRIC_TABLE } from '../conductors.js';
-import { DEFAULT_DRIVER_RATINGS_W, DEFAULT_MAINS_VOLTAGE_V, DEFAULT_MAX_LOADING_PERCENT, DEFAULT_POWER_FACTOR } from '../drivers.js';
+import { DEFAULT_CURRENT_LIMIT_PERCENT, DEFAULT_DRIVER_RATINGS_W, DEFAULT_MAINS_VOLTAGE_V, DEFAULT_MAX_LOADING_PERCENT, DEFAULT_POWER_FACTOR } from '../drivers.js';
 import { SizingInputError } from '../errors.js';
 import { DEFAULT_SERVICE_ALLOWANCE_M, type ControllerPosition } from '../geometry.js';
 import { DEFAULT_DAYLIGHT_CUTOFF_LUX } from '../sensors.js';
@@ -23,6 +23,8 @@ export interface CableSettings extends CableOptions {
   serviceAllowanceGiven: number | undefined;
   feederLengthM: number;
   feederLengthDefaulted: boolean;
+  /** Share of the drop limit given to feeders; undefined: feeder and leads sized together. */
+  feederDropPercent: number | undefined;
 }
 
 export interface DriverSettings {
@@ -32,6 +34,9 @@ export interface DriverSettings {
   efficiencyPercent: number | undefined;
   mainsVoltageV: number | undefined;
   powerFactor: number | undefined;
+  /** Where drivers may sit, m along the run; undefined: the best single place. */
+  positionsM: readonly number[] | undefined;
+  currentLimitPercent: number;
 }
 
 export interface Settings {
@@ -69,6 +74,13 @@ const DEFAULTS = {
   availableRatingsW: defaultEntry('drivers.availableRatingsW', DEFAULT_DRIVER_RATINGS_W.join(', '), 'W', 'a common driver series (common practice, no published source)'),
   mainsVoltageV: defaultEntry('drivers.mainsVoltageV', DEFAULT_MAINS_VOLTAGE_V, 'V', 'IEC 60038 nominal 230 V'),
   powerFactor: defaultEntry('drivers.powerFactor', DEFAULT_POWER_FACTOR, '', 'assumed, no published source — use the driver datasheet'),
+  currentLimitPercent: defaultEntry(
+    'drivers.currentLimitPercent',
+    DEFAULT_CURRENT_LIMIT_PERCENT,
+    '%',
+    'constant-voltage LED driver overload protection commonly 105–150 % of rated output; the upper figure taken (from memory)',
+  ),
+  driverPositions: defaultEntry('drivers.positionsM', 'one place, midway between the farthest feeds', '', 'where the longest feeder is shortest (common practice, no published source)'),
   reelLengthMm: defaultEntry('reels.reelLengthMm', 5000, 'mm', 'a common reel length (common practice, no published source)'),
   daylightCutoffLux: defaultEntry(
     'sensors.daylightCutoffLux',
@@ -145,6 +157,8 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
   if (d.maxLoadingPercent === undefined) used.push(DEFAULTS.maxLoadingPercent);
   if (d.efficiencyPercent !== undefined && d.mainsVoltageV === undefined) used.push(DEFAULTS.mainsVoltageV);
   if (d.efficiencyPercent !== undefined && d.powerFactor === undefined) used.push(DEFAULTS.powerFactor);
+  if (d.currentLimitPercent === undefined) used.push(DEFAULTS.currentLimitPercent);
+  if (d.positionsM === undefined) used.push(DEFAULTS.driverPositions);
 
   const s = input.sensors ?? {};
   const daylightCutoff = s.useDaylightCutoff ?? true;
@@ -167,6 +181,7 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       serviceAllowanceGiven: c.serviceAllowanceM,
       feederLengthM: c.feederLengthM ?? DEFAULT_FEEDER_LENGTH_M,
       feederLengthDefaulted: c.feederLengthM === undefined,
+      feederDropPercent: c.feederDropPercent,
     },
     drivers: {
       maxLoadingPercent: d.maxLoadingPercent ?? DEFAULT_MAX_LOADING_PERCENT,
@@ -175,6 +190,8 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       efficiencyPercent: d.efficiencyPercent,
       mainsVoltageV: d.mainsVoltageV,
       powerFactor: d.powerFactor,
+      positionsM: d.positionsM,
+      currentLimitPercent: d.currentLimitPercent ?? DEFAULT_CURRENT_LIMIT_PERCENT,
     },
     reelLengthMm: input.reels?.reelLengthMm,
     daylightCutoff,
