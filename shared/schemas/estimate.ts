@@ -165,7 +165,10 @@ export const estimateCableSchema = z
       .max(10)
       .optional()
       .meta({ description: 'Added to every run for the drop to the strip’s feed end, m. Default 0.5.', default: 0.5 }),
-    temperatureC: temperatureSchema.optional(),
+    temperatureC: temperatureSchema.optional().meta({
+      description:
+        'Conductor temperature, °C, for R′ = R_ref · (1 + α · (T − T_ref)) (IEC 60028). Default: none — estimates take the IEC 60364-5-52 Annex G resistivity in service, R′ = 1.25 × R′20 (from memory), and say so in the trace.',
+    }),
     feederLengthM: z
       .number()
       .min(0.1)

@@ -16,6 +16,8 @@ const traced = (result: EstimateResult, quantity: string) => result.trace.find((
 
 // Pythagoras: √(185² + 250²) = √96 725 = 311.0064 mm per step along the stringer
 const STEP_M = Math.sqrt(185 ** 2 + 250 ** 2) / 1000;
+// IEC 60364-5-52 Annex G: resistivity in service 1.25 × ρ20 (from memory) — the estimate's default without a temperatureC
+const AG = 1.25;
 
 describe('Alder Row townhouse: 14 treads of 900 mm, HL-S24-10 strip, HL-K20 controller', () => {
   const result = run(alderRowTownhouse);
@@ -77,10 +79,12 @@ describe('Alder Row townhouse: 14 treads of 900 mm, HL-S24-10 strip, HL-K20 cont
     // common practice, no published source: 0.5 mm² minimum; it carries 0.354 A (BS 7671 4F3A, from memory: 3 A)
     expect(far?.crossSectionMm2).toBe(0.5);
     // IEC 60364-5-52 Annex G: Vd = 2 · L · I · R′, IEC 60228 class 5 0.5 mm²: 39.0 Ω/km
-    const dropV = 2 * (7 * STEP_M + 0.5) * (8.5 / 24) * 0.039;
-    // hand arithmetic: 2 × 2.6770 × 0.35417 × 0.039 = 0.07395 V = 0.3081 % of 24 V
+    const dropV = 2 * (7 * STEP_M + 0.5) * (8.5 / 24) * 0.039 * AG;
+    // hand arithmetic: 2 × 2.6770 × 0.35417 × 0.039 × 1.25 (Annex G in service) = 0.09244 V = 0.3852 % of 24 V
     expect(far?.dropPercent).toBeCloseTo((dropV / 24) * 100, 3);
-    expect(far?.dropPercent).toBeCloseTo(0.308, 3);
+    expect(far?.dropPercent).toBeCloseTo(0.385, 3);
+    // end to end (IEC 60364-7-715 / BS 7671 715.525, from memory): the feeder's drop plus this lead's
+    expect(far?.pathDropPercent).toBeCloseTo(result.feeder.runs[0]!.dropPercent + far!.dropPercent, 2);
   });
 
   it('sizes the feeder for the whole 4.96 A and for the driver’s current limit', () => {
@@ -90,10 +94,11 @@ describe('Alder Row townhouse: 14 treads of 900 mm, HL-S24-10 strip, HL-K20 cont
     // I_n ≤ I_z, from memory), so the cable must carry the 150 W driver's limit: 6.25 A × 150 % = 9.375 A → 1.0 mm² (10 A)
     expect(feeder?.crossSectionMm2).toBe(1);
     expect(feeder?.protectedBy).toBe('driver current limit');
-    // IEC 60364-5-52 Annex G with IEC 60228 class 5 1.0 mm² 19.5 Ω/km over the 2 m default: 2 × 2 × 4.9583 × 0.0195 = 0.3868 V
-    expect(feeder?.dropV).toBeCloseTo(0.3868, 4);
-    // hand arithmetic: 0.3868 / 24 = 1.611 %
-    expect(feeder?.dropPercent).toBeCloseTo(1.611, 3);
+    // IEC 60364-5-52 Annex G with IEC 60228 class 5 1.0 mm² 19.5 Ω/km × 1.25 in service over the 2 m default:
+    // 2 × 2 × 4.9583 × 0.0195 × 1.25 = 0.4834 V
+    expect(feeder?.dropV).toBeCloseTo(0.4834, 4);
+    // hand arithmetic: 0.4834 / 24 = 2.014 %
+    expect(feeder?.dropPercent).toBeCloseTo(2.014, 3);
     expect(result.feeder.lengthDefaulted).toBe(true);
     // the profile gives no maximum input current: the check asks to confirm it (controller profile)
     expect(check(result, 'controller-input-current')?.status).toBe('warn');
@@ -247,13 +252,20 @@ describe('Quayside Studio: 18 m corridor handrail, 60 pixels/m at 5 V, HL-K36', 
     // one circuit (162 W on one 240 W driver) placed midway between the farthest feeds: (0 + 15.75) / 2 = 7.875 m
     expect(result.circuits).toHaveLength(1);
     expect(result.circuits[0]?.driverPositionM).toBe(7.875);
-    // feeder 1: 2 m off the run + 7.875 m along it = 9.875 m; IEC 60364-5-52 Annex G with IEC 60228 class 5
-    // 10 mm² (1.91 Ω/km, from memory): 2 × 9.875 × 4.05 × 0.00191 = 0.1528 V = 3.056 % of 5 V; 6 mm² (3.30) would drop 5.28 %
+    // feeder 1: 2 m off the run + 7.875 m along it = 9.875 m; IEC 60364-5-52 Annex G (× 1.25 in service) with IEC 60228
+    // class 5 10 mm² (1.91 Ω/km, from memory): 2 × 9.875 × 4.05 × 0.00191 × 1.25 = 0.1910 V = 3.819 % of 5 V; 6 mm² (3.30) would drop 6.6 %
     expect(runs[0]).toMatchObject({ lengthM: 9.875, crossSectionMm2: 10 });
-    expect(runs[0]?.dropPercent).toBeCloseTo(((2 * 9.875 * 4.05 * 0.00191) / 5) * 100, 3);
-    // feeder 4: 2 + 1.125 m = 3.125 m → 2.5 mm² (7.98 Ω/km): 2 × 3.125 × 4.05 × 0.00798 / 5 = 4.04 %
-    expect(runs[3]).toMatchObject({ lengthM: 3.125, crossSectionMm2: 2.5 });
-    expect(runs[3]?.dropPercent).toBeCloseTo(((2 * 3.125 * 4.05 * 0.00798) / 5) * 100, 3);
+    expect(runs[0]?.dropPercent).toBeCloseTo(((2 * 9.875 * 4.05 * 0.00191 * AG) / 5) * 100, 3);
+    // feeder 4: 2 + 1.125 m = 3.125 m → 2.5 mm² would drop 5.05 %, so 4 mm² (4.95 Ω/km): 2 × 3.125 × 4.05 × 0.00495 × 1.25 / 5 = 3.13 %
+    expect(runs[3]).toMatchObject({ lengthM: 3.125, crossSectionMm2: 4 });
+    expect(runs[3]?.dropPercent).toBeCloseTo(((2 * 3.125 * 4.05 * 0.00495 * AG) / 5) * 100, 3);
+  });
+
+  it('states the Annex G service resistivity in the trace', () => {
+    // IEC 60364-5-52 Annex G: ρ in service = 1.25 × ρ20 (from memory), applied by default in estimates
+    const entry = traced(result, 'default cable.temperatureC');
+    expect(entry?.value).toMatch(/1\.25 × R′ at 20 °C/);
+    expect(entry?.reference).toMatch(/Annex G/);
   });
 
   it('a driver at one end of the 18 m corridor: the farthest feeder is 17.75 m, and a tighter limit asks to spread the drivers', () => {
@@ -262,12 +274,12 @@ describe('Quayside Studio: 18 m corridor handrail, 60 pixels/m at 5 V, HL-K36', 
     // issue 8 item 3: 2 m + 15.75 m = 17.75 m; on 1.5 mm² (13.3 Ω/km, IEC 60228 class 5) that would drop 2 × 17.75 × 4.05 × 0.0133 / 5 = 38.2 %
     expect(far?.lengthM).toBe(17.75);
     expect(((2 * 17.75 * 4.05 * 0.0133) / 5) * 100).toBeCloseTo(38.24, 2);
-    // only 16 mm² (1.21 Ω/km, IEC 60228, from memory) keeps it within 5 %: 2 × 17.75 × 4.05 × 0.00121 / 5 = 3.48 %
+    // only 16 mm² (1.21 Ω/km, IEC 60228, from memory) keeps it within 5 %: 2 × 17.75 × 4.05 × 0.00121 × 1.25 / 5 = 4.35 %
     expect(far?.crossSectionMm2).toBe(16);
-    const tight = run({ ...quaysideCorridor, drivers: { positionsM: [0] }, cable: { maxDropPercent: 3 } });
-    // 3.48 % > 3 % with the largest size: the check fails and says the drivers must be spread along the run
-    expect(check(tight, 'cable-drop')).toMatchObject({ status: 'fail', limit: 3 });
-    expect(check(tight, 'cable-drop')?.value).toBeCloseTo(((2 * 17.75 * 4.05 * 0.00121) / 5) * 100, 3);
+    const tight = run({ ...quaysideCorridor, drivers: { positionsM: [0] }, cable: { maxDropPercent: 4 } });
+    // 4.35 % > 4 % with the largest size: the check fails and says the drivers must be spread along the run
+    expect(check(tight, 'cable-drop')).toMatchObject({ status: 'fail', limit: 4 });
+    expect(check(tight, 'cable-drop')?.value).toBeCloseTo(((2 * 17.75 * 4.05 * 0.00121 * AG) / 5) * 100, 3);
     expect(check(tight, 'cable-drop')?.suggestion).toMatch(/drivers must be spread along the run.*positionsM: \[7\.88\]/);
   });
 
@@ -332,11 +344,11 @@ describe('Alder Row with a pixel segment on every tread', () => {
   it('drops along the chain links by the two-wire loop formula', () => {
     // the link into tread 2 carries treads 2–5: 4 × 17 × 12 mA = 0.816 A over one step + 0.5 m
     const linkM = STEP_M + 0.5;
-    // IEC 60364-5-52 Annex G with IEC 60228 class 5 0.5 mm² 39.0 Ω/km: 2 × 0.811 × 0.816 × 0.039 = 0.05162 V
-    const firstV = 2 * linkM * 0.816 * 0.039;
+    // IEC 60364-5-52 Annex G (× 1.25 in service) with IEC 60228 class 5 0.5 mm² 39.0 Ω/km: 2 × 0.811 × 0.816 × 0.039 × 1.25 = 0.06453 V
+    const firstV = 2 * linkM * 0.816 * 0.039 * AG;
     expect(result.treads[1]?.dropPercent).toBeCloseTo((firstV / 24) * 100, 3);
     // the next link carries 3 treads: the drop adds up along the chain
-    const secondV = firstV + 2 * linkM * 0.612 * 0.039;
+    const secondV = firstV + 2 * linkM * 0.612 * 0.039 * AG;
     expect(result.treads[2]?.dropPercent).toBeCloseTo((secondV / 24) * 100, 3);
     expect(result.treads[1]?.cableLengthM).toBeCloseTo(linkM, 3);
   });
@@ -350,7 +362,8 @@ describe('conductor tables', () => {
       expect(t.awg).toBe(20);
       expect(t.crossSectionMm2).toBeUndefined();
     }
-    const nec = run({ ...alderRowTownhouse, cable: { conductorTable: 'nec-ch9-t8-stranded' } });
+    // at the table's own 75 °C (a given temperature replaces the Annex G service resistivity)
+    const nec = run({ ...alderRowTownhouse, cable: { conductorTable: 'nec-ch9-t8-stranded', temperatureC: 75 } });
     // NEC Chapter 9 Table 8: 18 AWG is the smallest size listed; 7.95 Ω/kft stranded at 75 °C = 26.08 Ω/km
     expect(nec.treads[13]?.awg).toBe(18);
     const dropV = 2 * (7 * STEP_M + 0.5) * (8.5 / 24) * (7.95 / 304.8);
@@ -386,13 +399,13 @@ describe('designs that break a limit still get a full answer', () => {
 
   it('a feeder too long for any size fails cable-drop and says how short it must be', () => {
     const result = run({ ...alderRowTownhouse, cable: { maxDropPercent: 0.1, feederLengthM: 100 } });
-    // IEC 60364-5-52 Annex G, IEC 60228 class 5 16 mm² 1.21 Ω/km: 2 × 100 × 4.9583 × 0.00121 = 1.2 V = 5 % > 0.1 %
+    // IEC 60364-5-52 Annex G, IEC 60228 class 5 16 mm² 1.21 Ω/km × 1.25: 2 × 100 × 4.9583 × 0.00121 × 1.25 = 1.5 V = 6.25 % > 0.1 %
     expect(check(result, 'cable-drop')).toMatchObject({ status: 'fail', limit: 0.1 });
     expect(result.feeder.runs[0]?.crossSectionMm2).toBeNull();
-    // The limit is end to end now (IEC 60364-7-715 / BS 7671 715.525, from memory): the lead behind takes
-    // 0.093 % of the 0.1 %, leaving 0.007 % for the feeder → L = 100 m × 0.007 / 5 = 0.14 m → 0.1 m
-    expect(check(result, 'cable-drop')?.message).toMatch(/\+ 0\.093 % on the lead to tread/);
-    expect(check(result, 'cable-drop')?.suggestion).toMatch(/Shorten the feeder to 0\.1 m or less/);
+    // The limit is end to end now (IEC 60364-7-715 / BS 7671 715.525, from memory) and R′ is 1.25 × R′20 (Annex G):
+    // the feeder drops 6.25 %, the lead behind takes 0.086 % of the 0.1 %, leaving 0.014 % → L = 100 m × 0.014 / 6.25 = 0.22 m → 0.2 m
+    expect(check(result, 'cable-drop')?.message).toMatch(/feeder 6\.25 % .*\+ 0\.086 % on the lead to tread/);
+    expect(check(result, 'cable-drop')?.suggestion).toMatch(/Shorten the feeder to 0\.2 m or less/);
   });
 
   it('Class 2: 119 W on one controller input is not covered by 100 W + 60 W in parallel', () => {

@@ -25,6 +25,9 @@ export interface CableSettings extends CableOptions {
   feederLengthDefaulted: boolean;
   /** Share of the drop limit given to feeders; undefined: feeder and leads sized together. */
   feederDropPercent: number | undefined;
+  /** 'annex-g-service': R′ = 1.25 × R′20 (the default); 'temperature': R′ at temperatureC. */
+  resistanceBasis: 'annex-g-service' | 'temperature';
+  resistanceFactor: number;
 }
 
 export interface DriverSettings {
@@ -94,9 +97,14 @@ const DEFAULTS = {
   brightnessPercent: defaultEntry('brightnessPercent', 100, '%', 'no brightness cap'),
 } as const;
 
-const TEMPERATURE_DEFAULTS = Object.fromEntries(
-  Object.values(CONDUCTOR_TABLES).map((t) => [t.id, defaultEntry('cable.temperatureC', t.referenceTemperatureC, '°C', `reference temperature of ${t.reference}`)]),
-) as Record<ConductorTableId, TraceEntry>;
+/** IEC 60364-5-52 Annex G takes the resistivity in service as 1.25 × ρ20 (from memory). */
+export const ANNEX_G_SERVICE_FACTOR = 1.25;
+const ANNEX_G_SERVICE = defaultEntry(
+  'cable.temperatureC',
+  'none: Annex G resistivity in service, R′ = 1.25 × R′ at 20 °C',
+  '',
+  'IEC 60364-5-52 Annex G: ρ in service = 1.25 × ρ20 (from memory), applied to the conductor table’s 20 °C resistance (Annex G prints ρ1 = 0.0225 Ω·mm²/m, 1.25 × 0.018); give temperatureC to use R′ at that temperature instead',
+);
 
 const FEED_LENGTH_DEFAULTS = {
   low: defaultEntry('maxFeedLengthM', 2.5, 'm', 'about 2.5 m for 5 V pixel strip (common practice, from memory)'),
@@ -148,7 +156,8 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
   if (c.conductorTable === undefined) used.push(DEFAULTS.conductorTable);
   if (c.maxDropPercent === undefined) used.push(DEFAULTS.maxDropPercent);
   if (c.minCrossSectionMm2 === undefined) used.push(DEFAULTS.minCrossSectionMm2);
-  if (c.temperatureC === undefined) used.push(TEMPERATURE_DEFAULTS[conductorTable]);
+  // Without a conductor temperature the estimate takes Annex G's resistivity in service, 1.25 × ρ20.
+  if (c.temperatureC === undefined) used.push(ANNEX_G_SERVICE);
   if (c.serviceAllowanceM === undefined && input.layout !== 'rail-pixels') used.push(DEFAULTS.serviceAllowanceM);
   if (c.feederLengthM === undefined) used.push(DEFAULTS.feederLengthM);
   if (input.controller.position === undefined && input.layout !== 'rail-pixels') used.push(DEFAULTS.position);
@@ -176,12 +185,14 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       system: table.system,
       maxDropPercent: c.maxDropPercent ?? DEFAULT_MAX_DROP_PERCENT,
       minCrossSectionMm2: c.minCrossSectionMm2 ?? DEFAULT_MIN_CROSS_SECTION_MM2,
-      temperatureC: c.temperatureC ?? table.referenceTemperatureC,
+      temperatureC: c.temperatureC ?? 20,
       serviceAllowanceM: c.serviceAllowanceM ?? DEFAULT_SERVICE_ALLOWANCE_M,
       serviceAllowanceGiven: c.serviceAllowanceM,
       feederLengthM: c.feederLengthM ?? DEFAULT_FEEDER_LENGTH_M,
       feederLengthDefaulted: c.feederLengthM === undefined,
       feederDropPercent: c.feederDropPercent,
+      resistanceBasis: c.temperatureC === undefined ? 'annex-g-service' : 'temperature',
+      resistanceFactor: c.temperatureC === undefined ? ANNEX_G_SERVICE_FACTOR : 1,
     },
     drivers: {
       maxLoadingPercent: d.maxLoadingPercent ?? DEFAULT_MAX_LOADING_PERCENT,
