@@ -129,6 +129,7 @@ export const alderRowTownhouseResponse = {
     totalLoadW: 119,
     driverCount: 1,
     longestRunM: 2.677,
+    longestFeederM: 2,
     worstDropPercent: 2.014,
     motionSensors: 2,
     reels: 3,
@@ -435,7 +436,7 @@ export const alderRowTownhouseResponse = {
       value: 2.399,
       limit: 5,
       unit: '%',
-      reference: 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1); series drop driver → feeder → lead → strip; limit: common practice, no published source: no standard gives a limit for LED strip runs (IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply)',
+      reference: 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1); series drop driver → feeder → lead → strip; limit: IEC 60364-7-715 / BS 7671 715.525: ≤ 5 % from the ELV converter (driver) to the farthest luminaire, end to end (from memory); IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply',
     },
     {
       id: 'cable-current',
@@ -449,7 +450,7 @@ export const alderRowTownhouseResponse = {
     {
       id: 'cable-run-length',
       status: 'pass',
-      message: 'Longest run 2.677 m (the lead to tread 14), within 10 m.',
+      message: 'Longest lead from a controller 2.677 m (the lead to tread 14), within 10 m.',
       value: 2.677,
       limit: 10,
       unit: 'm',

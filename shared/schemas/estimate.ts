@@ -178,6 +178,13 @@ export const estimateCableSchema = z
         description: `Added field: the part of each feeder that is not along the run — from the driver to the stringer or rail and the connections, m; each feeder adds its distance along the run from the driver (drivers.positionsM) to its controller or feed point. Default ${DEFAULT_FEEDER_LENGTH_M}.`,
         default: DEFAULT_FEEDER_LENGTH_M,
       }),
+    jurisdiction: z
+      .enum(['iec', 'uk', 'us'])
+      .optional()
+      .meta({
+        description:
+          'Added field: wiring rules to apply. iec / uk: the ELV lighting section’s minimum conductor, 1.5 mm² (1 mm² for flexible cable up to 3 m; IEC 60364-7-715 / BS 7671 715.524, from memory), unless minCrossSectionMm2 is given. us: NEC practice — Class 2 limits apply where drivers.class2 asks for them. Default: none (trade practice, 0.5 mm² minimum). The 5 % end-to-end drop default is the ELV lighting section’s (IEC 60364-7-715 / BS 7671 715.525, from memory) in every case.',
+      }),
     feederDropPercent: z
       .number()
       .min(0.1)
@@ -728,7 +735,10 @@ export const estimateSummarySchema = z
     controllers: z.int(),
     totalLoadW: z.number(),
     driverCount: z.int(),
-    longestRunM: z.number(),
+    longestRunM: z.number().meta({
+      description: 'Longest lead from a controller to a tread (tread leads and pixel chain leads, service allowance included), m — the run the 10 m practice limit and the cable-run-length check are about; 0 when the layout has none. Feeders: longestFeederM.',
+    }),
+    longestFeederM: z.number().optional().meta({ description: 'Added field: longest feeder from a driver to a controller or feed point, m.' }),
     worstDropPercent: z.number(),
     motionSensors: z.int(),
     reels: z.int(),

@@ -6,7 +6,8 @@ import { DROP_LIMIT_REFERENCE, LOOP_REFERENCE } from '../voltage-drop.js';
 import { describeUse, type CableUse } from './cable-schedule.js';
 import type { Feeder } from './circuits.js';
 import { flagged, fmt, passed, treadsText, type Design } from './checks.js';
-import { nextSizeLabel, sizeLabel } from './run-cable.js';
+import { minimumFor, nextSizeLabel, sizeLabel } from './run-cable.js';
+import { ELV_MIN_CROSS_SECTION_MM2, ELV_MINIMUM_REFERENCE } from './settings.js';
 import { runLengthAdvice } from './stair.js';
 
 const RUN_LENGTH_REFERENCE = 'common practice, no published source: controller-to-tread runs of 10 m or less';
@@ -180,25 +181,26 @@ export function cableCurrentCheck(d: Design): EstimateCheck {
   );
 }
 
+/** Runs from a controller to a tread: what summary.longestRunM and the 10 m practice limit are about. */
+export function isControllerLead(u: CableUse): boolean {
+  return u.use === 'tread leads' || u.use === 'chain leads';
+}
+
 export function cableRunLengthCheck(d: Design): EstimateCheck {
-  const runs = d.cableUses.filter((u) => u.use === 'tread leads' || u.use === 'chain leads' || u.use === 'feeders');
+  const runs = d.cableUses.filter(isControllerLead);
   const worst = worstBy(runs, (u) => u.run.lengthM);
-  if (!worst) return passed('cable-run-length', 'No cable runs.', 0, PRACTICE_MAX_RUN_M, 'm', RUN_LENGTH_REFERENCE);
+  if (!worst) return passed('cable-run-length', 'No lead runs from a controller to a tread (feeders are checked by cable-drop).', 0, PRACTICE_MAX_RUN_M, 'm', RUN_LENGTH_REFERENCE);
   const value = Math.round(worst.run.lengthM * 1000) / 1000;
   if (worst.run.lengthM <= PRACTICE_MAX_RUN_M) {
     return passed(
       'cable-run-length',
-      `Longest run ${fmt(worst.run.lengthM, 3)} m (${describeUse(worst)}), within ${PRACTICE_MAX_RUN_M} m.`,
+      `Longest lead from a controller ${fmt(worst.run.lengthM, 3)} m (${describeUse(worst)}), within ${PRACTICE_MAX_RUN_M} m.`,
       value,
       PRACTICE_MAX_RUN_M,
       'm',
       RUN_LENGTH_REFERENCE,
     );
   }
-  const suggestion =
-    worst.use === 'feeders'
-      ? `Mount the driver within ${PRACTICE_MAX_RUN_M} m of ${worst.feederTo === 'controller' ? 'the controller' : 'each feed point'} (set cable.feederLengthM accordingly).`
-      : (controllerAdvice(d, PRACTICE_MAX_RUN_M) ?? `Feed the far treads from a second controller nearer to them.`);
   return flagged(
     'cable-run-length',
     'warn',
@@ -207,39 +209,64 @@ export function cableRunLengthCheck(d: Design): EstimateCheck {
     PRACTICE_MAX_RUN_M,
     'm',
     RUN_LENGTH_REFERENCE,
-    suggestion,
+    controllerAdvice(d, PRACTICE_MAX_RUN_M) ?? `Feed the far treads from a second controller nearer to them.`,
   );
 }
 
-export function cableMinSizeCheck(d: Design): EstimateCheck {
+export function cableMinSizeCheck(d: Design): EstimateCheck | null {
+  const c = d.settings.cable;
+  if (d.cableUses.length === 0) return null;
+  const elv = c.jurisdiction === 'iec' || c.jurisdiction === 'uk';
+  const reference = elv ? ELV_MINIMUM_REFERENCE : MIN_SIZE_REFERENCE;
+  // The trade's 0.5 mm², or the jurisdiction's ELV minimum (1 mm² for short flexible runs).
+  const floorFor = (u: CableUse) => (elv ? minimumFor({ ...c, minCrossSectionMm2: ELV_MIN_CROSS_SECTION_MM2 }, u.run.lengthM) : DEFAULT_MIN_CROSS_SECTION_MM2);
   const sized = d.cableUses.filter((u) => u.run.size !== null);
+  if (sized.length === 0) {
+    // Nothing was chosen: there is no size to pass, so the check cannot pass either.
+    return flagged(
+      'cable-min-size',
+      'fail',
+      'No cable size could be chosen for any run (see cable-drop and cable-current), so the minimum size cannot be confirmed.',
+      null,
+      elv ? ELV_MIN_CROSS_SECTION_MM2 : DEFAULT_MIN_CROSS_SECTION_MM2,
+      'mm²',
+      reference,
+      'Fix the failing drop or current checks first (shorter runs, more circuits, a higher voltage); then every run gets a size to check.',
+    );
+  }
   let thinnest: CableUse | null = null;
-  for (const u of sized) if (!thinnest || u.run.areaMm2 < thinnest.run.areaMm2) thinnest = u;
-  const limit = DEFAULT_MIN_CROSS_SECTION_MM2;
-  if (!thinnest) return passed('cable-min-size', 'No cable size was chosen.', null, limit, 'mm²', MIN_SIZE_REFERENCE);
-  const area = thinnest.run.areaMm2;
+  let under: CableUse | null = null;
+  for (const u of sized) {
+    if (!thinnest || u.run.areaMm2 < thinnest.run.areaMm2) thinnest = u;
+    if (u.run.areaMm2 < floorFor(u) * (1 - 1e-9) && (!under || u.run.areaMm2 < under.run.areaMm2)) under = u;
+  }
+  const worst = (under ?? thinnest) as CableUse;
+  const limit = floorFor(worst);
+  const area = worst.run.areaMm2;
   const value = Math.round(area * 1000) / 1000;
-  if (area >= limit * (1 - 1e-9)) {
+  const unsized = d.cableUses.length - sized.length;
+  const unsizedText = unsized > 0 ? ` ${unsized} run${unsized > 1 ? 's have' : ' has'} no size yet (see the failing checks).` : '';
+  if (!under) {
     return passed(
       'cable-min-size',
-      `The thinnest cable chosen is ${sizeLabel(thinnest.run)}${d.settings.cable.system === 'awg' ? ` (${fmt(area, 3)} mm²)` : ''}, not below ${limit} mm².`,
+      `The thinnest cable chosen is ${sizeLabel(worst.run)}${c.system === 'awg' ? ` (${fmt(area, 3)} mm²)` : ''}, not below ${limit} mm²${elv ? ` (${c.jurisdiction?.toUpperCase()} ELV lighting minimum)` : ''}.${unsizedText}`,
       value,
       limit,
       'mm²',
-      MIN_SIZE_REFERENCE,
+      reference,
     );
   }
-  const table = conductorTable(d.settings.cable.conductorTable);
+  const table = conductorTable(c.conductorTable);
   const firstOk = table.rows.find((r) => r.areaMm2 >= limit * (1 - 1e-9));
-  const next = firstOk ? describeSize(sizeOfRow(table, firstOk)) : nextSizeLabel(d.settings.cable, area);
+  const next = firstOk ? describeSize(sizeOfRow(table, firstOk)) : nextSizeLabel(c, area);
   return flagged(
     'cable-min-size',
     'warn',
-    `${capitalise(describeUse(thinnest))} uses ${sizeLabel(thinnest.run)} (${fmt(area, 3)} mm²), thinner than the ${limit} mm² the trade uses for these runs.`,
+    `${capitalise(describeUse(worst))} uses ${sizeLabel(worst.run)} (${fmt(area, 3)} mm²), thinner than the ${limit} mm² ${elv ? `the ${c.jurisdiction?.toUpperCase()} ELV lighting rules ask` : 'the trade uses'} for this run.`,
     value,
     limit,
     'mm²',
-    MIN_SIZE_REFERENCE,
-    `Use ${next ?? 'a larger size'} or larger (set cable.minCrossSectionMm2 to ${limit}).`,
+    reference,
+    `Use ${next ?? 'a larger size'} or larger (set cable.minCrossSectionMm2 to ${limit}${elv ? ', or leave it out to apply the jurisdiction’s minimum' : ''}).`,
   );
 }

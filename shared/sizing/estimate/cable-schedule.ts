@@ -122,6 +122,8 @@ export function cableUsesOf(
     }
   }
   for (const f of feeders) {
+    // Nothing to feed (no strip fits): no feeder to lay.
+    if (f.target.currentA <= 0) continue;
     uses.push({
       use: 'feeders',
       cores: 2,

@@ -4,6 +4,7 @@ import type { StairGeometry } from '../geometry.js';
 import { round, type TraceEntry } from '../trace.js';
 import { ENGINE_VERSION } from '../version.js';
 import { buildBom } from './bom.js';
+import { isControllerLead } from './cable-checks.js';
 import { cableSchedule, cableUsesOf, describeUse, type CableUse } from './cable-schedule.js';
 import { indexCatalog } from './catalog.js';
 import { cautionsFor } from './cautions.js';
@@ -101,9 +102,12 @@ export function estimate(input: EstimateInput): EstimateResult {
     maxRailVoltageV = Math.max(maxRailVoltageV, r.voltageV);
   }
   let longestRunM = 0;
+  let longestFeederM = 0;
   let worstDrop: CableUse | null = null;
   for (const u of cableUses) {
-    if (u.use === 'tread leads' || u.use === 'chain leads' || u.use === 'feeders') longestRunM = Math.max(longestRunM, u.run.lengthM);
+    // longestRunM: controller → tread leads only, as the cable-run-length check; feeders have longestFeederM.
+    if (isControllerLead(u)) longestRunM = Math.max(longestRunM, u.run.lengthM);
+    if (u.use === 'feeders') longestFeederM = Math.max(longestFeederM, u.run.lengthM);
     if (u.powered && (!worstDrop || u.run.dropPercent > worstDrop.run.dropPercent)) worstDrop = u;
   }
   const worstDropPercent = worstDrop ? worstDrop.run.dropPercent : 0;
@@ -130,6 +134,7 @@ export function estimate(input: EstimateInput): EstimateResult {
       totalLoadW: round(totalLoadW),
       driverCount,
       longestRunM: round(longestRunM, 3),
+      longestFeederM: round(longestFeederM, 3),
       worstDropPercent: round(worstDropPercent, 3),
       motionSensors: sensors.plan.motionSensors,
       reels: (treadReels?.response.reels ?? 0) + (railReels?.reels ?? 0),

@@ -23,7 +23,8 @@ export interface RunCable {
  * The smallest size of the table that keeps the drop within the limit and carries the current
  * (and `mustCarryA`, when a current-limited driver's limit must be carried too).
  */
-export function sizeRun(supplyVoltageV: number, currentA: number, lengthM: number, cable: CableSettings, mustCarryA?: number): RunCable {
+export function sizeRun(supplyVoltageV: number, currentA: number, lengthM: number, cableIn: CableSettings, mustCarryA?: number): RunCable {
+  const cable = forLength(cableIn, lengthM);
   const chosen = smallestSuitableConductor(supplyVoltageV, currentA, lengthM, mustCarryA === undefined ? cable : { ...cable, mustCarryA });
   if (chosen) {
     return {
@@ -42,7 +43,19 @@ export function sizeRun(supplyVoltageV: number, currentA: number, lengthM: numbe
 }
 
 /** A run on one given row of the table (for the end-to-end budget search); failure says what it breaks. */
-export function runOnRow(supplyVoltageV: number, currentA: number, lengthM: number, cable: CableSettings, row: ConductorRow, maxDropPercent: number): RunCable {
+/** The settings for a run of this length: a short flexible run may have a smaller minimum (IEC/UK ELV rules). */
+export function forLength(cable: CableSettings, lengthM: number): CableSettings {
+  if (cable.shortRunMinMm2 === undefined || lengthM > cable.shortRunMaxM * (1 + 1e-9)) return cable;
+  return { ...cable, minCrossSectionMm2: cable.shortRunMinMm2 };
+}
+
+/** The minimum size a run of this length must have, mm². */
+export function minimumFor(cable: CableSettings, lengthM: number): number {
+  return forLength(cable, lengthM).minCrossSectionMm2;
+}
+
+export function runOnRow(supplyVoltageV: number, currentA: number, lengthM: number, cableIn: CableSettings, row: ConductorRow, maxDropPercent: number): RunCable {
+  const cable = forLength(cableIn, lengthM);
   const table = conductorTable(cable.conductorTable);
   const r = runResistanceOhmPerKm(row, table.referenceTemperatureC, cable.temperatureC, cable.resistanceFactor);
   const dropV = loopDropV(currentA, lengthM, r);

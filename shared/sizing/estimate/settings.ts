@@ -28,6 +28,10 @@ export interface CableSettings extends CableOptions {
   /** 'annex-g-service': R′ = 1.25 × R′20 (the default); 'temperature': R′ at temperatureC. */
   resistanceBasis: 'annex-g-service' | 'temperature';
   resistanceFactor: number;
+  jurisdiction: 'iec' | 'uk' | 'us' | undefined;
+  /** A smaller minimum for short flexible runs (IEC/UK: 1 mm² up to 3 m); undefined when none applies. */
+  shortRunMinMm2: number | undefined;
+  shortRunMaxM: number;
 }
 
 export interface DriverSettings {
@@ -97,6 +101,14 @@ const DEFAULTS = {
   brightnessPercent: defaultEntry('brightnessPercent', 100, '%', 'no brightness cap'),
 } as const;
 
+/** IEC/UK ELV lighting: 1.5 mm² copper at least, 1 mm² for flexible cable up to 3 m (IEC 60364-7-715 / BS 7671 715.524, from memory). */
+export const ELV_MIN_CROSS_SECTION_MM2 = 1.5;
+export const ELV_FLEXIBLE_SHORT_MIN_MM2 = 1;
+export const ELV_FLEXIBLE_SHORT_MAX_M = 3;
+export const ELV_MINIMUM_REFERENCE =
+  'IEC 60364-7-715 / BS 7671 715.524: ELV lighting conductors at least 1.5 mm² copper, 1 mm² for flexible cables up to 3 m (from memory)';
+const ELV_MINIMUM = defaultEntry('cable.minCrossSectionMm2', ELV_MIN_CROSS_SECTION_MM2, 'mm²', ELV_MINIMUM_REFERENCE);
+
 /** IEC 60364-5-52 Annex G takes the resistivity in service as 1.25 × ρ20 (from memory). */
 export const ANNEX_G_SERVICE_FACTOR = 1.25;
 const ANNEX_G_SERVICE = defaultEntry(
@@ -155,7 +167,8 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
   const table = CONDUCTOR_TABLES[conductorTable];
   if (c.conductorTable === undefined) used.push(DEFAULTS.conductorTable);
   if (c.maxDropPercent === undefined) used.push(DEFAULTS.maxDropPercent);
-  if (c.minCrossSectionMm2 === undefined) used.push(DEFAULTS.minCrossSectionMm2);
+  const elvMinimum = (c.jurisdiction === 'iec' || c.jurisdiction === 'uk') && c.minCrossSectionMm2 === undefined;
+  if (c.minCrossSectionMm2 === undefined) used.push(elvMinimum ? ELV_MINIMUM : DEFAULTS.minCrossSectionMm2);
   // Without a conductor temperature the estimate takes Annex G's resistivity in service, 1.25 × ρ20.
   if (c.temperatureC === undefined) used.push(ANNEX_G_SERVICE);
   if (c.serviceAllowanceM === undefined && input.layout !== 'rail-pixels') used.push(DEFAULTS.serviceAllowanceM);
@@ -184,13 +197,16 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       conductorTable,
       system: table.system,
       maxDropPercent: c.maxDropPercent ?? DEFAULT_MAX_DROP_PERCENT,
-      minCrossSectionMm2: c.minCrossSectionMm2 ?? DEFAULT_MIN_CROSS_SECTION_MM2,
+      minCrossSectionMm2: c.minCrossSectionMm2 ?? (elvMinimum ? ELV_MIN_CROSS_SECTION_MM2 : DEFAULT_MIN_CROSS_SECTION_MM2),
       temperatureC: c.temperatureC ?? 20,
       serviceAllowanceM: c.serviceAllowanceM ?? DEFAULT_SERVICE_ALLOWANCE_M,
       serviceAllowanceGiven: c.serviceAllowanceM,
       feederLengthM: c.feederLengthM ?? DEFAULT_FEEDER_LENGTH_M,
       feederLengthDefaulted: c.feederLengthM === undefined,
       feederDropPercent: c.feederDropPercent,
+      jurisdiction: c.jurisdiction,
+      shortRunMinMm2: elvMinimum && (conductorTable === 'iec60228-class5' || conductorTable === 'iec60228-class5-tinned') ? ELV_FLEXIBLE_SHORT_MIN_MM2 : undefined,
+      shortRunMaxM: ELV_FLEXIBLE_SHORT_MAX_M,
       resistanceBasis: c.temperatureC === undefined ? 'annex-g-service' : 'temperature',
       resistanceFactor: c.temperatureC === undefined ? ANNEX_G_SERVICE_FACTOR : 1,
     },
