@@ -524,6 +524,19 @@ export const alderRowTownhouseResponse = {
       message: 'Every figure is an estimate from nominal data; confirm currents, cut pitches, feed lengths and cable ratings with the datasheets of the parts actually bought.',
     },
   ],
+  standby: {
+    controllerW: 0.5,
+    sensorsW: 0.13,
+    driversW: 0.5,
+    pixelIcsW: 0,
+    totalW: 1.13,
+    litMinutesPerDay: 30,
+    litLoadW: 119,
+    standbyKWhPerYear: 9.693,
+    litKWhPerYear: 21.924,
+    totalKWhPerYear: 31.616,
+    defaultsUsed: ['controllerW', 'driverNoLoadW', 'darkPixelMa', 'daylightSensorW', 'litMinutesPerDay'],
+  },
   trace: [
     {
       quantity: 'default cable.feederLengthM',

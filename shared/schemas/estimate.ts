@@ -273,6 +273,20 @@ export const estimateReelsSchema = z
   })
   .meta({ id: 'EstimateReelLength', description: 'Strip reels.', example: { reelLengthMm: 5000 } });
 
+export const estimateStandbySchema = z
+  .object({
+    litMinutesPerDay: z.number().min(0).max(1440).optional().meta({ description: 'Minutes a day the lights are on, for the yearly energy. Default 30 (an assumption for a dwelling’s stair).', default: 30 }),
+    controllerW: z.number().min(0).max(50).optional().meta({ description: 'A controller’s own standby draw, W. Default 0.5 (from memory; use the datasheet).', default: 0.5 }),
+    driverNoLoadW: z.number().min(0).max(50).optional().meta({ description: 'A driver’s no-load input, W. Default 0.5 (the EU standby limit for control gear, from memory).', default: 0.5 }),
+    darkPixelMa: z.number().min(0).max(20).optional().meta({ description: 'Current of a dark pixel IC, mA. Default 1 (0.5–1 mA typical, from memory).', default: 1 }),
+    daylightSensorW: z.number().min(0).max(10).optional().meta({ description: 'An ambient-light sensor’s draw, W. Default 0.05 (from memory).', default: 0.05 }),
+  })
+  .meta({
+    id: 'EstimateStandbyRequest',
+    description: 'Added block: figures for the standby power and the yearly energy; every figure left out takes a documented default.',
+    example: { litMinutesPerDay: 30 },
+  });
+
 const commonFields = {
   controller: estimateControllerSchema,
   cable: estimateCableSchema.optional(),
@@ -280,6 +294,7 @@ const commonFields = {
   sensors: estimateSensorsSchema.optional(),
   reels: estimateReelsSchema.optional(),
   catalog: catalogSchema.optional(),
+  standby: estimateStandbySchema.optional(),
 };
 
 type CrossCheckable = {
@@ -728,6 +743,38 @@ export const cautionSchema = z
   .object({ code: z.string(), message: z.string() })
   .meta({ id: 'Caution', description: 'Safety and scope notes every estimate carries.', example: alderRowTownhouseResponse.cautions[0] });
 
+export const estimateStandbyResultSchema = z
+  .object({
+    controllerW: z.number().meta({ description: 'Controllers’ own draw, W.' }),
+    sensorsW: z.number().meta({ description: 'Motion sensors (their supply × current) and ambient-light sensors, W.' }),
+    driversW: z.number().meta({ description: 'Drivers at no load, W (mains side).' }),
+    pixelIcsW: z.number().meta({ description: 'Dark pixel ICs, W.' }),
+    totalW: z.number().meta({ description: 'Standby power while the stair is dark, W.' }),
+    litMinutesPerDay: z.number(),
+    litLoadW: z.number().meta({ description: 'Load while lit (brightness cap applied), W.' }),
+    standbyKWhPerYear: z.number(),
+    litKWhPerYear: z.number(),
+    totalKWhPerYear: z.number(),
+    defaultsUsed: z.array(z.string()).meta({ description: 'Figures taken from the defaults rather than the request.' }),
+  })
+  .meta({
+    id: 'EstimateStandby',
+    description: 'Added field: what the installation draws while dark, and its yearly energy for the stated use.',
+    example: {
+      controllerW: 0.5,
+      sensorsW: 0.13,
+      driversW: 0.5,
+      pixelIcsW: 0,
+      totalW: 1.13,
+      litMinutesPerDay: 30,
+      litLoadW: 119,
+      standbyKWhPerYear: 9.693,
+      litKWhPerYear: 21.924,
+      totalKWhPerYear: 31.617,
+      defaultsUsed: ['controllerW', 'driverNoLoadW', 'darkPixelMa', 'daylightSensorW', 'litMinutesPerDay'],
+    },
+  });
+
 export const estimateSummarySchema = z
   .object({
     treads: z.int(),
@@ -766,6 +813,7 @@ export const estimateResponseSchema = z
     currency: z.string().optional(),
     checks: z.array(estimateCheckSchema),
     cautions: z.array(cautionSchema),
+    standby: estimateStandbyResultSchema,
     trace: z.array(traceEntrySchema),
   })
   .meta({
@@ -781,6 +829,7 @@ export type EstimateOutputs = z.output<typeof estimateOutputsSchema>;
 export type EstimateRailSupply = z.output<typeof estimateRailSupplySchema>;
 export type EstimateFeederRun = z.output<typeof estimateFeederRunSchema>;
 export type EstimateCircuit = z.output<typeof estimateCircuitSchema>;
+export type EstimateStandby = z.output<typeof estimateStandbyResultSchema>;
 export type EstimatePixelRun = z.output<typeof estimatePixelRunSchema>;
 export type EstimateCableLine = z.output<typeof estimateCableLineSchema>;
 export type EstimateSensorsResult = z.output<typeof estimateSensorsResultSchema>;

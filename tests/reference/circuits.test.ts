@@ -214,3 +214,24 @@ describe('jurisdiction settings', () => {
     expect(result.trace.find((t) => t.quantity === 'default cable.maxDropPercent')?.reference).toMatch(/715\.525/);
   });
 });
+
+describe('standby power and yearly energy', () => {
+  it('adds controller, sensors, drivers and dark pixel ICs, and the energy for the stated use', () => {
+    const result = run(alderRowTownhouse);
+    // defaults from memory: controller 0.5 W, driver no-load 0.5 W, daylight sensor 0.05 W;
+    // sensors from their data: 2 × 5 V × 8 mA = 0.08 W (demo scenario HL-M05) → 0.5 + 0.13 + 0.5 = 1.13 W
+    expect(result.standby).toMatchObject({ controllerW: 0.5, sensorsW: 0.13, driversW: 0.5, pixelIcsW: 0, totalW: 1.13 });
+    // hand arithmetic, 30 min a day (assumption): 1.13 W × 23.5 h × 365 = 9.693 kWh; (1.13 + 119) W × 0.5 h × 365 = 21.924 kWh
+    expect(result.standby.standbyKWhPerYear).toBeCloseTo(9.693, 3);
+    expect(result.standby.litKWhPerYear).toBeCloseTo(21.924, 3);
+    expect(result.standby.defaultsUsed).toContain('litMinutesPerDay');
+  });
+
+  it('counts the dark pixel ICs of a pixel run, and takes the stated figures', () => {
+    const result = run({ ...quaysideCorridor, standby: { darkPixelMa: 0.5, litMinutesPerDay: 60 } });
+    // domain.md: a dark pixel IC draws about 0.5–1 mA (from memory); 1080 pixels × 0.5 mA × 5 V = 2.7 W
+    expect(result.standby.pixelIcsW).toBeCloseTo(2.7, 6);
+    expect(result.standby.litMinutesPerDay).toBe(60);
+    expect(result.standby.defaultsUsed).not.toContain('darkPixelMa');
+  });
+});

@@ -13,6 +13,7 @@ import { sizeRailPixels, type RailPart } from './rail-pixels.js';
 import { outputsOf, pixelsOf } from './result-shapes.js';
 import { runChecks } from './run-checks.js';
 import { planSensors } from './sensor-layout.js';
+import { standbyOf } from './standby.js';
 import { endClearanceDefault, pixelDefaults, resolveSettings, type Settings } from './settings.js';
 import type { TreadBlock } from './stair.js';
 import { planReels } from './strip-reels.js';
@@ -156,6 +157,7 @@ export function estimate(input: EstimateInput): EstimateResult {
     bom: bom.lines,
     checks,
     cautions: cautionsFor(maxRailCurrentA, maxRailVoltageV),
+    standby: standbyOf({ input, controllers, driverCount, sensors, rail, treadPixels, litLoadW: totalLoadW }, trace),
     trace: settings.defaultsUsed.length > 0 ? settings.defaultsUsed.concat(trace) : trace,
   };
   if (bom.total !== undefined) result.bomTotal = bom.total;
