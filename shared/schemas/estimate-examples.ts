@@ -254,6 +254,7 @@ export const alderRowTownhouseResponse = {
         currentRatingA: 10,
         maxInputCurrentA: null,
         circuit: 1,
+        powerInput: null,
         feedPoint: null,
         positionM: 1.866,
         alongRunM: 0,
@@ -327,7 +328,12 @@ export const alderRowTownhouseResponse = {
       unit: 'reel',
       sku: 'HL-S24-10',
     },
-    { category: 'driver', description: 'LED driver 24 V 150 W', quantity: 1, unit: 'pcs' },
+    {
+      category: 'driver',
+      description: 'LED driver 24 V 150 W, one per circuit (circuit 1); never parallel their outputs',
+      quantity: 1,
+      unit: 'pcs',
+    },
     {
       category: 'fuse',
       description: 'Inline fuse holder with 6.3 A fuse, at the driver output of a feeder',
@@ -514,6 +520,10 @@ export const alderRowTownhouseResponse = {
     {
       code: 'driver-heat',
       message: 'Give drivers room to breathe: mount them where air moves and derate them as their datasheets ask when the space runs warm.',
+    },
+    {
+      code: 'one-supply-per-circuit',
+      message: 'Each driver feeds only its own circuit: never connect driver outputs in parallel (unless the datasheet allows it), never join the + of two circuits, and fit each feeder’s fuse at its driver as the circuits list gives it.',
     },
     {
       code: 'not-emergency-lighting',

@@ -210,6 +210,16 @@ export const estimateDriversSchema = z
     efficiencyPercent: z.number().min(10).max(100).optional().meta({ description: 'Driver efficiency, %; gives the mains input power and current.' }),
     mainsVoltageV: z.number().min(50).max(1000).optional().meta({ description: 'Mains voltage, V AC. Default 230.', default: 230 }),
     powerFactor: z.number().min(0.1).max(1).optional().meta({ description: 'Added field: driver input power factor. Default 0.9 (assumed).', default: 0.9 }),
+    powerInputsPerController: z
+      .int()
+      .min(1)
+      .max(16)
+      .optional()
+      .meta({
+        description:
+          'Added field: separate power inputs on each controller, each feeding its own group of CV outputs (from the controller’s datasheet). Each input is a feed of its own, so its group may have a driver of its own. Default 1: a controller with one power input gets one driver.',
+        default: 1,
+      }),
     positionsM: z
       .array(z.number().min(0).max(500))
       .min(1)
@@ -549,6 +559,7 @@ export const estimateFeederRunSchema = z
     currentRatingA: z.number().nullable(),
     maxInputCurrentA: z.number().nullable().meta({ description: 'The controller’s maximum input current, when it feeds a controller.' }),
     circuit: z.int().meta({ description: 'Added field: the circuit (and so the one driver) this feeder belongs to; see `circuits`.' }),
+    powerInput: z.int().nullable().optional().meta({ description: 'Added field: the controller’s power input this feeder serves, when it has several (drivers.powerInputsPerController).' }),
     feedPoint: z.int().nullable().meta({ description: 'Added field: feed point along the pixel run (1 = its start); null for a controller.' }),
     positionM: z.number().meta({ description: 'Added field: where the controller or feed point is, m along the run.' }),
     alongRunM: z.number().meta({ description: 'Added field: distance along the run from the driver to here, m; lengthM = feeder.lengthM + alongRunM.' }),

@@ -28,6 +28,22 @@ describe('one supply per circuit (issue 8 item 1)', () => {
     expect(result.bom.filter((l) => l.category === 'driver')).toEqual([]);
   });
 
+  it('a controller with two power inputs gets a driver per input group of outputs', () => {
+    // the same 476 W on an invented controller with 2 power inputs: 7 outputs each, 7 × 34 W = 238 W → 297.5 W → 320 W each
+    const result = run({
+      ...alderRowTownhouse,
+      treadStrip: { voltageV: 24, powerWPerM: 40, cutPitchMm: 50 },
+      controller: { profile: wideProfile },
+      drivers: { powerInputsPerController: 2 },
+    });
+    expect(result.circuits.map((c) => [c.name, c.loadW, c.driver?.ratingW])).toEqual([
+      ['controller 1 input 1', 238, 320],
+      ['controller 1 input 2', 238, 320],
+    ]);
+    expect(check(result, 'driver-loading')?.status).toBe('pass');
+    expect(result.feeder.runs.map((f) => f.powerInput)).toEqual([1, 2]);
+  });
+
   it('two controllers of 350 W get one 480 W driver each, never 480 W + 320 W shared', () => {
     // invented profile: 7 outputs → 2 controllers; 7 × 0.85 m × 58.8235 W/m = 350 W each (hand arithmetic)
     const result = run({

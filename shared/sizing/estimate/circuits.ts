@@ -14,6 +14,8 @@ export interface FeedTarget {
   kind: LoadKind;
   to: 'controller' | 'pixel feed point';
   controller: number | null;
+  /** Power input of the controller (1-based) when it has several; null with one. */
+  powerInput: number | null;
   /** 1-based feed point along its run (pixel feeds); null for a controller. */
   feedPoint: number | null;
   firstTread: number | null;
@@ -223,6 +225,7 @@ function oneFeeder(circuit: number, target: FeedTarget, voltageV: number, kind: 
     currentRatingA: run.size ? run.currentRatingA : null,
     maxInputCurrentA: target.maxInputCurrentA ?? null,
     circuit,
+    powerInput: target.powerInput,
     feedPoint: target.feedPoint,
     positionM: round(target.positionM, 3),
     alongRunM: round(alongM, 3),
@@ -250,7 +253,11 @@ function oneFeeder(circuit: number, target: FeedTarget, voltageV: number, kind: 
 function targetsName(targets: readonly FeedTarget[]): string {
   const first = targets[0] as FeedTarget;
   const last = targets[targets.length - 1] as FeedTarget;
-  if (first.to === 'controller') return targets.length === 1 ? `controller ${first.controller}` : `controllers ${first.controller}–${last.controller}`;
+  if (first.to === 'controller') {
+    const name = (t: FeedTarget) => (t.powerInput === null ? `controller ${t.controller}` : `controller ${t.controller} input ${t.powerInput}`);
+    if (targets.length === 1) return name(first);
+    return first.powerInput === null ? `controllers ${first.controller}–${last.controller}` : targets.map(name).join(', ');
+  }
   const run = first.kind === 'rail pixels' ? 'the rail' : 'the tread pixels';
   return targets.length === 1 ? `feed point ${first.feedPoint} of ${run}` : `feed points ${first.feedPoint}–${last.feedPoint} of ${run}`;
 }

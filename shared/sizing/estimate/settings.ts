@@ -44,6 +44,7 @@ export interface DriverSettings {
   /** Where drivers may sit, m along the run; undefined: the best single place. */
   positionsM: readonly number[] | undefined;
   currentLimitPercent: number;
+  powerInputsPerController: number;
 }
 
 export interface Settings {
@@ -219,6 +220,7 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       powerFactor: d.powerFactor,
       positionsM: d.positionsM,
       currentLimitPercent: d.currentLimitPercent ?? DEFAULT_CURRENT_LIMIT_PERCENT,
+      powerInputsPerController: d.powerInputsPerController ?? 1,
     },
     reelLengthMm: input.reels?.reelLengthMm,
     daylightCutoff,

@@ -1,6 +1,7 @@
 import type { EstimateRailSupply } from '../../schemas/estimate.js';
 import { class2MaxVA, CIRCUIT_REFERENCE, DEFAULT_DRIVER_RATINGS_W, DEFAULT_MAINS_VOLTAGE_V, DEFAULT_POWER_FACTOR, requiredRatingW } from '../drivers.js';
 import { treadPositionsM, type StairGeometry } from '../geometry.js';
+import { blockSizes } from '../outputs.js';
 import { describeSize } from '../conductors.js';
 import { round, type TraceEntry } from '../trace.js';
 import { cheapestDriver, driversAt, type CatalogIndex } from './catalog.js';
@@ -306,24 +307,44 @@ export function loadsOf(
     const targets: FeedTarget[] = [];
     const controllers = treadStrips.allocation.controllers;
     const blocks = controllers.length > 0 ? controllers : [{ controller: 1, firstTread: 1, lastTread: treadStrips.leads.length, currentA: treadStrips.totalCurrentA }];
+    const inputs = settings.drivers.powerInputsPerController;
     blocks.forEach((b, i) => {
       const atTread = treadStrips.runs.blocks[i]?.atTread ?? b.firstTread;
-      const leads: FeedTarget['leads'] = [];
-      for (let t = b.firstTread; t <= b.lastTread; t++) leads.push({ tread: t, run: treadStrips.leads[t - 1] as RunCable });
-      targets.push({
-        kind: 'tread strips',
-        to: 'controller',
-        controller: i + 1,
-        feedPoint: null,
-        firstTread: b.firstTread,
-        lastTread: b.lastTread,
-        currentA: b.currentA,
-        positionM: positions ? (positions[atTread - 1] as number) : 0,
-        chain: null,
-        fixedDownstreamPercent: 0,
-        downstreamRatingA: null,
-        leads,
-        maxInputCurrentA: settings.profile.maxInputCurrentA,
+      const positionM = positions ? (positions[atTread - 1] as number) : 0;
+      const outputs = treadStrips.allocation.outputs.filter((o) => o.controller === i + 1);
+      // A controller with several power inputs: each feeds its own group of outputs, so each is a feed of its own.
+      const groups: number[][] = [];
+      if (inputs > 1 && outputs.length > 1) {
+        let next = 0;
+        for (const size of blockSizes(outputs.length, Math.min(inputs, outputs.length))) {
+          groups.push(outputs.slice(next, next + size).flatMap((o) => o.treads));
+          next += size;
+        }
+      } else {
+        const all: number[] = [];
+        for (let t = b.firstTread; t <= b.lastTread; t++) all.push(t);
+        groups.push(all);
+      }
+      groups.forEach((treads, g) => {
+        const leads: FeedTarget['leads'] = treads.map((t) => ({ tread: t, run: treadStrips.leads[t - 1] as RunCable }));
+        let currentA = 0;
+        for (const l of leads) currentA += l.run.currentA;
+        targets.push({
+          kind: 'tread strips',
+          to: 'controller',
+          controller: i + 1,
+          powerInput: groups.length > 1 ? g + 1 : null,
+          feedPoint: null,
+          firstTread: Math.min(...treads),
+          lastTread: Math.max(...treads),
+          currentA: groups.length > 1 ? currentA : b.currentA,
+          positionM,
+          chain: null,
+          fixedDownstreamPercent: 0,
+          downstreamRatingA: null,
+          leads,
+          maxInputCurrentA: settings.profile.maxInputCurrentA,
+        });
       });
     });
     loads.push({ kind: 'tread strips', voltageV: treadStrips.strip.voltageV, loadW: treadStrips.totalLoadW, currentA: treadStrips.totalCurrentA, targets });
@@ -336,6 +357,7 @@ export function loadsOf(
         kind: 'rail pixels',
         to: 'pixel feed point',
         controller: null,
+        powerInput: null,
         feedPoint: i + 1,
         firstTread: null,
         lastTread: null,
@@ -360,6 +382,7 @@ export function loadsOf(
           kind: 'tread pixels',
           to: 'pixel feed point',
           controller: null,
+          powerInput: null,
           feedPoint,
           firstTread: g.firstTread,
           lastTread: g.lastTread,
