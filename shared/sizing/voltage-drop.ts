@@ -100,6 +100,14 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
       reference: `${row.resistanceSource}; temperature correction IEC 60028`,
     },
     {
+      quantity: 'resistanceBasis',
+      value: `${table.id} at ${temperatureC} °C`,
+      unit: '',
+      formula: input.temperatureC === undefined ? 'default: the table’s reference temperature, not the Annex G service resistivity (1.25 × ρ20) that estimates use' : 'as given',
+      inputs: { conductorTable: tableId, temperatureC, referenceTemperatureC: table.referenceTemperatureC },
+      reference: table.reference,
+    },
+    {
       quantity: 'loopResistanceOhm',
       value: round(loopResistanceOhm, 6),
       unit: 'Ω',

@@ -5,6 +5,7 @@ import { PRACTICE_MAX_RUN_M } from '../geometry.js';
 import { DROP_LIMIT_REFERENCE, LOOP_REFERENCE } from '../voltage-drop.js';
 import { describeUse, type CableUse } from './cable-schedule.js';
 import type { Feeder } from './circuits.js';
+import { PROTECTION_REFERENCE } from '../protection.js';
 import { flagged, fmt, passed, treadsText, type Design } from './checks.js';
 import { minimumFor, nextSizeLabel, sizeLabel } from './run-cable.js';
 import { ELV_MIN_CROSS_SECTION_MM2, ELV_MINIMUM_REFERENCE } from './settings.js';
@@ -154,6 +155,25 @@ export function cableCurrentCheck(d: Design): EstimateCheck {
   const worst = worstBy(powered, (u) => u.run.currentA / u.run.currentRatingA);
   const table = conductorTable(d.settings.cable.conductorTable);
   if (!worst) return passed('cable-current', 'No cable carries power.', 0, null, 'A', table.rows[0]!.currentRatingSource);
+  // Any run no size can carry fails, even one whose load current alone would fit (a feeder must carry its driver's limit).
+  const failing = worstBy(
+    powered.filter((u) => u.run.failure === 'current'),
+    (u) => u.run.currentA / u.run.currentRatingA,
+  );
+  if (failing && failing.run.currentA <= failing.run.currentRatingA) {
+    const circuit = d.supplies.circuits.find((c) => c.index === failing.circuit);
+    const limitA = circuit?.response.driver?.currentLimitA ?? null;
+    return flagged(
+      'cable-current',
+      'fail',
+      `${capitalise(describeUse(failing))} carries ${fmt(failing.run.currentA, 3)} A, but no size of the table carries its driver's ${limitA === null ? '' : `${fmt(limitA, 2)} A `}current limit, and no fuse that driver could open protects a thinner one.`,
+      Math.round(failing.run.currentA * 1e4) / 1e4,
+      failing.run.currentRatingA,
+      'A',
+      `${table.rows[table.rows.length - 1]!.currentRatingSource}; ${PROTECTION_REFERENCE}`,
+      'Split the circuit so each driver is smaller (more circuits, each on its own driver), or use a higher-voltage supply.',
+    );
+  }
   const ratingSource = table.rows.find((r) => r.currentRatingA === worst.run.currentRatingA)?.currentRatingSource ?? table.reference;
   const value = Math.round(worst.run.currentA * 1e4) / 1e4;
   if (worst.run.failure !== 'current') {
