@@ -38,6 +38,14 @@ export function class2MaxCurrentA(maxOutputVoltageV: number): number | null {
   return maxOutputVoltageV <= 20 ? 5 : null;
 }
 
+/** Largest Class 2 load in W at the nominal voltage: the VA limit by Vmax, and up to 20 V the 5 A limit too. */
+export function class2CapW(outputVoltageV: number, maxOutputVoltageV = outputVoltageV): number | null {
+  const va = class2MaxVA(maxOutputVoltageV);
+  if (va === null) return null;
+  const amps = class2MaxCurrentA(maxOutputVoltageV);
+  return amps === null ? va : Math.min(va, amps * outputVoltageV);
+}
+
 export const CIRCUIT_REFERENCE =
   'one supply per circuit: constant-voltage drivers are not paralleled unless their datasheet allows it (common practice, no published source); Class 2 supplies shall not be paralleled or interconnected unless listed for it (NEC 725.121(B) 2017/2020, 725.60(B) 2023, from memory)';
 
@@ -82,7 +90,7 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
 
   // Cap on one supply: Class 2 by voltage, and/or an explicit VA cap (VA = W on the DC side).
   const vmax = input.maxOutputVoltageV ?? input.outputVoltageV;
-  const class2Cap = input.class2 ? class2MaxVA(vmax) : null;
+  const class2Cap = input.class2 ? class2CapW(input.outputVoltageV, vmax) : null;
   if (input.class2 && class2Cap === null) {
     warnings.push({
       code: 'class2_not_available',

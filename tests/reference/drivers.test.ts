@@ -82,8 +82,10 @@ describe('NEC Class 2 (Chapter 9 Table 11)', () => {
   });
 
   it('follows the maximum output voltage, not the nominal', () => {
-    // NEC Chapter 9 Table 11(B), 0–20 V: 5 × Vmax VA (from memory): 12 V nominal set to 13.2 V → 66 VA
-    expect(run({ loadW: 40, outputVoltageV: 12, maxOutputVoltageV: 13.2, class2: true }).maxSupplyW).toBe(66);
+    // NEC Chapter 9 Table 11(B), 0–20 V: 5 × Vmax VA and 5 A (from memory): 12 V set to 13.2 V → min(66 VA, 5 A × 12 V) = 60 W
+    expect(run({ loadW: 40, outputVoltageV: 12, maxOutputVoltageV: 13.2, class2: true }).maxSupplyW).toBe(60);
+    // 5 V nominal with a 5.5 V maximum: min(27.5 VA, 5 A × 5 V) = 25 W
+    expect(run({ loadW: 10, outputVoltageV: 5, maxOutputVoltageV: 5.5, class2: true }).maxSupplyW).toBe(25);
     // a 20 V nominal supply with a 21 V maximum falls in the 20–60 V row: 100 VA
     expect(run({ loadW: 40, outputVoltageV: 20, maxOutputVoltageV: 21, class2: true }).maxSupplyW).toBe(100);
   });
