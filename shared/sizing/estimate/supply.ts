@@ -5,7 +5,7 @@ import { blockSizes } from '../outputs.js';
 import { describeSize } from '../conductors.js';
 import { round, type TraceEntry } from '../trace.js';
 import { cheapestDriver, driversAt, type CatalogIndex } from './catalog.js';
-import { planCircuits, type Circuit, type Feeder, type FeedTarget, type Load, type LoadKind, type RailRatings } from './circuits.js';
+import { planCircuits, type Circuit, type Feeder, type FeedTarget, type Load, type RailRatings } from './circuits.js';
 import { setSize, type RunCable } from './run-cable.js';
 import type { RailPart } from './rail-pixels.js';
 import { DEFAULT_RATINGS_ENTRY, type Settings } from './settings.js';
