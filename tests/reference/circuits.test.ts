@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { estimateRequestSchema, type EstimateResult } from '../../shared/schemas/estimate.js';
-import { alderRowTownhouse, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
+import { alderRowTownhouse, alderRowTreadPixels, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
 import { fuseFor, protectionFor } from '../../shared/sizing/protection.js';
 
@@ -170,6 +170,19 @@ describe('protection (circuits and protection)', () => {
     // the driver's limit: 150 W / 24 V × 150 % = 9.375 A (from memory: CV drivers limit at 105–150 % of rated output)
     expect(check(result, 'circuit-protection')).toMatchObject({ status: 'pass', value: 10 });
     expect(result.bom.find((l) => l.category === 'fuse')).toMatchObject({ quantity: 1 });
+  });
+
+  it('fails circuit-protection when thin pixel links sit behind a driver that cannot open their fuse', () => {
+    // tread pixels at 30 mA per pixel (invented): 5 treads × 17 px × 30 mA = 2.55 A through 0.5 mm² links rated 3 A
+    // (BS 7671 4F3A, from memory); a fuse must be ≥ 1.25 × 2.55 = 3.19 A → 4 A > 3 A, and the 240 W driver limits at 15 A
+    const result = run({
+      ...alderRowTreadPixels,
+      treadPixels: { ...alderRowTreadPixels.treadPixels, currentPerPixelMa: 30 },
+      controller: { profile: { outputs: 0, maxCurrentPerOutputA: 1, dataOutputs: 1, maxPixelsPerOutput: 800 } },
+    });
+    // IEC 60364-4-43 433.1 (from memory): I_B ≤ I_n ≤ I_z cannot hold for the links
+    expect(check(result, 'circuit-protection')).toMatchObject({ status: 'fail', value: 3, limit: 15 });
+    expect(check(result, 'circuit-protection')?.suggestion).toMatch(/feeder and links rated at least 4 A, so a 4 A fuse at the driver protects them/);
   });
 
   it('warns about grouping and terminals on feeders of 25 A and more', () => {

@@ -4,7 +4,7 @@ import { flagged, fmt, passed, type Design } from './checks.js';
 import { chainsOf, type SupplyRail } from './supply.js';
 import type { Circuit, Feeder } from './circuits.js';
 import { sizeLabel } from './run-cable.js';
-import { PROTECTION_REFERENCE } from '../protection.js';
+import { FUSE_OPENING_FACTOR, fuseFor, PROTECTION_REFERENCE } from '../protection.js';
 import { round } from '../trace.js';
 
 const LOADING_REFERENCE =
@@ -207,12 +207,12 @@ export function circuitProtectionCheck(d: Design): EstimateCheck | null {
     return flagged(
       'circuit-protection',
       'fail',
-      `The feeder of circuit ${bad.circuit} to ${bad.target.to === 'controller' ? `controller ${bad.target.controller}` : `pixel feed point ${bad.target.feedPoint}`} carries ${fmt(bad.target.currentA, 3)} A; its thinnest cable is rated ${fmt(bad.thinnestRatingA, 2)} A${limitA !== null ? `, below the driver's ${fmt(limitA, 2)} A current limit,` : ''} and no fuse between 1.25 × I_B and that rating can be opened by the driver.`,
+      `The feeder of circuit ${bad.circuit} to ${bad.target.to === 'controller' ? `controller ${bad.target.controller}` : `pixel feed point ${bad.target.feedPoint}`} carries ${fmt(bad.target.currentA, 3)} A; its thinnest cable is rated ${fmt(bad.thinnestRatingA, 2)} A${limitA !== null ? `, below the driver's ${fmt(limitA, 2)} A current limit,` : ''} and no fuse between 1.25 × I_B and that rating fits, or none the driver could open.`,
       value(bad),
       limitA,
       'A',
       PROTECTION_REFERENCE,
-      `Use cable rated for the driver's ${limitA !== null ? `${fmt(limitA, 2)} A ` : ''}limit (feeder and the links behind it), or a smaller driver for this circuit, or a fuse at the feed point no larger than the thinnest cable's rating.`,
+      protectionAdvice(bad, limitA),
     );
   }
   const fuses = feeders.map((f) => (f.protection.fuseA === null ? 'driver limit' : `${f.protection.fuseA} A`));
@@ -226,6 +226,18 @@ export function circuitProtectionCheck(d: Design): EstimateCheck | null {
     'A',
     PROTECTION_REFERENCE,
   );
+}
+
+/** The concrete ways out: cables a fuse can protect, or cables that carry the driver's limit. */
+function protectionAdvice(f: Feeder, limitA: number | null): string {
+  const fuseA = fuseFor(f.target.currentA, Infinity);
+  const parts: string[] = [];
+  if (fuseA !== null && (limitA === null || limitA >= FUSE_OPENING_FACTOR * fuseA)) {
+    parts.push(`use a feeder${f.target.downstreamRatingA !== null ? ' and links' : ''} rated at least ${fuseA} A, so a ${fuseA} A fuse at the driver protects ${f.target.downstreamRatingA !== null ? 'them' : 'it'}`);
+  }
+  if (limitA !== null) parts.push(`use cable rated for the driver's ${fmt(limitA, 2)} A limit`);
+  parts.push('or split the circuit so a smaller driver feeds it');
+  return capitalise(parts.join('; ')) + '.';
 }
 
 /** 25 A and more: free-air cord ratings no longer hold once cables are grouped or enclosed. */
