@@ -86,6 +86,20 @@ describe('Class 2 circuits (issue 8 item 2)', () => {
   });
 });
 
+describe('Class 2 on a tread-pixel chain', () => {
+  it('splits the chain’s feed groups into 80 W circuits and fails on the shared 0 V', () => {
+    // 20 mA per pixel (invented): 5 treads × 17 px × 20 mA × 24 V = 40.8 W per feed group (groups of 5, 5 and 4 treads);
+    // 100 VA at 24 V × 80 % = 80 W (NEC Chapter 9 Table 11(B)) → circuits of 40.8 W and 40.8 + 32.64 = 73.44 W
+    const result = run({ ...alderRowTreadPixels, treadPixels: { ...alderRowTreadPixels.treadPixels, currentPerPixelMa: 20 }, drivers: { class2: true } });
+    expect(result.circuits.map((c) => [c.name, c.loadW])).toEqual([
+      ['feed point 1 of the tread pixels', 40.8],
+      ['feed points 2–3 of the tread pixels', 73.44],
+    ]);
+    // NEC 725.121(B) / 725.60(B), from memory: the one data chain would join the 0 V of both supplies
+    expect(check(result, 'class2-limit')?.message).toMatch(/Data chain 1 of the tread pixels is powered from circuits 1 and 2/);
+  });
+});
+
 describe('end-to-end drop (issue 8 items 4 and 5)', () => {
   it('sizes feeder and leads together so driver → feeder → lead stays within 5 % at 12 V', () => {
     // 12 V strip of 14.4 W/m (domain.md: 5050 60 LED/m) on the invented wide profile, feeder 6 m off the run
