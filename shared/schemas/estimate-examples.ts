@@ -130,7 +130,7 @@ export const alderRowTownhouseResponse = {
     driverCount: 1,
     longestRunM: 2.677,
     longestFeederM: 2,
-    worstDropPercent: 2.014,
+    worstDropPercent: 2.399,
     motionSensors: 2,
     reels: 3,
     checks: { pass: 15, warn: 1, fail: 0 },

@@ -797,7 +797,7 @@ export const estimateSummarySchema = z
       description: 'Longest lead from a controller to a tread (tread leads and pixel chain leads, service allowance included), m — the run the 10 m practice limit and the cable-run-length check are about; 0 when the layout has none. Feeders: longestFeederM.',
     }),
     longestFeederM: z.number().optional().meta({ description: 'Added field: longest feeder from a driver to a controller or feed point, m.' }),
-    worstDropPercent: z.number(),
+    worstDropPercent: z.number().meta({ description: 'Worst drop from a driver to a strip, end to end (feeder + lead or chain links), % — the cable-drop check’s value.' }),
     motionSensors: z.int(),
     reels: z.int(),
     checks: z.object({ pass: z.int(), warn: z.int(), fail: z.int() }),

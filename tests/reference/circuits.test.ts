@@ -214,6 +214,9 @@ describe('smaller fixes (issue 8 item 12)', () => {
     // stair geometry: 7 steps + 0.5 m from the controller at tread 7 to tread 14
     expect(result.summary.longestRunM).toBeCloseTo(7 * STEP_M + 0.5, 3);
     expect(check(result, 'cable-run-length')?.value).toBe(result.summary.longestRunM);
+    // and summary.worstDropPercent is the end-to-end value the cable-drop check judges (IEC 60364-7-715 / BS 7671 715.525, from memory)
+    expect(result.summary.worstDropPercent).toBe(check(result, 'cable-drop')?.value);
+    expect(result.summary.worstDropPercent).toBeCloseTo(result.feeder.runs[0]!.dropPercent + result.treads[13]!.dropPercent, 2);
   });
 
   it('cable-min-size never passes without a size', () => {

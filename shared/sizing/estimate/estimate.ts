@@ -111,7 +111,9 @@ export function estimate(input: EstimateInput): EstimateResult {
     if (u.use === 'feeders') longestFeederM = Math.max(longestFeederM, u.run.lengthM);
     if (u.powered && (!worstDrop || u.run.dropPercent > worstDrop.run.dropPercent)) worstDrop = u;
   }
-  const worstDropPercent = worstDrop ? worstDrop.run.dropPercent : 0;
+  // End to end, as the cable-drop check: the worst driver → strip path, or a single run if that is worse.
+  let worstDropPercent = worstDrop ? worstDrop.run.dropPercent : 0;
+  for (const f of supplies.feeders) if (f.target.currentA > 0) worstDropPercent = Math.max(worstDropPercent, f.pathDropPercent);
   if (worstDrop) trace.push(worstDropEntry(worstDrop));
   trace.push({
     quantity: 'totalLoadW',
