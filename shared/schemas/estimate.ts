@@ -165,15 +165,34 @@ export const estimateCableSchema = z
       .max(10)
       .optional()
       .meta({ description: 'Added to every run for the drop to the strip’s feed end, m. Default 0.5.', default: 0.5 }),
-    temperatureC: temperatureSchema.optional(),
+    temperatureC: temperatureSchema.optional().meta({
+      description:
+        'Conductor temperature, °C, for R′ = R_ref · (1 + α · (T − T_ref)) (IEC 60028). Default: none — estimates take the IEC 60364-5-52 Annex G resistivity in service, R′ = 1.25 × R′20 (from memory), and say so in the trace.',
+    }),
     feederLengthM: z
       .number()
       .min(0.1)
       .max(100)
       .optional()
       .meta({
-        description: `Added field: one-way length of each feeder from a driver to the controller (or to a pixel run’s feed point), m. Default ${DEFAULT_FEEDER_LENGTH_M} (driver mounted beside the controller).`,
+        description: `Added field: the part of each feeder that is not along the run — from the driver to the stringer or rail and the connections, m; each feeder adds its distance along the run from the driver (drivers.positionsM) to its controller or feed point. Default ${DEFAULT_FEEDER_LENGTH_M}.`,
         default: DEFAULT_FEEDER_LENGTH_M,
+      }),
+    jurisdiction: z
+      .enum(['iec', 'uk', 'us'])
+      .optional()
+      .meta({
+        description:
+          'Added field: wiring rules to apply. iec / uk: the ELV lighting section’s minimum conductor, 1.5 mm² (1 mm² for flexible cable up to 3 m; IEC 60364-7-715 / BS 7671 715.524, from memory), unless minCrossSectionMm2 is given. us: NEC practice — Class 2 limits apply where drivers.class2 asks for them. Default: none (trade practice, 0.5 mm² minimum). The 5 % end-to-end drop default is the ELV lighting section’s (IEC 60364-7-715 / BS 7671 715.525, from memory) in every case.',
+      }),
+    feederDropPercent: z
+      .number()
+      .min(0.1)
+      .max(20)
+      .optional()
+      .meta({
+        description:
+          'Added field: the share of maxDropPercent given to the feeders, %; the leads get the rest. The limit always applies end to end (driver → feeder → lead → strip). Default: no fixed split — feeder and leads are sized together for the least copper within the end-to-end limit.',
       }),
   })
   .meta({ id: 'EstimateCable', description: 'How runs and feeders are sized.', example: { conductorTable: 'iec60228-class5', maxDropPercent: 5, feederLengthM: 2 } });
@@ -191,6 +210,36 @@ export const estimateDriversSchema = z
     efficiencyPercent: z.number().min(10).max(100).optional().meta({ description: 'Driver efficiency, %; gives the mains input power and current.' }),
     mainsVoltageV: z.number().min(50).max(1000).optional().meta({ description: 'Mains voltage, V AC. Default 230.', default: 230 }),
     powerFactor: z.number().min(0.1).max(1).optional().meta({ description: 'Added field: driver input power factor. Default 0.9 (assumed).', default: 0.9 }),
+    powerInputsPerController: z
+      .int()
+      .min(1)
+      .max(16)
+      .optional()
+      .meta({
+        description:
+          'Added field: separate power inputs on each controller, each feeding its own group of CV outputs (from the controller’s datasheet). Each input is a feed of its own, so its group may have a driver of its own. Default 1: a controller with one power input gets one driver.',
+        default: 1,
+      }),
+    positionsM: z
+      .array(z.number().min(0).max(500))
+      .min(1)
+      .max(50)
+      .optional()
+      .meta({
+        description:
+          'Added field: where the drivers sit, m along the run from its start (a stair: along the stringer from tread 1, landings included; a rail or corridor: from the rail’s start). Each circuit’s driver sits at the listed place nearest its feeds; several places spread the drivers along the run. Default: one place, midway between the farthest feeds. Every feeder is cable.feederLengthM plus its distance along the run.',
+        example: [0],
+      }),
+    currentLimitPercent: z
+      .number()
+      .min(100)
+      .max(300)
+      .optional()
+      .meta({
+        description:
+          'Added field: the driver’s output current limit (overload protection), % of its rated current. Default 150 (constant-voltage LED driver datasheets commonly give 105–150 %, from memory). A cable that could carry less than this limit relies on a fuse the limited driver may never blow, so it is sized for the limit instead.',
+        default: 150,
+      }),
   })
   .meta({ id: 'EstimateDrivers', description: 'How drivers are chosen for each rail voltage.', example: { maxLoadingPercent: 80, availableRatingsW: [60, 100, 150, 240] } });
 
@@ -234,6 +283,20 @@ export const estimateReelsSchema = z
   })
   .meta({ id: 'EstimateReelLength', description: 'Strip reels.', example: { reelLengthMm: 5000 } });
 
+export const estimateStandbySchema = z
+  .object({
+    litMinutesPerDay: z.number().min(0).max(1440).optional().meta({ description: 'Minutes a day the lights are on, for the yearly energy. Default 30 (an assumption for a dwelling’s stair).', default: 30 }),
+    controllerW: z.number().min(0).max(50).optional().meta({ description: 'A controller’s own standby draw, W. Default 0.5 (from memory; use the datasheet).', default: 0.5 }),
+    driverNoLoadW: z.number().min(0).max(50).optional().meta({ description: 'A driver’s no-load input, W. Default 0.5 (the EU standby limit for control gear, from memory).', default: 0.5 }),
+    darkPixelMa: z.number().min(0).max(20).optional().meta({ description: 'Current of a dark pixel IC, mA. Default 1 (0.5–1 mA typical, from memory).', default: 1 }),
+    daylightSensorW: z.number().min(0).max(10).optional().meta({ description: 'An ambient-light sensor’s draw, W. Default 0.05 (from memory).', default: 0.05 }),
+  })
+  .meta({
+    id: 'EstimateStandbyRequest',
+    description: 'Added block: figures for the standby power and the yearly energy; every figure left out takes a documented default.',
+    example: { litMinutesPerDay: 30 },
+  });
+
 const commonFields = {
   controller: estimateControllerSchema,
   cable: estimateCableSchema.optional(),
@@ -241,6 +304,7 @@ const commonFields = {
   sensors: estimateSensorsSchema.optional(),
   reels: estimateReelsSchema.optional(),
   catalog: catalogSchema.optional(),
+  standby: estimateStandbySchema.optional(),
 };
 
 type CrossCheckable = {
@@ -384,6 +448,8 @@ export const CHECK_IDS = [
   'sensor-supply',
   'rail-grouping',
   'piece-fits-reel',
+  'circuit-protection',
+  'feeder-derating',
 ] as const;
 
 export type CheckId = (typeof CHECK_IDS)[number];
@@ -411,6 +477,10 @@ export const estimateTreadSchema = z
     cableLengthM: z.number().meta({ description: 'One-way length of the cable into this tread, service allowance included, m.' }),
     ...sizeFields,
     dropPercent: z.number().meta({ description: 'Voltage drop to this tread’s strip, % (cumulative from the feed point along a pixel chain).' }),
+    pathDropPercent: z
+      .number()
+      .optional()
+      .meta({ description: 'Added field: drop from the driver to this tread’s strip, end to end (feeder + lead), %; tread strips.' }),
   })
   .meta({ id: 'EstimateTread', description: 'One row of the wiring schedule.', example: alderRowTownhouseResponse.treads[2] });
 
@@ -467,12 +537,13 @@ export const estimateRailSupplySchema = z
     totalRatingW: z.number(),
     loadingPercent: z.number().nullable(),
     maxSupplyW: z.number().nullable().meta({ description: 'Cap on one supply (Class 2), W.' }),
+    circuits: z.int().optional().meta({ description: 'Added field: separate circuits on this voltage, each on its own driver (drivers[].count adds up to it where every circuit has a driver).' }),
     ratingsSource: z.enum(['catalog', 'request', 'default']),
     totalPrice: z.number().optional(),
     inputPowerW: z.number().optional(),
     mainsCurrentA: z.number().optional(),
   })
-  .meta({ id: 'EstimateRailSupply', description: 'Drivers for one rail voltage (one rail per voltage).', example: alderRowTownhouseResponse.drivers[0] });
+  .meta({ id: 'EstimateRailSupply', description: 'Drivers for one rail voltage, one per circuit (drivers[].loadW and loadingPercent: the busiest circuit of that rating).', example: alderRowTownhouseResponse.drivers[0] });
 
 export const estimateFeederRunSchema = z
   .object({
@@ -487,12 +558,67 @@ export const estimateFeederRunSchema = z
     dropPercent: z.number(),
     currentRatingA: z.number().nullable(),
     maxInputCurrentA: z.number().nullable().meta({ description: 'The controller’s maximum input current, when it feeds a controller.' }),
+    circuit: z.int().meta({ description: 'Added field: the circuit (and so the one driver) this feeder belongs to; see `circuits`.' }),
+    powerInput: z.int().nullable().optional().meta({ description: 'Added field: the controller’s power input this feeder serves, when it has several (drivers.powerInputsPerController).' }),
+    feedPoint: z.int().nullable().meta({ description: 'Added field: feed point along the pixel run (1 = its start); null for a controller.' }),
+    positionM: z.number().meta({ description: 'Added field: where the controller or feed point is, m along the run.' }),
+    alongRunM: z.number().meta({ description: 'Added field: distance along the run from the driver to here, m; lengthM = feeder.lengthM + alongRunM.' }),
+    pathDropPercent: z
+      .number()
+      .meta({ description: 'Added field: end-to-end drop from the driver to the farthest strip behind this feeder (feeder + lead, or feeder + chain links), %.' }),
+    fuseA: z.number().nullable().meta({ description: 'Added field: fuse at the driver for this feeder, A (1.25 × I_B ≤ I_n ≤ I_z of the thinnest cable it protects); null when none fits.' }),
+    protectedBy: z
+      .enum(['driver current limit', 'fuse', 'none'])
+      .meta({ description: 'Added field: what keeps the thinnest cable of this feeder within its rating: the driver’s own current limit, the fuse, or nothing (a failed check).' }),
   })
-  .meta({ id: 'EstimateFeederRun', description: 'A feeder from a driver.', example: alderRowTownhouseResponse.feeder.runs[0] });
+  .meta({ id: 'EstimateFeederRun', description: 'A feeder from a circuit’s driver to one controller or pixel feed point.', example: alderRowTownhouseResponse.feeder.runs[0] });
+
+export const estimateCircuitSchema = z
+  .object({
+    circuit: z.int().meta({ description: 'Circuit number, from 1.' }),
+    name: z.string().meta({ description: 'What the circuit feeds, in words (e.g. “controller 1”, “feed points 1–4 of the rail”).' }),
+    voltageV: z.number(),
+    loads: z.array(z.enum(['tread strips', 'rail pixels', 'tread pixels'])).meta({ description: 'What the circuit feeds (one driver may feed a controller and rail feed points on the same voltage).' }),
+    loadW: z.number(),
+    currentA: z.number(),
+    driver: z
+      .object({
+        ratingW: z.number(),
+        loadingPercent: z.number(),
+        currentLimitA: z.number().meta({ description: 'The driver’s output current limit (drivers.currentLimitPercent of its rated current), A: every cable it can overload is sized or fused for it.' }),
+        sku: z.string().optional(),
+      })
+      .nullable()
+      .meta({ description: 'The one driver of this circuit; null when no available rating covers it (a failed check).' }),
+    driverPositionM: z.number().meta({ description: 'Where the driver sits, m along the run.' }),
+    feeds: z.int().meta({ description: 'Feeders from this driver (one per controller or feed point); see feeder.runs with this circuit number.' }),
+    worstPathDropPercent: z.number().meta({ description: 'Worst drop from this driver to a strip, end to end, %.' }),
+    fusesA: z.array(z.number().nullable()).meta({ description: 'Fuse per feeder at the driver, A, in feeder order.' }),
+    protectedBy: z.enum(['driver current limit', 'fuse', 'none']),
+  })
+  .meta({
+    id: 'EstimateCircuit',
+    description:
+      'One supply per circuit: a driver and what it alone feeds. Drivers are never paralleled; Class 2 circuits are never interconnected (not even by a shared 0 V along one data chain).',
+    example: {
+      circuit: 1,
+      name: 'controller 1',
+      voltageV: 24,
+      loads: ['tread strips'],
+      loadW: 119,
+      currentA: 4.9583,
+      driver: { ratingW: 150, loadingPercent: 79.3333, currentLimitA: 9.375 },
+      driverPositionM: 2.177,
+      feeds: 1,
+      worstPathDropPercent: 4.9,
+      fusesA: [8],
+      protectedBy: 'driver current limit',
+    },
+  });
 
 export const estimateFeederSchema = z
   .object({
-    lengthM: z.number().meta({ description: 'Length used for every feeder, m.' }),
+    lengthM: z.number().meta({ description: 'The part of every feeder off the run (cable.feederLengthM), m; each run adds its distance along the run.' }),
     lengthDefaulted: z.boolean(),
     runs: z.array(estimateFeederRunSchema),
   })
@@ -597,7 +723,7 @@ export const estimateSensorsResultSchema = z
 export const bomLineSchema = z
   .object({
     sku: z.string().optional(),
-    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
+    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'fuse', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
     description: z.string(),
     quantity: z.int(),
     unit: z.enum(['reel', 'pcs', 'm', 'pair']),
@@ -628,6 +754,38 @@ export const cautionSchema = z
   .object({ code: z.string(), message: z.string() })
   .meta({ id: 'Caution', description: 'Safety and scope notes every estimate carries.', example: alderRowTownhouseResponse.cautions[0] });
 
+export const estimateStandbyResultSchema = z
+  .object({
+    controllerW: z.number().meta({ description: 'Controllers’ own draw, W.' }),
+    sensorsW: z.number().meta({ description: 'Motion sensors (their supply × current) and ambient-light sensors, W.' }),
+    driversW: z.number().meta({ description: 'Drivers at no load, W (mains side).' }),
+    pixelIcsW: z.number().meta({ description: 'Dark pixel ICs, W.' }),
+    totalW: z.number().meta({ description: 'Standby power while the stair is dark, W.' }),
+    litMinutesPerDay: z.number(),
+    litLoadW: z.number().meta({ description: 'Load while lit (brightness cap applied), W.' }),
+    standbyKWhPerYear: z.number(),
+    litKWhPerYear: z.number(),
+    totalKWhPerYear: z.number(),
+    defaultsUsed: z.array(z.string()).meta({ description: 'Figures taken from the defaults rather than the request.' }),
+  })
+  .meta({
+    id: 'EstimateStandby',
+    description: 'Added field: what the installation draws while dark, and its yearly energy for the stated use.',
+    example: {
+      controllerW: 0.5,
+      sensorsW: 0.13,
+      driversW: 0.5,
+      pixelIcsW: 0,
+      totalW: 1.13,
+      litMinutesPerDay: 30,
+      litLoadW: 119,
+      standbyKWhPerYear: 9.693,
+      litKWhPerYear: 21.924,
+      totalKWhPerYear: 31.617,
+      defaultsUsed: ['controllerW', 'driverNoLoadW', 'darkPixelMa', 'daylightSensorW', 'litMinutesPerDay'],
+    },
+  });
+
 export const estimateSummarySchema = z
   .object({
     treads: z.int(),
@@ -635,8 +793,11 @@ export const estimateSummarySchema = z
     controllers: z.int(),
     totalLoadW: z.number(),
     driverCount: z.int(),
-    longestRunM: z.number(),
-    worstDropPercent: z.number(),
+    longestRunM: z.number().meta({
+      description: 'Longest lead from a controller to a tread (tread leads and pixel chain leads, service allowance included), m — the run the 10 m practice limit and the cable-run-length check are about; 0 when the layout has none. Feeders: longestFeederM.',
+    }),
+    longestFeederM: z.number().optional().meta({ description: 'Added field: longest feeder from a driver to a controller or feed point, m.' }),
+    worstDropPercent: z.number().meta({ description: 'Worst drop from a driver to a strip, end to end (feeder + lead or chain links), % — the cable-drop check’s value.' }),
     motionSensors: z.int(),
     reels: z.int(),
     checks: z.object({ pass: z.int(), warn: z.int(), fail: z.int() }),
@@ -651,6 +812,7 @@ export const estimateResponseSchema = z
     treads: z.array(estimateTreadSchema).meta({ description: 'Wiring schedule, foot first; empty for a corridor.' }),
     outputs: estimateOutputsSchema,
     drivers: z.array(estimateRailSupplySchema),
+    circuits: z.array(estimateCircuitSchema).meta({ description: 'Added field: one supply per circuit — each circuit’s driver, load, feeders and protection.' }),
     feeder: estimateFeederSchema,
     pixels: estimatePixelsSchema,
     reels: estimateReelsResultSchema,
@@ -662,6 +824,7 @@ export const estimateResponseSchema = z
     currency: z.string().optional(),
     checks: z.array(estimateCheckSchema),
     cautions: z.array(cautionSchema),
+    standby: estimateStandbyResultSchema,
     trace: z.array(traceEntrySchema),
   })
   .meta({
@@ -676,6 +839,8 @@ export type EstimateCheck = z.output<typeof estimateCheckSchema>;
 export type EstimateOutputs = z.output<typeof estimateOutputsSchema>;
 export type EstimateRailSupply = z.output<typeof estimateRailSupplySchema>;
 export type EstimateFeederRun = z.output<typeof estimateFeederRunSchema>;
+export type EstimateCircuit = z.output<typeof estimateCircuitSchema>;
+export type EstimateStandby = z.output<typeof estimateStandbyResultSchema>;
 export type EstimatePixelRun = z.output<typeof estimatePixelRunSchema>;
 export type EstimateCableLine = z.output<typeof estimateCableLineSchema>;
 export type EstimateSensorsResult = z.output<typeof estimateSensorsResultSchema>;

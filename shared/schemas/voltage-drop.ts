@@ -65,7 +65,7 @@ export const voltageDropResponseSchema = z
       loadDistribution: 'end',
       currentRatingA: 3,
       warnings: [],
-      engineVersion: '1.0.0',
+      engineVersion: '2.0.0',
       trace: [
         {
           quantity: 'dropV',

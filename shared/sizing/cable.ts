@@ -26,6 +26,10 @@ export interface CableOptions {
   minCrossSectionMm2?: number | undefined;
   temperatureC?: number | undefined;
   loadDistribution?: LoadDistribution | undefined;
+  /** The size must also be rated for this current, A (a current-limited driver's limit, which may never blow a fuse). */
+  mustCarryA?: number | undefined;
+  /** Multiplies every table resistance after the temperature correction (1.25 for the Annex G service resistivity). */
+  resistanceFactor?: number | undefined;
 }
 
 export interface SuitableConductor {
@@ -56,9 +60,10 @@ export function smallestSuitableConductor(
   const temperatureC = options.temperatureC ?? table.referenceTemperatureC;
   const maxDropPercent = options.maxDropPercent ?? DEFAULT_MAX_DROP_PERCENT;
   const minCrossSectionMm2 = options.minCrossSectionMm2 ?? DEFAULT_MIN_CROSS_SECTION_MM2;
+  const mustCarryA = Math.max(currentA, options.mustCarryA ?? 0);
   for (const row of table.rows) {
-    if (!meetsMinimum(row, minCrossSectionMm2) || currentA > row.currentRatingA) continue;
-    const r = correctForTemperature(row.resistanceOhmPerKm, table.referenceTemperatureC, temperatureC);
+    if (!meetsMinimum(row, minCrossSectionMm2) || mustCarryA > row.currentRatingA) continue;
+    const r = runResistanceOhmPerKm(row, table.referenceTemperatureC, temperatureC, options.resistanceFactor);
     const dropV = loopDropV(currentA, lengthM, r, options.loadDistribution);
     const dropPercent = dropPercentOf(dropV, supplyVoltageV);
     if (withinDropLimit(dropPercent, maxDropPercent)) {
@@ -66,6 +71,11 @@ export function smallestSuitableConductor(
     }
   }
   return null;
+}
+
+/** One conductor's resistance for a run: the table value at the temperature, times the resistance factor. */
+export function runResistanceOhmPerKm(row: ConductorRow, referenceTemperatureC: number, temperatureC: number, resistanceFactor = 1): number {
+  return correctForTemperature(row.resistanceOhmPerKm, referenceTemperatureC, temperatureC) * resistanceFactor;
 }
 
 type AlternativeChecks = Omit<CableAlternative, 'awg' | 'crossSectionMm2'>;

@@ -1,5 +1,5 @@
 import type { DriverGroup, DriverInput, DriverResult } from '../schemas/driver.js';
-import { chooseDriverMix } from './driver-mix.js';
+import { splitIntoCircuits } from './driver-mix.js';
 import { SizingInputError } from './errors.js';
 import { round, settingEntry, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
@@ -9,11 +9,13 @@ export const DEFAULT_DRIVER_RATINGS_W: readonly number[] = [30, 60, 100, 150, 20
 export const DEFAULT_MAX_LOADING_PERCENT = 80;
 export const DEFAULT_MAINS_VOLTAGE_V = 230;
 export const DEFAULT_POWER_FACTOR = 0.9;
+/** A CV driver's overload limit, % of rated current: datasheets commonly give 105–150 % (from memory); the upper figure is the safe one for cables. */
+export const DEFAULT_CURRENT_LIMIT_PERCENT = 150;
 
 const LOADING_REFERENCE =
   'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load';
 const CLASS2_REFERENCE =
-  'NEC Chapter 9 Table 11(B), DC not inherently limited: over 20–60 V 100 VA; 0–20 V 5.0 × V VA and 5 A (from memory); UL 1310';
+  'NEC Chapter 9 Table 11(B), DC not inherently limited, by the maximum output voltage: over 20–60 V 100 VA; 0–20 V 5.0 × Vmax VA and 5 A (from memory); UL 1310';
 const SELV_REFERENCE = 'IEC 60598-1 8.2.3 (exposed live parts of Class III luminaires ≤ 60 V ripple-free DC); IEC 61140 / IEC 60364-4-41 (SELV ≤ 120 V ripple-free DC)';
 
 /** Prices for the catalog case: aligned with availableRatingsW, or keyed by rating. */
@@ -21,12 +23,31 @@ export type DriverPrices = readonly number[] | ReadonlyMap<number, number>;
 
 export type DriverSelectionInput = DriverInput & { prices?: DriverPrices | undefined };
 
-/** Largest Class 2 supply at this voltage, VA; null above 60 V, where Class 2 does not exist. */
-export function class2MaxVA(outputVoltageV: number): number | null {
-  if (outputVoltageV <= 20) return 5 * outputVoltageV;
-  if (outputVoltageV <= 60) return 100;
+/**
+ * Largest Class 2 supply, VA, by its maximum output voltage (Vmax, not the nominal): up to 20 V
+ * 5 × Vmax VA (with 5 A); over 20 to 60 V 100 VA. null above 60 V, where Class 2 does not exist.
+ */
+export function class2MaxVA(maxOutputVoltageV: number): number | null {
+  if (maxOutputVoltageV <= 20) return 5 * maxOutputVoltageV;
+  if (maxOutputVoltageV <= 60) return 100;
   return null;
 }
+
+/** Class 2 current limit up to 20 V: 5 A (NEC Chapter 9 Table 11(B), from memory); none above. */
+export function class2MaxCurrentA(maxOutputVoltageV: number): number | null {
+  return maxOutputVoltageV <= 20 ? 5 : null;
+}
+
+/** Largest Class 2 load in W at the nominal voltage: the VA limit by Vmax, and up to 20 V the 5 A limit too. */
+export function class2CapW(outputVoltageV: number, maxOutputVoltageV = outputVoltageV): number | null {
+  const va = class2MaxVA(maxOutputVoltageV);
+  if (va === null) return null;
+  const amps = class2MaxCurrentA(maxOutputVoltageV);
+  return amps === null ? va : Math.min(va, amps * outputVoltageV);
+}
+
+export const CIRCUIT_REFERENCE =
+  'one supply per circuit: constant-voltage drivers are not paralleled unless their datasheet allows it (common practice, no published source); Class 2 supplies shall not be paralleled or interconnected unless listed for it (NEC 725.121(B) 2017/2020, 725.60(B) 2023, from memory)';
 
 /** Rating the drivers must add up to: load / (maxLoadingPercent / 100). */
 export function requiredRatingW(loadW: number, maxLoadingPercent = DEFAULT_MAX_LOADING_PERCENT): number {
@@ -68,11 +89,12 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
   const warnings: Warning[] = [];
 
   // Cap on one supply: Class 2 by voltage, and/or an explicit VA cap (VA = W on the DC side).
-  const class2Cap = input.class2 ? class2MaxVA(input.outputVoltageV) : null;
+  const vmax = input.maxOutputVoltageV ?? input.outputVoltageV;
+  const class2Cap = input.class2 ? class2CapW(input.outputVoltageV, vmax) : null;
   if (input.class2 && class2Cap === null) {
     warnings.push({
       code: 'class2_not_available',
-      message: `Class 2 supplies stop at 60 V DC (30 V in wet locations); ${input.outputVoltageV} V cannot be Class 2, so no Class 2 cap was applied.`,
+      message: `Class 2 supplies stop at 60 V DC (30 V in wet locations); a ${vmax} V maximum output cannot be Class 2, so no Class 2 cap was applied.`,
     });
   }
   const caps = [class2Cap, input.maxSupplyVA ?? null].filter((c): c is number => c !== null);
@@ -89,22 +111,21 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
     }
   });
 
-  const mix = chooseDriverMix(requiredW, usableRatings, prices ? usablePrices : undefined);
+  const split = splitIntoCircuits(requiredW, usableRatings, prices ? usablePrices : undefined);
   const drivers: DriverGroup[] = [];
-  const loadingPercent = mix ? (input.loadW / mix.totalRatingW) * 100 : null;
-  if (mix) {
-    mix.ratingsW.forEach((ratingW, i) => {
-      drivers.push({
-        ratingW,
-        count: mix.counts[i]!,
-        loadW: round((input.loadW * ratingW) / mix.totalRatingW, 4),
-        loadingPercent: round(loadingPercent!, 4),
-      });
+  const circuitLoadW = split ? input.loadW / split.circuits : null;
+  const loadingPercent = split ? (circuitLoadW! / split.driver.ratingW) * 100 : null;
+  if (split) {
+    drivers.push({
+      ratingW: split.driver.ratingW,
+      count: split.circuits,
+      loadW: round(circuitLoadW!, 4),
+      loadingPercent: round(loadingPercent!, 4),
     });
-    if (!mix.exhaustive) {
+    if (split.circuits > 1) {
       warnings.push({
-        code: 'driver_search_truncated',
-        message: 'The rating list is too finely spaced to search every mix; the drivers shown cover the load but may not be the cheapest.',
+        code: 'load_split_into_circuits',
+        message: `No single ${round(requiredW, 1)} W supply is available${maxSupplyW !== null ? ` within the ${maxSupplyW} W cap` : ''}: wire the load as ${split.circuits} separate circuits of at most ${round(circuitLoadW!, 1)} W, each on its own ${split.driver.ratingW} W driver. Never parallel the drivers' outputs${input.class2 ? ' or join the 0 V of Class 2 supplies' : ''}.`,
       });
     }
   } else {
@@ -147,6 +168,8 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
       inputs: {
         outputVoltageV: input.outputVoltageV,
         class2: input.class2 ?? false,
+        maxOutputVoltageV: vmax,
+        maxOutputVoltageDefaulted: input.maxOutputVoltageV === undefined,
         class2LimitVA: class2Cap,
         maxSupplyVA: input.maxSupplyVA ?? null,
         unusableRatingsW: unusableRatingsW.join(', '),
@@ -154,32 +177,43 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
       reference: input.class2 ? CLASS2_REFERENCE : 'request',
     },
     {
-      quantity: 'drivers',
-      value: mix ? mix.ratingsW.map((r, i) => `${mix.counts[i]} × ${r} W`).join(' + ') : 'none',
-      unit: '',
-      formula: 'Σ ratings ≥ required; fewest drivers, then least total ' + (prices ? 'price' : 'rating') + ', then fewest distinct ratings',
+      quantity: 'circuits',
+      value: split ? split.circuits : 0,
+      unit: 'circuits',
+      formula: 'ceil(requiredRatingW / largest usable rating): the fewest separate circuits, the load split evenly over them',
       inputs: {
         requiredRatingW: round(requiredW, 4),
+        largestUsableRatingW: usableRatings.length > 0 ? Math.max(...usableRatings) : null,
+      },
+      reference: CIRCUIT_REFERENCE,
+    },
+    {
+      quantity: 'drivers',
+      value: split ? `${split.circuits} × ${split.driver.ratingW} W, one per circuit` : 'none',
+      unit: '',
+      formula: 'per circuit the ' + (prices ? 'cheapest' : 'smallest') + ' single rating ≥ requiredRatingW / circuits; drivers are never paralleled',
+      inputs: {
+        requiredPerCircuitW: split ? round(split.requiredPerCircuitW, 4) : null,
         availableRatingsW: ratingsW.join(', '),
         availableRatingsDefault: input.availableRatingsW === undefined,
-        totalPrice: mix && mix.totalPrice !== null ? round(mix.totalPrice, 2) : null,
+        totalPrice: split && split.driver.price !== null ? round(split.driver.price * split.circuits, 2) : null,
       },
-      reference: 'common practice, no published source',
+      reference: CIRCUIT_REFERENCE,
     },
     {
       quantity: 'totalRatingW',
-      value: mix ? mix.totalRatingW : 0,
+      value: split ? split.circuits * split.driver.ratingW : 0,
       unit: 'W',
-      formula: 'Σ count × ratingW',
-      inputs: { driverCount: mix ? mix.driverCount : 0 },
-      reference: 'common practice, no published source',
+      formula: 'circuits × ratingW',
+      inputs: { driverCount: split ? split.circuits : 0 },
+      reference: 'arithmetic',
     },
     {
       quantity: 'loadingPercent',
       value: loadingPercent === null ? 'none' : round(loadingPercent, 4),
       unit: '%',
-      formula: 'P_load / Σ ratings · 100 (load shared in proportion to rating)',
-      inputs: { loadW: input.loadW, totalRatingW: mix ? mix.totalRatingW : 0 },
+      formula: 'P_circuit / ratingW · 100, P_circuit = P_load / circuits',
+      inputs: { loadW: input.loadW, circuitLoadW: circuitLoadW === null ? null : round(circuitLoadW, 4), ratingW: split ? split.driver.ratingW : null },
       reference: LOADING_REFERENCE,
     },
     {
@@ -196,8 +230,10 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
     requiredRatingW: round(requiredW, 4),
     maxLoadingPercent,
     drivers,
-    driverCount: mix ? mix.driverCount : 0,
-    totalRatingW: mix ? mix.totalRatingW : 0,
+    driverCount: split ? split.circuits : 0,
+    circuits: split ? split.circuits : 0,
+    circuitLoadW: circuitLoadW === null ? null : round(circuitLoadW, 4),
+    totalRatingW: split ? split.circuits * split.driver.ratingW : 0,
     loadingPercent: loadingPercent === null ? null : round(loadingPercent, 4),
     maxSupplyW,
     unusableRatingsW,
@@ -205,7 +241,7 @@ export function chooseDrivers(input: DriverSelectionInput): DriverResult {
     engineVersion: ENGINE_VERSION,
     trace,
   };
-  if (mix && mix.totalPrice !== null) result.totalPrice = round(mix.totalPrice, 2);
+  if (split && split.driver.price !== null) result.totalPrice = round(split.driver.price * split.circuits, 2);
 
   if (input.efficiencyPercent !== undefined) {
     const mainsVoltageV = input.mainsVoltageV ?? DEFAULT_MAINS_VOLTAGE_V;

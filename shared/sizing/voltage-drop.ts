@@ -5,13 +5,13 @@ import { ENGINE_VERSION } from './version.js';
 
 export type LoadDistribution = 'end' | 'uniform';
 
-/** No standard gives a drop limit for LED strip runs; 5 % is the trade's usual figure. */
+/** ELV lighting: ≤ 5 % from the converter to the farthest luminaire (IEC 60364-7-715 / BS 7671 715.525, from memory). */
 export const DEFAULT_MAX_DROP_PERCENT = 5;
 /** Extension cable controller → tread: common practice, no published source. */
 export const PRACTICE_MAX_RUN_M = 10;
 
 export const DROP_LIMIT_REFERENCE =
-  'common practice, no published source: no standard gives a limit for LED strip runs (IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply)';
+  'IEC 60364-7-715 / BS 7671 715.525: ≤ 5 % from the ELV converter (driver) to the farthest luminaire, end to end (from memory); IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply';
 export const LOOP_REFERENCE = 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1)';
 export const UNIFORM_REFERENCE = 'DC distributor theory, load spread evenly and fed from one end: I·R/2 (any circuits text)';
 
@@ -44,7 +44,7 @@ export function runLengthWarning(lengthM: number): Warning | null {
 export function defaultDropLimitWarning(): Warning {
   return {
     code: 'default_drop_limit',
-    message: `No maxDropPercent given: the default ${DEFAULT_MAX_DROP_PERCENT} % was used. No standard gives a drop limit for LED strip runs; check the strip's datasheet.`,
+    message: `No maxDropPercent given: the default ${DEFAULT_MAX_DROP_PERCENT} % was used — the ELV lighting limit from the driver to the farthest luminaire (IEC 60364-7-715 / BS 7671 715.525, from memory); this run is only part of that path, and the strip's datasheet may ask for less.`,
   };
 }
 
@@ -98,6 +98,14 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
         alpha: round(copperAlphaAt(table.referenceTemperatureC), 6),
       },
       reference: `${row.resistanceSource}; temperature correction IEC 60028`,
+    },
+    {
+      quantity: 'resistanceBasis',
+      value: `${table.id} at ${temperatureC} °C`,
+      unit: '',
+      formula: input.temperatureC === undefined ? 'default: the table’s reference temperature, not the Annex G service resistivity (1.25 × ρ20) that estimates use' : 'as given',
+      inputs: { conductorTable: tableId, temperatureC, referenceTemperatureC: table.referenceTemperatureC },
+      reference: table.reference,
     },
     {
       quantity: 'loopResistanceOhm',

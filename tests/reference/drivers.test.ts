@@ -24,20 +24,35 @@ describe('80 % loading rule (common practice, no published source)', () => {
   });
 });
 
-describe('driver mix (domain.md worked examples)', () => {
-  it('216 W from [60, 100, 150, 240] → 2 × 150 W', () => {
+describe('one supply per circuit (domain.md "Driver" worked examples)', () => {
+  it('216 W from [60, 100, 150, 240, 320] → one 320 W', () => {
+    const result = run({ loadW: 216, outputVoltageV: 24, availableRatingsW: [60, 100, 150, 240, 320] });
+    // domain.md: 216 W on one controller input, 270 W needed → one 320 W
+    expect(mix(result)).toEqual([[1, 320]]);
+    expect(result.circuits).toBe(1);
+    expect(result.warnings.map((w) => w.code)).not.toContain('load_split_into_circuits');
+  });
+
+  it('216 W from [60, 100, 150, 240] → two separate circuits of 108 W, each on its own 150 W driver', () => {
     const result = run({ loadW: 216, outputVoltageV: 24, availableRatingsW: [60, 100, 150, 240] });
-    // domain.md: 270 W needed → 2 × 150 (beats 240 + 60 on distinct ratings)
+    // domain.md: no single rating covers 270 W, so the load is split: 270 / 240 → 2 circuits of 135 W needed → 150 W each
     expect(mix(result)).toEqual([[2, 150]]);
-    expect(result.totalRatingW).toBe(300); // 2 × 150 W (domain.md)
-    // load shared in proportion to rating: 216 / 2 = 108 W each, 72 % (hand arithmetic)
-    expect(result.drivers[0]!.loadW).toBe(108);
+    expect(result.circuits).toBe(2);
+    // hand arithmetic: 216 / 2 = 108 W per circuit, 108 / 150 = 72 %
+    expect(result.circuitLoadW).toBe(108);
     expect(result.drivers[0]!.loadingPercent).toBe(72);
+    // common practice, no published source: drivers are not paralleled — the answer says so
+    expect(result.warnings.find((w) => w.code === 'load_split_into_circuits')?.message).toMatch(/2 separate circuits.*Never parallel/);
   });
 
   it('216 W from the default series → 1 × 320 W', () => {
-    // domain.md default series 30 … 480 W: 270 W needed, one 320 W is the fewest drivers with the least rating
+    // domain.md default series 30 … 480 W: 270 W needed, one 320 W is the smallest single rating
     expect(mix(run({ loadW: 216, outputVoltageV: 24 }))).toEqual([[1, 320]]);
+  });
+
+  it('480 W + 320 W are never combined for one load: 700 W → two 480 W circuits', () => {
+    // issue 8 item 1: unequal drivers do not share in proportion; 875 W needed, the largest 480 W → 2 circuits of 437.5 W → 480 W each
+    expect(mix(run({ loadW: 700, outputVoltageV: 24 }))).toEqual([[2, 480]]);
   });
 });
 
@@ -49,6 +64,30 @@ describe('NEC Class 2 (Chapter 9 Table 11)', () => {
     // domain.md: 216 W at 24 V, 80 % of 100 VA supplies → 216 / 80 = 2.7 → 3
     expect(result.driverCount).toBe(3);
     expect(mix(result)).toEqual([[3, 100]]);
+  });
+
+  it('500 W at 24 V Class 2 → 7 separate 100 VA circuits, not 6 × 100 W + 1 × 30 W in parallel', () => {
+    const result = run({ loadW: 500, outputVoltageV: 24, class2: true });
+    // NEC Chapter 9 Table 11(B) 100 VA per supply; 500 / 0.8 = 625 W → ceil(625 / 100) = 7 circuits (hand arithmetic);
+    // NEC 725.121(B) (2017/2020) / 725.60(B) (2023), from memory: Class 2 supplies are not paralleled
+    expect(mix(result)).toEqual([[7, 100]]);
+    // hand arithmetic: 500 / 7 = 71.4286 W per circuit, 71.43 %
+    expect(result.circuitLoadW).toBeCloseTo(71.4286, 4);
+    expect(result.loadingPercent).toBeCloseTo(71.4286, 4);
+  });
+
+  it('119 W at 24 V Class 2 → two 100 VA circuits, not 100 W + 60 W in parallel', () => {
+    // NEC Chapter 9 Table 11(B): 100 VA at 24 V; 148.75 W needed → 2 circuits of 59.5 W → 74.375 W → 100 W each (hand arithmetic)
+    expect(mix(run({ loadW: 119, outputVoltageV: 24, class2: true }))).toEqual([[2, 100]]);
+  });
+
+  it('follows the maximum output voltage, not the nominal', () => {
+    // NEC Chapter 9 Table 11(B), 0–20 V: 5 × Vmax VA and 5 A (from memory): 12 V set to 13.2 V → min(66 VA, 5 A × 12 V) = 60 W
+    expect(run({ loadW: 40, outputVoltageV: 12, maxOutputVoltageV: 13.2, class2: true }).maxSupplyW).toBe(60);
+    // 5 V nominal with a 5.5 V maximum: min(27.5 VA, 5 A × 5 V) = 25 W
+    expect(run({ loadW: 10, outputVoltageV: 5, maxOutputVoltageV: 5.5, class2: true }).maxSupplyW).toBe(25);
+    // a 20 V nominal supply with a 21 V maximum falls in the 20–60 V row: 100 VA
+    expect(run({ loadW: 40, outputVoltageV: 20, maxOutputVoltageV: 21, class2: true }).maxSupplyW).toBe(100);
   });
 
   it('caps 0–20 V supplies at 5 × V VA', () => {

@@ -96,4 +96,22 @@ describe('trace', () => {
       expect(byQuantity[quantity]!.reference.length).toBeGreaterThan(0);
     }
   });
+
+  it('keeps the table at its 20 °C reference (not the Annex G service value) and cites the table', () => {
+    const result = run({ supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } });
+    const basis = result.trace.find((t) => t.quantity === 'resistanceBasis')!;
+    // api-contract.md: the calculation's default temperature is the table's reference, 20 °C for IEC 60228
+    expect(basis.value).toBe('iec60228-class5 at 20 °C');
+    expect(basis.reference).toMatch(/IEC 60228 class 5/);
+    expect(basis.formula).toMatch(/not the Annex G service resistivity/);
+    // IEC 60228 class 5 0.75 mm²: 26.0 Ω/km at 20 °C, unscaled
+    expect(result.resistanceOhmPerKm).toBe(26);
+  });
+
+  it('cites the ELV lighting section for the 5 % default', () => {
+    const result = run({ supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } });
+    // IEC 60364-7-715 / BS 7671 715.525 (from memory): ≤ 5 % from the converter to the farthest luminaire
+    expect(result.trace.find((t) => t.quantity === 'withinLimit')!.reference).toMatch(/IEC 60364-7-715 \/ BS 7671 715\.525/);
+    expect(result.warnings.find((w) => w.code === 'default_drop_limit')!.message).toMatch(/ELV lighting limit/);
+  });
 });

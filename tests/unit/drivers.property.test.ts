@@ -1,35 +1,20 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { chooseDriverMix } from '../../shared/sizing/driver-mix.js';
+import { splitIntoCircuits } from '../../shared/sizing/driver-mix.js';
 import { chooseDrivers, class2MaxVA, requiredRatingW } from '../../shared/sizing/drivers.js';
 import { SizingInputError } from '../../shared/sizing/errors.js';
 
 /**
- * Independent brute force: every multiset of the ratings, smallest count first; the best by
- * (cost, distinct ratings, total rating) — the order the handbook (domain.md) gives.
+ * Independent oracle for one supply per circuit: try 1, 2, 3 … equal circuits until some single
+ * rating covers a circuit's share; among those ratings the cheapest (or smallest).
  */
-function bruteForce(requiredW: number, ratings: number[], prices?: number[]) {
-  const unique = [...new Set(ratings)].map((r) => ({ r, p: prices ? Math.min(...ratings.flatMap((x, i) => (x === r ? [prices[i]!] : []))) : r }));
-  for (let count = 1; ; count += 1) {
-    let best: { cost: number; distinct: number; total: number } | null = null;
-    const walk = (start: number, left: number, total: number, cost: number, used: Set<number>) => {
-      if (left === 0) {
-        if (total < requiredW * (1 - 1e-9)) return;
-        const cand = { cost, distinct: used.size, total };
-        const better =
-          !best ||
-          cand.cost < best.cost - 1e-9 ||
-          (Math.abs(cand.cost - best.cost) <= 1e-9 && (cand.distinct < best.distinct || (cand.distinct === best.distinct && cand.total < best.total - 1e-9)));
-        if (better) best = cand;
-        return;
-      }
-      for (let i = start; i < unique.length; i += 1) {
-        const next = new Set(used).add(unique[i]!.r);
-        walk(i, left - 1, total + unique[i]!.r, cost + unique[i]!.p, next);
-      }
-    };
-    walk(0, count, 0, 0, new Set());
-    if (best) return { count, ...(best as { cost: number; distinct: number; total: number }) };
+function oracle(requiredW: number, ratings: number[], prices?: number[]) {
+  for (let circuits = 1; ; circuits += 1) {
+    const share = requiredW / circuits;
+    const fits = ratings.map((r, i) => ({ r, p: prices ? prices[i]! : r })).filter((x) => x.r >= share * (1 - 1e-9));
+    if (fits.length === 0) continue;
+    fits.sort((x, y) => x.p - y.p || x.r - y.r);
+    return { circuits, ratingW: fits[0]!.r, price: fits[0]!.p };
   }
 }
 
@@ -38,34 +23,36 @@ const load = fc.double({ min: 1, max: 1500, noNaN: true });
 const loading = fc.double({ min: 50, max: 100, noNaN: true });
 
 describe('chooseDrivers', () => {
-  it('always covers load / loading with the loading at or below the limit', () => {
+  it('gives every circuit one driver that covers it at or below the loading limit', () => {
     fc.assert(
       fc.property(load, loading, ratings, (loadW, maxLoadingPercent, availableRatingsW) => {
         const result = chooseDrivers({ loadW, outputVoltageV: 24, maxLoadingPercent, availableRatingsW });
-        // common practice, no published source: Σ ratings ≥ load / loading
-        expect(result.totalRatingW).toBeGreaterThanOrEqual(requiredRatingW(loadW, maxLoadingPercent) * (1 - 1e-9));
-        for (const d of result.drivers) expect(d.loadingPercent).toBeLessThanOrEqual(maxLoadingPercent + 1e-4);
-        // The load is shared in proportion to rating: the groups add back up to the load (each loadW is rounded to 4 decimals).
-        const shared = result.drivers.reduce((sum, d) => sum + d.loadW * d.count, 0);
-        expect(Math.abs(shared - loadW)).toBeLessThanOrEqual(5e-5 * result.driverCount + 1e-9);
+        // one supply per circuit (domain.md "Driver"): a single rating group, count = circuits
+        expect(result.drivers).toHaveLength(1);
+        const [group] = result.drivers;
+        expect(group!.count).toBe(result.circuits);
+        // common practice, no published source: each circuit's rating ≥ its load / loading
+        expect(group!.ratingW).toBeGreaterThanOrEqual(requiredRatingW(group!.loadW, maxLoadingPercent) * (1 - 1e-6));
+        expect(group!.loadingPercent).toBeLessThanOrEqual(maxLoadingPercent + 1e-4);
+        // the circuits add back up to the load (each loadW is rounded to 4 decimals)
+        expect(Math.abs(group!.loadW * group!.count - loadW)).toBeLessThanOrEqual(5e-5 * group!.count + 1e-9);
+        // no paralleling to reach a rating: more than one circuit only when no single rating covers the whole load
+        if (result.circuits > 1) expect(Math.max(...availableRatingsW)).toBeLessThan(requiredRatingW(loadW, maxLoadingPercent));
       }),
     );
   });
 
-  it('finds the same optimum as brute force (fewest, then cheapest or smallest, then fewest distinct)', () => {
+  it('finds the same split as an independent oracle (fewest circuits, then the cheapest or smallest rating)', () => {
     const prices = fc.option(fc.array(fc.integer({ min: 1, max: 200 }), { minLength: 5, maxLength: 5 }), { nil: undefined });
     fc.assert(
-      // Small enough for brute force: at most 15 drivers from 5 ratings.
-      fc.property(fc.double({ min: 1, max: 600, noNaN: true }), fc.array(fc.integer({ min: 50, max: 500 }), { minLength: 1, maxLength: 5 }), prices, (loadW, available, priceList) => {
+      fc.property(fc.double({ min: 1, max: 2000, noNaN: true }), fc.array(fc.integer({ min: 50, max: 500 }), { minLength: 1, maxLength: 5 }), prices, (loadW, available, priceList) => {
         const requiredW = requiredRatingW(loadW);
         const p = priceList?.slice(0, available.length);
-        const mix = chooseDriverMix(requiredW, available, p)!;
-        const oracle = bruteForce(requiredW, available, p);
-        expect(mix.driverCount).toBe(oracle.count);
-        expect(mix.totalPrice ?? mix.totalRatingW).toBeCloseTo(oracle.cost, 6);
-        expect(mix.ratingsW.length).toBe(oracle.distinct);
-        expect(mix.totalRatingW).toBeCloseTo(oracle.total, 6);
-        expect(mix.exhaustive).toBe(true);
+        const split = splitIntoCircuits(requiredW, available, p)!;
+        const expected = oracle(requiredW, available, p);
+        expect(split.circuits).toBe(expected.circuits);
+        expect(split.driver.ratingW).toBe(expected.ratingW);
+        if (p) expect(split.driver.price).toBe(expected.price);
       }),
     );
   });
@@ -84,12 +71,12 @@ describe('chooseDrivers', () => {
     );
   });
 
-  it('prefers the cheaper mix when prices are given', () => {
-    // 200 W needs 250 W (common practice 80 %); by rating 150 + 100 (250 W) wins, by price 200 + 100 (invented prices) does.
-    expect(chooseDrivers({ loadW: 200, outputVoltageV: 24, availableRatingsW: [100, 150, 200] }).drivers.map((d) => d.ratingW)).toEqual([150, 100]);
-    const priced = chooseDrivers({ loadW: 200, outputVoltageV: 24, availableRatingsW: [100, 150, 200], prices: new Map([[100, 10], [150, 40], [200, 25]]) });
-    expect(priced.drivers.map((d) => d.ratingW)).toEqual([200, 100]);
-    expect(priced.totalPrice).toBe(35); // 25 + 10 (the invented prices above)
+  it('prefers the cheaper single driver when prices are given', () => {
+    // 100 W needs 125 W (common practice 80 %); by rating one 150 W wins, by price one 200 W does (invented prices).
+    expect(chooseDrivers({ loadW: 100, outputVoltageV: 24, availableRatingsW: [100, 150, 200] }).drivers.map((d) => d.ratingW)).toEqual([150]);
+    const priced = chooseDrivers({ loadW: 100, outputVoltageV: 24, availableRatingsW: [100, 150, 200], prices: new Map([[100, 10], [150, 40], [200, 25]]) });
+    expect(priced.drivers.map((d) => d.ratingW)).toEqual([200]);
+    expect(priced.totalPrice).toBe(25); // one 200 W at 25 (the invented prices above)
   });
 
   it('rejects prices that do not match the ratings', () => {

@@ -101,6 +101,8 @@ const common = {
       serviceAllowanceM: dbl(0, 10),
       temperatureC: dbl(-50, 150),
       feederLengthM: dbl(0.1, 100),
+      feederDropPercent: dbl(0.1, 20),
+      jurisdiction: fc.constantFrom('iec', 'uk', 'us'),
     },
     { requiredKeys: [] },
   ),
@@ -112,6 +114,9 @@ const common = {
       efficiencyPercent: dbl(10, 100),
       mainsVoltageV: dbl(50, 1000),
       powerFactor: dbl(0.1, 1),
+      positionsM: fc.array(dbl(0, 500), { minLength: 1, maxLength: 4 }),
+      currentLimitPercent: dbl(100, 300),
+      powerInputsPerController: fc.integer({ min: 1, max: 16 }),
     },
     { requiredKeys: [] },
   ),
@@ -218,12 +223,13 @@ describe('estimate: any request in the schema’s range', () => {
           expect(Math.abs(totalW - (treadLoadW + railW))).toBeLessThanOrEqual(5e-5 * (result.treads.length + 2) + 1e-6 * totalW);
           const maxLoading = input?.drivers?.maxLoadingPercent ?? 80;
           for (const rail of result.drivers) {
-            if (rail.loadW === 0 || rail.driverCount === 0) continue;
+            // One supply per circuit (domain.md "Driver"): the sum only covers the rail when every circuit has its driver.
+            if (rail.loadW === 0 || rail.driverCount < (rail.circuits ?? 1)) continue;
             // common practice, no published source: Σ ratings ≥ load / loading (loadW is shown to 4 decimals)
             expect(rail.totalRatingW).toBeGreaterThanOrEqual((((rail.loadW - 5e-5) * 100) / maxLoading) * (1 - 1e-9));
           }
-          // A rail with load but no driver must be reported as a failing driver check.
-          if (result.drivers.some((r) => r.loadW > 0 && r.driverCount === 0)) {
+          // A rail with a circuit that has no driver must be reported as a failing driver check.
+          if (result.drivers.some((r) => r.loadW > 0 && r.driverCount < (r.circuits ?? 1))) {
             expect(result.checks.find((c) => c.id === 'driver-loading')?.status).toBe('fail');
           }
         }),

@@ -105,6 +105,10 @@ function cableDrafts(cables: EstimateCableLine[], catalog: CatalogIndex | null):
   return drafts;
 }
 
+function circuitList(indexes: number[]): string {
+  return indexes.length === 1 ? `circuit ${indexes[0]}` : `circuits ${indexes.join(', ')}`;
+}
+
 function sameSize(a: ConductorSize | null, b: ConductorSize | null): boolean {
   if (a === null || b === null) return a === b;
   return 'awg' in a ? 'awg' in b && a.awg === b.awg : 'crossSectionMm2' in b && a.crossSectionMm2 === b.crossSectionMm2;
@@ -157,12 +161,21 @@ function drafts(input: BomInput): LineDraft[] {
       const item = sku && catalog ? catalog.drivers.find((d) => d.sku === sku) : undefined;
       out.push({
         category: 'driver',
-        description: `LED driver ${rail.voltageV} V ${g.ratingW} W${input.settings.drivers.class2 ? ' (Class 2)' : ''}`,
+        description: `LED driver ${rail.voltageV} V ${g.ratingW} W${input.settings.drivers.class2 ? ' (listed Class 2)' : ''}, one per circuit (${circuitList(rail.circuits.filter((c) => c.ratingW === g.ratingW).map((c) => c.index))}); never parallel their outputs`,
         quantity: g.count,
         unit: 'pcs',
         match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
       });
     }
+  }
+
+  // One fuse per feeder at its driver, grouped by rating (circuits and protection).
+  const fuses = new Map<number, number>();
+  for (const f of input.supplies.feeders) {
+    if (f.target.currentA > 0 && f.protection.fuseA !== null) fuses.set(f.protection.fuseA, (fuses.get(f.protection.fuseA) ?? 0) + 1);
+  }
+  for (const [ratingA, count] of [...fuses.entries()].sort((a, b) => a[0] - b[0])) {
+    out.push({ category: 'fuse', description: `Inline fuse holder with ${ratingA} A fuse, at the driver output of a feeder`, quantity: count, unit: 'pcs' });
   }
 
   const controllerItem = input.settings.controllerSku && catalog ? catalog.controllers.find((c) => c.sku === input.settings.controllerSku) : undefined;

@@ -4,8 +4,11 @@ import { conductorTable, describeSize, sizeOfRow } from '../conductors.js';
 import { PRACTICE_MAX_RUN_M } from '../geometry.js';
 import { DROP_LIMIT_REFERENCE, LOOP_REFERENCE } from '../voltage-drop.js';
 import { describeUse, type CableUse } from './cable-schedule.js';
+import type { Feeder } from './circuits.js';
+import { PROTECTION_REFERENCE } from '../protection.js';
 import { flagged, fmt, passed, treadsText, type Design } from './checks.js';
-import { nextSizeLabel, sizeLabel } from './run-cable.js';
+import { minimumFor, nextSizeLabel, sizeLabel } from './run-cable.js';
+import { ELV_MIN_CROSS_SECTION_MM2, ELV_MINIMUM_REFERENCE } from './settings.js';
 import { runLengthAdvice } from './stair.js';
 
 const RUN_LENGTH_REFERENCE = 'common practice, no published source: controller-to-tread runs of 10 m or less';
@@ -51,46 +54,81 @@ function capitalise(text: string): string {
   return text.charAt(0).toUpperCase() + text.slice(1);
 }
 
+/** Where each circuit's driver would make its longest feeder shortest: midway between its farthest feeds. */
+function spreadPositionsM(d: Design): number[] {
+  return d.supplies.circuits.map((c) => {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const t of c.targets) {
+      lo = Math.min(lo, t.positionM);
+      hi = Math.max(hi, t.positionM);
+    }
+    return Math.round(((lo + hi) / 2) * 100) / 100;
+  });
+}
+
+function feederText(f: Feeder): string {
+  return f.target.to === 'controller' ? `controller ${f.target.controller}` : `pixel feed point ${f.target.feedPoint}`;
+}
+
+/**
+ * The drop limit applies end to end: driver → feeder → lead (or chain links) → strip. Every
+ * path is checked by its value, whatever else its cables fail, so a run that also fails on
+ * current is never reported as within the limit.
+ */
 export function cableDropCheck(d: Design): EstimateCheck {
   const { cable } = d.settings;
   const limit = cable.maxDropPercent;
-  const powered = d.cableUses.filter((u) => u.powered);
-  const worst = worstBy(powered, (u) => u.run.dropPercent);
-  const reference = `${LOOP_REFERENCE}; limit: ${DROP_LIMIT_REFERENCE}`;
-  if (!worst) return passed('cable-drop', 'No cable carries power.', 0, limit, '%', reference);
-  const value = Math.round(worst.run.dropPercent * 1000) / 1000;
-  const failing = powered.filter((u) => u.run.failure === 'drop');
-  if (failing.length === 0) {
-    const feeder = worstBy(
-      powered.filter((u) => u.use === 'feeders'),
-      (u) => u.run.dropPercent,
-    );
-    const lead = worstBy(
-      powered.filter((u) => u.use !== 'feeders'),
-      (u) => u.run.dropPercent,
-    );
-    const total =
-      feeder && lead && feeder.feederTo === 'controller' && lead.use === 'tread leads'
-        ? ` Feeder and lead in series: ${fmt(feeder.run.dropPercent + lead.run.dropPercent)} % at the farthest strip.`
-        : '';
+  const reference = `${LOOP_REFERENCE}; series drop driver → feeder → lead → strip; limit: ${DROP_LIMIT_REFERENCE}`;
+  let worst: Feeder | null = null;
+  for (const f of d.supplies.feeders) if (f.target.currentA > 0 && (!worst || f.pathDropPercent > worst.pathDropPercent)) worst = f;
+  // Powered runs outside any feeder's path (none today) still count on their own.
+  const loose = worstBy(
+    d.cableUses.filter((u) => u.powered && u.use !== 'feeders'),
+    (u) => u.run.dropPercent,
+  );
+  if (!worst && !loose) return passed('cable-drop', 'No cable carries power.', 0, limit, '%', reference);
+  const pathValue = worst ? worst.pathDropPercent : 0;
+  const value = Math.round(Math.max(pathValue, loose ? loose.run.dropPercent : 0) * 1000) / 1000;
+  if (!worst || (loose && loose.run.dropPercent > pathValue)) {
+    const u = loose as CableUse;
+    const ok = u.run.dropPercent <= limit * (1 + 1e-9);
+    const text = `Worst drop ${fmt(u.run.dropPercent, 3)} % on ${describeUse(u)} (${sizeLabel(u.run)})`;
+    return ok
+      ? passed('cable-drop', `${text}, within ${limit} %.`, value, limit, '%', reference)
+      : flagged('cable-drop', 'fail', `${text}, over ${limit} %.`, value, limit, '%', reference, 'Feed the far treads from a second controller nearer to them, or use a higher-voltage strip.');
+  }
+  const behind = worst.pathDropPercent - worst.run.dropPercent;
+  const parts = `feeder ${fmt(worst.run.dropPercent, 3)} % (${sizeLabel(worst.run)}, ${fmt(worst.run.lengthM)} m)${worst.worstBehind ? ` + ${fmt(behind, 3)} % on ${worst.worstBehind}` : ''}`;
+  const split = cable.feederDropPercent !== undefined ? ` (feeders given ${cable.feederDropPercent} % of it)` : '';
+  if (worst.pathDropPercent <= limit * (1 + 1e-9)) {
     return passed(
       'cable-drop',
-      `Worst drop ${fmt(worst.run.dropPercent, 3)} % on ${describeUse(worst)} (${sizeLabel(worst.run)}), within ${limit} %.${total}`,
+      `Worst drop from a driver to a strip ${fmt(worst.pathDropPercent, 3)} % (circuit ${worst.circuit}, to ${feederText(worst)}: ${parts}), within the ${limit} % end-to-end limit${split}.`,
       value,
       limit,
       '%',
       reference,
     );
   }
-  const first = worstBy(failing, (u) => u.run.dropPercent) as CableUse;
   let suggestion: string;
-  if (first.use === 'feeders') {
-    // The largest size's drop grows with length: the length at which it would just pass.
-    const maxLengthM = (first.run.lengthM * limit) / first.run.dropPercent;
-    suggestion = `Shorten the feeder to ${fmt(Math.floor(maxLengthM * 10) / 10, 1)} m or less (mount the driver beside the controller), or split the load over more feeders, or use a higher-voltage supply.`;
+  if (worst.run.dropPercent >= behind) {
+    const spread = spreadPositionsM(d);
+    const moved = d.supplies.circuits.some((c, i) => Math.abs(c.driverPositionM - (spread[i] as number)) > 0.05);
+    if (worst.alongM > 0.05 && moved) {
+      suggestion = `The drivers must be spread along the run: put each circuit's driver midway along what it feeds (drivers.positionsM: [${spread.join(', ')}]), or split the load into more circuits, or use a higher-voltage supply.`;
+    } else if (worst.alongM > 0.05) {
+      suggestion = `Split the load into more circuits with their drivers spread along the run (drivers.positionsM), so each feeder is shorter, or use a higher-voltage supply.`;
+    } else {
+      const maxLengthM = (worst.run.lengthM * Math.max(0, limit - behind)) / worst.run.dropPercent;
+      suggestion = `Shorten the feeder to ${fmt(Math.floor(maxLengthM * 10) / 10, 1)} m or less (mount the driver beside the ${worst.target.to === 'controller' ? 'controller' : 'feed point'}), or split the load over more feeders, or use a higher-voltage supply.`;
+    }
   } else {
-    // The longest run whose drop would pass with the table's largest size, at this current.
-    const passingLengthM = (first.run.lengthM * limit) / first.run.dropPercent;
+    const leadUse = worstBy(
+      d.cableUses.filter((u) => u.use === 'tread leads' || u.use === 'chain links'),
+      (u) => u.run.dropPercent,
+    );
+    const passingLengthM = leadUse && leadUse.run.dropPercent > 0 ? (leadUse.run.lengthM * Math.max(0, limit - worst.run.dropPercent)) / leadUse.run.dropPercent : PRACTICE_MAX_RUN_M;
     suggestion =
       controllerAdvice(d, passingLengthM) ??
       `Feed the far treads from a second controller nearer to them, or use a higher-voltage strip (the same power at twice the voltage drops a quarter as much).`;
@@ -98,7 +136,7 @@ export function cableDropCheck(d: Design): EstimateCheck {
   return flagged(
     'cable-drop',
     'fail',
-    `No size of ${cable.conductorTable} keeps ${describeUse(first)} (${fmt(first.run.currentA, 3)} A over ${fmt(first.run.lengthM)} m) within ${limit} %: even ${describeLargest(d)} drops ${fmt(first.run.dropPercent)} %.`,
+    `The drop from the driver of circuit ${worst.circuit} to the farthest strip behind ${feederText(worst)} is ${fmt(worst.pathDropPercent, 3)} % (${parts}), over the ${limit} % end-to-end limit${split}; no size of ${cable.conductorTable} up to ${describeLargest(d)} brings it within.`,
     value,
     limit,
     '%',
@@ -117,6 +155,25 @@ export function cableCurrentCheck(d: Design): EstimateCheck {
   const worst = worstBy(powered, (u) => u.run.currentA / u.run.currentRatingA);
   const table = conductorTable(d.settings.cable.conductorTable);
   if (!worst) return passed('cable-current', 'No cable carries power.', 0, null, 'A', table.rows[0]!.currentRatingSource);
+  // Any run no size can carry fails, even one whose load current alone would fit (a feeder must carry its driver's limit).
+  const failing = worstBy(
+    powered.filter((u) => u.run.failure === 'current'),
+    (u) => u.run.currentA / u.run.currentRatingA,
+  );
+  if (failing && failing.run.currentA <= failing.run.currentRatingA) {
+    const circuit = d.supplies.circuits.find((c) => c.index === failing.circuit);
+    const limitA = circuit?.response.driver?.currentLimitA ?? null;
+    return flagged(
+      'cable-current',
+      'fail',
+      `${capitalise(describeUse(failing))} carries ${fmt(failing.run.currentA, 3)} A, but no size of the table carries its driver's ${limitA === null ? '' : `${fmt(limitA, 2)} A `}current limit, and no fuse that driver could open protects a thinner one.`,
+      Math.round(failing.run.currentA * 1e4) / 1e4,
+      failing.run.currentRatingA,
+      'A',
+      `${table.rows[table.rows.length - 1]!.currentRatingSource}; ${PROTECTION_REFERENCE}`,
+      'Split the circuit so each driver is smaller (more circuits, each on its own driver), or use a higher-voltage supply.',
+    );
+  }
   const ratingSource = table.rows.find((r) => r.currentRatingA === worst.run.currentRatingA)?.currentRatingSource ?? table.reference;
   const value = Math.round(worst.run.currentA * 1e4) / 1e4;
   if (worst.run.failure !== 'current') {
@@ -144,25 +201,26 @@ export function cableCurrentCheck(d: Design): EstimateCheck {
   );
 }
 
+/** Runs from a controller to a tread: what summary.longestRunM and the 10 m practice limit are about. */
+export function isControllerLead(u: CableUse): boolean {
+  return u.use === 'tread leads' || u.use === 'chain leads';
+}
+
 export function cableRunLengthCheck(d: Design): EstimateCheck {
-  const runs = d.cableUses.filter((u) => u.use === 'tread leads' || u.use === 'chain leads' || u.use === 'feeders');
+  const runs = d.cableUses.filter(isControllerLead);
   const worst = worstBy(runs, (u) => u.run.lengthM);
-  if (!worst) return passed('cable-run-length', 'No cable runs.', 0, PRACTICE_MAX_RUN_M, 'm', RUN_LENGTH_REFERENCE);
+  if (!worst) return passed('cable-run-length', 'No lead runs from a controller to a tread (feeders are checked by cable-drop).', 0, PRACTICE_MAX_RUN_M, 'm', RUN_LENGTH_REFERENCE);
   const value = Math.round(worst.run.lengthM * 1000) / 1000;
   if (worst.run.lengthM <= PRACTICE_MAX_RUN_M) {
     return passed(
       'cable-run-length',
-      `Longest run ${fmt(worst.run.lengthM, 3)} m (${describeUse(worst)}), within ${PRACTICE_MAX_RUN_M} m.`,
+      `Longest lead from a controller ${fmt(worst.run.lengthM, 3)} m (${describeUse(worst)}), within ${PRACTICE_MAX_RUN_M} m.`,
       value,
       PRACTICE_MAX_RUN_M,
       'm',
       RUN_LENGTH_REFERENCE,
     );
   }
-  const suggestion =
-    worst.use === 'feeders'
-      ? `Mount the driver within ${PRACTICE_MAX_RUN_M} m of ${worst.feederTo === 'controller' ? 'the controller' : 'each feed point'} (set cable.feederLengthM accordingly).`
-      : (controllerAdvice(d, PRACTICE_MAX_RUN_M) ?? `Feed the far treads from a second controller nearer to them.`);
   return flagged(
     'cable-run-length',
     'warn',
@@ -171,39 +229,64 @@ export function cableRunLengthCheck(d: Design): EstimateCheck {
     PRACTICE_MAX_RUN_M,
     'm',
     RUN_LENGTH_REFERENCE,
-    suggestion,
+    controllerAdvice(d, PRACTICE_MAX_RUN_M) ?? `Feed the far treads from a second controller nearer to them.`,
   );
 }
 
-export function cableMinSizeCheck(d: Design): EstimateCheck {
+export function cableMinSizeCheck(d: Design): EstimateCheck | null {
+  const c = d.settings.cable;
+  if (d.cableUses.length === 0) return null;
+  const elv = c.jurisdiction === 'iec' || c.jurisdiction === 'uk';
+  const reference = elv ? ELV_MINIMUM_REFERENCE : MIN_SIZE_REFERENCE;
+  // The trade's 0.5 mm², or the jurisdiction's ELV minimum (1 mm² for short flexible runs).
+  const floorFor = (u: CableUse) => (elv ? minimumFor({ ...c, minCrossSectionMm2: ELV_MIN_CROSS_SECTION_MM2 }, u.run.lengthM) : DEFAULT_MIN_CROSS_SECTION_MM2);
   const sized = d.cableUses.filter((u) => u.run.size !== null);
+  if (sized.length === 0) {
+    // Nothing was chosen: there is no size to pass, so the check cannot pass either.
+    return flagged(
+      'cable-min-size',
+      'fail',
+      'No cable size could be chosen for any run (see cable-drop and cable-current), so the minimum size cannot be confirmed.',
+      null,
+      elv ? ELV_MIN_CROSS_SECTION_MM2 : DEFAULT_MIN_CROSS_SECTION_MM2,
+      'mm²',
+      reference,
+      'Fix the failing drop or current checks first (shorter runs, more circuits, a higher voltage); then every run gets a size to check.',
+    );
+  }
   let thinnest: CableUse | null = null;
-  for (const u of sized) if (!thinnest || u.run.areaMm2 < thinnest.run.areaMm2) thinnest = u;
-  const limit = DEFAULT_MIN_CROSS_SECTION_MM2;
-  if (!thinnest) return passed('cable-min-size', 'No cable size was chosen.', null, limit, 'mm²', MIN_SIZE_REFERENCE);
-  const area = thinnest.run.areaMm2;
+  let under: CableUse | null = null;
+  for (const u of sized) {
+    if (!thinnest || u.run.areaMm2 < thinnest.run.areaMm2) thinnest = u;
+    if (u.run.areaMm2 < floorFor(u) * (1 - 1e-9) && (!under || u.run.areaMm2 < under.run.areaMm2)) under = u;
+  }
+  const worst = (under ?? thinnest) as CableUse;
+  const limit = floorFor(worst);
+  const area = worst.run.areaMm2;
   const value = Math.round(area * 1000) / 1000;
-  if (area >= limit * (1 - 1e-9)) {
+  const unsized = d.cableUses.length - sized.length;
+  const unsizedText = unsized > 0 ? ` ${unsized} run${unsized > 1 ? 's have' : ' has'} no size yet (see the failing checks).` : '';
+  if (!under) {
     return passed(
       'cable-min-size',
-      `The thinnest cable chosen is ${sizeLabel(thinnest.run)}${d.settings.cable.system === 'awg' ? ` (${fmt(area, 3)} mm²)` : ''}, not below ${limit} mm².`,
+      `The thinnest cable chosen is ${sizeLabel(worst.run)}${c.system === 'awg' ? ` (${fmt(area, 3)} mm²)` : ''}, not below ${limit} mm²${elv ? ` (${c.jurisdiction?.toUpperCase()} ELV lighting minimum)` : ''}.${unsizedText}`,
       value,
       limit,
       'mm²',
-      MIN_SIZE_REFERENCE,
+      reference,
     );
   }
-  const table = conductorTable(d.settings.cable.conductorTable);
+  const table = conductorTable(c.conductorTable);
   const firstOk = table.rows.find((r) => r.areaMm2 >= limit * (1 - 1e-9));
-  const next = firstOk ? describeSize(sizeOfRow(table, firstOk)) : nextSizeLabel(d.settings.cable, area);
+  const next = firstOk ? describeSize(sizeOfRow(table, firstOk)) : nextSizeLabel(c, area);
   return flagged(
     'cable-min-size',
     'warn',
-    `${capitalise(describeUse(thinnest))} uses ${sizeLabel(thinnest.run)} (${fmt(area, 3)} mm²), thinner than the ${limit} mm² the trade uses for these runs.`,
+    `${capitalise(describeUse(worst))} uses ${sizeLabel(worst.run)} (${fmt(area, 3)} mm²), thinner than the ${limit} mm² ${elv ? `the ${c.jurisdiction?.toUpperCase()} ELV lighting rules ask` : 'the trade uses'} for this run.`,
     value,
     limit,
     'mm²',
-    MIN_SIZE_REFERENCE,
-    `Use ${next ?? 'a larger size'} or larger (set cable.minCrossSectionMm2 to ${limit}).`,
+    reference,
+    `Use ${next ?? 'a larger size'} or larger (set cable.minCrossSectionMm2 to ${limit}${elv ? ', or leave it out to apply the jurisdiction’s minimum' : ''}).`,
   );
 }

@@ -24,6 +24,9 @@ export interface CableUse {
   feederTo: 'controller' | 'pixel feed point' | null;
   controller: number | null;
   count: number;
+  /** Feed point along a pixel run (feeders). */
+  feedPoint?: number | null;
+  circuit?: number;
 }
 
 /** Names a run in a check message; built only when a message needs it. */
@@ -38,7 +41,7 @@ export function describeUse(use: CableUse): string {
     case 'chain links':
       return `the chain links of treads ${use.tread}–${use.lastTread}`;
     case 'feeders':
-      return use.feederTo === 'controller' ? `the feeder to controller ${use.controller}` : `each of the ${use.count} pixel feeders`;
+      return use.feederTo === 'controller' ? `the feeder to controller ${use.controller}` : `the feeder to pixel feed point ${use.feedPoint ?? ''}`.trimEnd();
   }
 }
 
@@ -88,6 +91,8 @@ export function cableUsesOf(
   const uses: CableUse[] = [];
   if (treadStrips) {
     treadStrips.leads.forEach((run, k) => {
+      // A tread where no strip fits gets no lead: nothing is ordered for it.
+      if (run.currentA <= 0) return;
       uses.push({ use: 'tread leads', cores: 2, run, laidLengthM: run.lengthM, powered: true, tread: k + 1, lastTread: null, feederTo: null, controller: null, count: 1 });
     });
   }
@@ -117,17 +122,21 @@ export function cableUsesOf(
     }
   }
   for (const f of feeders) {
+    // Nothing to feed (no strip fits): no feeder to lay.
+    if (f.target.currentA <= 0) continue;
     uses.push({
       use: 'feeders',
       cores: 2,
       run: f.run,
-      laidLengthM: f.spec.count * settings.cable.feederLengthM,
-      powered: f.spec.currentA > 0,
-      tread: null,
-      lastTread: null,
-      feederTo: f.spec.to,
-      controller: f.spec.controller,
-      count: f.spec.count,
+      laidLengthM: f.run.lengthM,
+      powered: f.target.currentA > 0,
+      tread: f.target.firstTread,
+      lastTread: f.target.lastTread,
+      feederTo: f.target.to,
+      controller: f.target.controller,
+      count: 1,
+      feedPoint: f.target.feedPoint,
+      circuit: f.circuit,
     });
   }
   return uses;

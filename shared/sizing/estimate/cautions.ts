@@ -17,6 +17,10 @@ const ALWAYS: readonly Caution[] = [
     'Give drivers room to breathe: mount them where air moves and derate them as their datasheets ask when the space runs warm.',
   ),
   freeze(
+    'one-supply-per-circuit',
+    'Each driver feeds only its own circuit: never connect driver outputs in parallel (unless the datasheet allows it), never join the + of two circuits, and fit each feeder’s fuse at its driver as the circuits list gives it.',
+  ),
+  freeze(
     'not-emergency-lighting',
     'Motion-switched stair lights are orientation lighting, not emergency or escape-route lighting (EN 1838 and the building’s emergency lighting design cover that).',
   ),

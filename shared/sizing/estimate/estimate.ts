@@ -4,6 +4,7 @@ import type { StairGeometry } from '../geometry.js';
 import { round, type TraceEntry } from '../trace.js';
 import { ENGINE_VERSION } from '../version.js';
 import { buildBom } from './bom.js';
+import { isControllerLead } from './cable-checks.js';
 import { cableSchedule, cableUsesOf, describeUse, type CableUse } from './cable-schedule.js';
 import { indexCatalog } from './catalog.js';
 import { cautionsFor } from './cautions.js';
@@ -12,10 +13,11 @@ import { sizeRailPixels, type RailPart } from './rail-pixels.js';
 import { outputsOf, pixelsOf } from './result-shapes.js';
 import { runChecks } from './run-checks.js';
 import { planSensors } from './sensor-layout.js';
+import { standbyOf } from './standby.js';
 import { endClearanceDefault, pixelDefaults, resolveSettings, type Settings } from './settings.js';
 import type { TreadBlock } from './stair.js';
 import { planReels } from './strip-reels.js';
-import { loadsOf, sizeSupplies } from './supply.js';
+import { applyResizedLeads, loadsOf, sizeSupplies } from './supply.js';
 import { sizeTreadPixels, type TreadPixelPart } from './tread-pixels.js';
 import { sizeTreadStrips, type TreadStripPart } from './tread-strips.js';
 
@@ -75,7 +77,8 @@ export function estimate(input: EstimateInput): EstimateResult {
     reference: 'controller profile',
   });
 
-  const supplies = sizeSupplies(loadsOf(treadStrips, rail, treadPixels, settings), settings, catalog, trace);
+  const supplies = sizeSupplies(loadsOf(treadStrips, rail, treadPixels, settings, stair), settings, catalog, trace);
+  applyResizedLeads(treadStrips, supplies.feeders, settings);
   const sensors = planSensors(input, settings, catalog, controllers, trace);
 
   const { treadReels, railReels, strips } = planReels(treadStrips, treadPixels, rail, settings, catalog, trace);
@@ -100,12 +103,17 @@ export function estimate(input: EstimateInput): EstimateResult {
     maxRailVoltageV = Math.max(maxRailVoltageV, r.voltageV);
   }
   let longestRunM = 0;
+  let longestFeederM = 0;
   let worstDrop: CableUse | null = null;
   for (const u of cableUses) {
-    if (u.use === 'tread leads' || u.use === 'chain leads' || u.use === 'feeders') longestRunM = Math.max(longestRunM, u.run.lengthM);
+    // longestRunM: controller → tread leads only, as the cable-run-length check; feeders have longestFeederM.
+    if (isControllerLead(u)) longestRunM = Math.max(longestRunM, u.run.lengthM);
+    if (u.use === 'feeders') longestFeederM = Math.max(longestFeederM, u.run.lengthM);
     if (u.powered && (!worstDrop || u.run.dropPercent > worstDrop.run.dropPercent)) worstDrop = u;
   }
-  const worstDropPercent = worstDrop ? worstDrop.run.dropPercent : 0;
+  // End to end, as the cable-drop check: the worst driver → strip path, or a single run if that is worse.
+  let worstDropPercent = worstDrop ? worstDrop.run.dropPercent : 0;
+  for (const f of supplies.feeders) if (f.target.currentA > 0) worstDropPercent = Math.max(worstDropPercent, f.pathDropPercent);
   if (worstDrop) trace.push(worstDropEntry(worstDrop));
   trace.push({
     quantity: 'totalLoadW',
@@ -129,6 +137,7 @@ export function estimate(input: EstimateInput): EstimateResult {
       totalLoadW: round(totalLoadW),
       driverCount,
       longestRunM: round(longestRunM, 3),
+      longestFeederM: round(longestFeederM, 3),
       worstDropPercent: round(worstDropPercent, 3),
       motionSensors: sensors.plan.motionSensors,
       reels: (treadReels?.response.reels ?? 0) + (railReels?.reels ?? 0),
@@ -137,6 +146,7 @@ export function estimate(input: EstimateInput): EstimateResult {
     treads: treadStrips?.rows ?? treadPixels?.rows ?? [],
     outputs: outputsOf(settings, controllers, treadStrips, treadPixels, rail),
     drivers: supplies.rails.map((r) => r.response),
+    circuits: supplies.circuits.map((c) => c.response),
     feeder: {
       lengthM: settings.cable.feederLengthM,
       lengthDefaulted: settings.cable.feederLengthDefaulted,
@@ -149,6 +159,7 @@ export function estimate(input: EstimateInput): EstimateResult {
     bom: bom.lines,
     checks,
     cautions: cautionsFor(maxRailCurrentA, maxRailVoltageV),
+    standby: standbyOf({ input, controllers, driverCount, sensors, rail, treadPixels, litLoadW: totalLoadW }, trace),
     trace: settings.defaultsUsed.length > 0 ? settings.defaultsUsed.concat(trace) : trace,
   };
   if (bom.total !== undefined) result.bomTotal = bom.total;

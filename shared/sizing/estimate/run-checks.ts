@@ -5,7 +5,7 @@ import { controllerInputCheck, outputCountCheck, outputCurrentCheck } from './ou
 import { pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
 import { sensorCurrentCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
 import { pieceFitsReelCheck, stripFitsCheck, treadCountCheck } from './stair-checks.js';
-import { class2Check, driverLoadingCheck, selvCheck } from './supply-checks.js';
+import { circuitProtectionCheck, class2Check, driverLoadingCheck, feederDeratingCheck, selvCheck } from './supply-checks.js';
 
 /** Every check that applies to the design, in a stable order; those that do not apply are left out. */
 const CHECKS: readonly ((d: Design) => EstimateCheck | null)[] = [
@@ -21,6 +21,8 @@ const CHECKS: readonly ((d: Design) => EstimateCheck | null)[] = [
   driverLoadingCheck,
   class2Check,
   selvCheck,
+  circuitProtectionCheck,
+  feederDeratingCheck,
   cableDropCheck,
   cableCurrentCheck,
   cableRunLengthCheck,

@@ -2,7 +2,7 @@ import { DEFAULT_FEEDER_LENGTH_M, type EstimateInput } from '../../schemas/estim
 import type { ControllerProfile } from '../../schemas/controller.js';
 import { DEFAULT_MIN_CROSS_SECTION_MM2, type CableOptions } from '../cable.js';
 import { DEFAULT_METRIC_TABLE } from '../conductors.js';
-import { DEFAULT_DRIVER_RATINGS_W, DEFAULT_MAINS_VOLTAGE_V, DEFAULT_MAX_LOADING_PERCENT, DEFAULT_POWER_FACTOR } from '../drivers.js';
+import { DEFAULT_CURRENT_LIMIT_PERCENT, DEFAULT_DRIVER_RATINGS_W, DEFAULT_MAINS_VOLTAGE_V, DEFAULT_MAX_LOADING_PERCENT, DEFAULT_POWER_FACTOR } from '../drivers.js';
 import { SizingInputError } from '../errors.js';
 import { DEFAULT_SERVICE_ALLOWANCE_M, type ControllerPosition } from '../geometry.js';
 import { DEFAULT_DAYLIGHT_CUTOFF_LUX } from '../sensors.js';
@@ -23,6 +23,15 @@ export interface CableSettings extends CableOptions {
   serviceAllowanceGiven: number | undefined;
   feederLengthM: number;
   feederLengthDefaulted: boolean;
+  /** Share of the drop limit given to feeders; undefined: feeder and leads sized together. */
+  feederDropPercent: number | undefined;
+  /** 'annex-g-service': R′ = 1.25 × R′20 (the default); 'temperature': R′ at temperatureC. */
+  resistanceBasis: 'annex-g-service' | 'temperature';
+  resistanceFactor: number;
+  jurisdiction: 'iec' | 'uk' | 'us' | undefined;
+  /** A smaller minimum for short flexible runs (IEC/UK: 1 mm² up to 3 m); undefined when none applies. */
+  shortRunMinMm2: number | undefined;
+  shortRunMaxM: number;
 }
 
 export interface DriverSettings {
@@ -32,6 +41,10 @@ export interface DriverSettings {
   efficiencyPercent: number | undefined;
   mainsVoltageV: number | undefined;
   powerFactor: number | undefined;
+  /** Where drivers may sit, m along the run; undefined: the best single place. */
+  positionsM: readonly number[] | undefined;
+  currentLimitPercent: number;
+  powerInputsPerController: number;
 }
 
 export interface Settings {
@@ -69,6 +82,13 @@ const DEFAULTS = {
   availableRatingsW: defaultEntry('drivers.availableRatingsW', DEFAULT_DRIVER_RATINGS_W.join(', '), 'W', 'a common driver series (common practice, no published source)'),
   mainsVoltageV: defaultEntry('drivers.mainsVoltageV', DEFAULT_MAINS_VOLTAGE_V, 'V', 'IEC 60038 nominal 230 V'),
   powerFactor: defaultEntry('drivers.powerFactor', DEFAULT_POWER_FACTOR, '', 'assumed, no published source — use the driver datasheet'),
+  currentLimitPercent: defaultEntry(
+    'drivers.currentLimitPercent',
+    DEFAULT_CURRENT_LIMIT_PERCENT,
+    '%',
+    'constant-voltage LED driver overload protection commonly 105–150 % of rated output; the upper figure taken (from memory)',
+  ),
+  driverPositions: defaultEntry('drivers.positionsM', 'one place, midway between the farthest feeds', '', 'where the longest feeder is shortest (common practice, no published source)'),
   reelLengthMm: defaultEntry('reels.reelLengthMm', 5000, 'mm', 'a common reel length (common practice, no published source)'),
   daylightCutoffLux: defaultEntry(
     'sensors.daylightCutoffLux',
@@ -82,9 +102,22 @@ const DEFAULTS = {
   brightnessPercent: defaultEntry('brightnessPercent', 100, '%', 'no brightness cap'),
 } as const;
 
-const TEMPERATURE_DEFAULTS = Object.fromEntries(
-  Object.values(CONDUCTOR_TABLES).map((t) => [t.id, defaultEntry('cable.temperatureC', t.referenceTemperatureC, '°C', `reference temperature of ${t.reference}`)]),
-) as Record<ConductorTableId, TraceEntry>;
+/** IEC/UK ELV lighting: 1.5 mm² copper at least, 1 mm² for flexible cable up to 3 m (IEC 60364-7-715 / BS 7671 715.524, from memory). */
+export const ELV_MIN_CROSS_SECTION_MM2 = 1.5;
+export const ELV_FLEXIBLE_SHORT_MIN_MM2 = 1;
+export const ELV_FLEXIBLE_SHORT_MAX_M = 3;
+export const ELV_MINIMUM_REFERENCE =
+  'IEC 60364-7-715 / BS 7671 715.524: ELV lighting conductors at least 1.5 mm² copper, 1 mm² for flexible cables up to 3 m (from memory)';
+const ELV_MINIMUM = defaultEntry('cable.minCrossSectionMm2', ELV_MIN_CROSS_SECTION_MM2, 'mm²', ELV_MINIMUM_REFERENCE);
+
+/** IEC 60364-5-52 Annex G takes the resistivity in service as 1.25 × ρ20 (from memory). */
+export const ANNEX_G_SERVICE_FACTOR = 1.25;
+const ANNEX_G_SERVICE = defaultEntry(
+  'cable.temperatureC',
+  'none: Annex G resistivity in service, R′ = 1.25 × R′ at 20 °C',
+  '',
+  'IEC 60364-5-52 Annex G: ρ in service = 1.25 × ρ20 (from memory), applied to the conductor table’s 20 °C resistance (Annex G prints ρ1 = 0.0225 Ω·mm²/m, 1.25 × 0.018); give temperatureC to use R′ at that temperature instead',
+);
 
 const FEED_LENGTH_DEFAULTS = {
   low: defaultEntry('maxFeedLengthM', 2.5, 'm', 'about 2.5 m for 5 V pixel strip (common practice, from memory)'),
@@ -135,8 +168,10 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
   const table = CONDUCTOR_TABLES[conductorTable];
   if (c.conductorTable === undefined) used.push(DEFAULTS.conductorTable);
   if (c.maxDropPercent === undefined) used.push(DEFAULTS.maxDropPercent);
-  if (c.minCrossSectionMm2 === undefined) used.push(DEFAULTS.minCrossSectionMm2);
-  if (c.temperatureC === undefined) used.push(TEMPERATURE_DEFAULTS[conductorTable]);
+  const elvMinimum = (c.jurisdiction === 'iec' || c.jurisdiction === 'uk') && c.minCrossSectionMm2 === undefined;
+  if (c.minCrossSectionMm2 === undefined) used.push(elvMinimum ? ELV_MINIMUM : DEFAULTS.minCrossSectionMm2);
+  // Without a conductor temperature the estimate takes Annex G's resistivity in service, 1.25 × ρ20.
+  if (c.temperatureC === undefined) used.push(ANNEX_G_SERVICE);
   if (c.serviceAllowanceM === undefined && input.layout !== 'rail-pixels') used.push(DEFAULTS.serviceAllowanceM);
   if (c.feederLengthM === undefined) used.push(DEFAULTS.feederLengthM);
   if (input.controller.position === undefined && input.layout !== 'rail-pixels') used.push(DEFAULTS.position);
@@ -145,6 +180,8 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
   if (d.maxLoadingPercent === undefined) used.push(DEFAULTS.maxLoadingPercent);
   if (d.efficiencyPercent !== undefined && d.mainsVoltageV === undefined) used.push(DEFAULTS.mainsVoltageV);
   if (d.efficiencyPercent !== undefined && d.powerFactor === undefined) used.push(DEFAULTS.powerFactor);
+  if (d.currentLimitPercent === undefined) used.push(DEFAULTS.currentLimitPercent);
+  if (d.positionsM === undefined) used.push(DEFAULTS.driverPositions);
 
   const s = input.sensors ?? {};
   const daylightCutoff = s.useDaylightCutoff ?? true;
@@ -161,12 +198,18 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       conductorTable,
       system: table.system,
       maxDropPercent: c.maxDropPercent ?? DEFAULT_MAX_DROP_PERCENT,
-      minCrossSectionMm2: c.minCrossSectionMm2 ?? DEFAULT_MIN_CROSS_SECTION_MM2,
-      temperatureC: c.temperatureC ?? table.referenceTemperatureC,
+      minCrossSectionMm2: c.minCrossSectionMm2 ?? (elvMinimum ? ELV_MIN_CROSS_SECTION_MM2 : DEFAULT_MIN_CROSS_SECTION_MM2),
+      temperatureC: c.temperatureC ?? 20,
       serviceAllowanceM: c.serviceAllowanceM ?? DEFAULT_SERVICE_ALLOWANCE_M,
       serviceAllowanceGiven: c.serviceAllowanceM,
       feederLengthM: c.feederLengthM ?? DEFAULT_FEEDER_LENGTH_M,
       feederLengthDefaulted: c.feederLengthM === undefined,
+      feederDropPercent: c.feederDropPercent,
+      jurisdiction: c.jurisdiction,
+      shortRunMinMm2: elvMinimum && (conductorTable === 'iec60228-class5' || conductorTable === 'iec60228-class5-tinned') ? ELV_FLEXIBLE_SHORT_MIN_MM2 : undefined,
+      shortRunMaxM: ELV_FLEXIBLE_SHORT_MAX_M,
+      resistanceBasis: c.temperatureC === undefined ? 'annex-g-service' : 'temperature',
+      resistanceFactor: c.temperatureC === undefined ? ANNEX_G_SERVICE_FACTOR : 1,
     },
     drivers: {
       maxLoadingPercent: d.maxLoadingPercent ?? DEFAULT_MAX_LOADING_PERCENT,
@@ -175,6 +218,9 @@ export function resolveSettings(input: EstimateInput, catalog: CatalogIndex | nu
       efficiencyPercent: d.efficiencyPercent,
       mainsVoltageV: d.mainsVoltageV,
       powerFactor: d.powerFactor,
+      positionsM: d.positionsM,
+      currentLimitPercent: d.currentLimitPercent ?? DEFAULT_CURRENT_LIMIT_PERCENT,
+      powerInputsPerController: d.powerInputsPerController ?? 1,
     },
     reelLengthMm: input.reels?.reelLengthMm,
     daylightCutoff,
