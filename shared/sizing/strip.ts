@@ -5,8 +5,15 @@ export const DEFAULT_END_CLEARANCE_MM = 20;
 /** 5 V RGB pixel at full white, 20 mA per colour — Adafruit NeoPixel Überguide. */
 export const DEFAULT_CURRENT_PER_PIXEL_MA = 60;
 
-// Lengths such as 17 × 33.3 mm must not lose a whole pitch to float noise.
-const EPSILON = 1e-9;
+// Cut counts are whole numbers, so they are computed on whole numbers: lengths in micrometres,
+// densities in pixels per kilometre. Floating division of such integers (all far below 2^53)
+// floors exactly, so 30 pixels/m on 960 mm gives 28 pixels, not 27 (28 × 33.33… mm = 933.33 mm).
+const UM_PER_MM = 1000;
+const toUm = (mm: number): number => Math.round(mm * UM_PER_MM);
+/** Pixels per kilometre, an integer for any density given to three decimals. */
+const perKm = (pixelsPerM: number): number => Math.round(pixelsPerM * 1000);
+/** Whole pixels in a length of `lengthUm` µm at `pixelsPerKm`: floor(µm × px/km / 10⁹). */
+const wholePixels = (lengthUm: number, pixelsPerKm: number): number => (lengthUm > 0 ? Math.floor((lengthUm * pixelsPerKm) / 1e9) : 0);
 
 export interface StripFit {
   fits: boolean;
@@ -28,11 +35,52 @@ export interface PixelPiece {
   pixels: number;
 }
 
-/** Strip may only be cut at its marks, so the usable length rounds down to whole pitches. */
+/** Strip may only be cut at its marks, so the usable length rounds down to whole pitches (in µm, exactly). */
 export function fitStrip(treadWidthMm: number, cutPitchMm: number, endClearanceMm = DEFAULT_END_CLEARANCE_MM): StripFit {
-  const spaceMm = treadWidthMm - 2 * endClearanceMm;
-  const pitches = spaceMm > 0 ? Math.floor(spaceMm / cutPitchMm + EPSILON) : 0;
-  return { fits: pitches >= 1, spaceMm, stripLengthMm: round(pitches * cutPitchMm, 6), pitches };
+  const spaceUm = toUm(treadWidthMm) - 2 * toUm(endClearanceMm);
+  const pitchUm = toUm(cutPitchMm);
+  const pitches = spaceUm > 0 && pitchUm > 0 ? Math.floor(spaceUm / pitchUm) : 0;
+  return { fits: pitches >= 1, spaceMm: spaceUm / UM_PER_MM, stripLengthMm: (pitches * pitchUm) / UM_PER_MM, pitches };
+}
+
+/**
+ * Pixel strip on a tread: without a cut pitch every pixel is a cut point, so the count is the
+ * whole pixels the space holds (an integer count, not a rounded length); with a cut pitch, whole
+ * pitches first, then the pixels on them. `fit.pitches` counts cut pieces of either kind.
+ */
+export function fitPixelStrip(
+  treadWidthMm: number,
+  pixelsPerM: number,
+  cutPitchMm?: number,
+  endClearanceMm = DEFAULT_END_CLEARANCE_MM,
+): { fit: StripFit; piece: PixelPiece } {
+  if (cutPitchMm !== undefined) {
+    const fit = fitStrip(treadWidthMm, cutPitchMm, endClearanceMm);
+    return { fit, piece: pitchPiece(fit.pitches, toUm(cutPitchMm), pixelsPerM) };
+  }
+  const spaceUm = toUm(treadWidthMm) - 2 * toUm(endClearanceMm);
+  const pixels = wholePixels(spaceUm, perKm(pixelsPerM));
+  const lengthMm = pixelsLengthMm(pixels, pixelsPerM);
+  return { fit: { fits: pixels >= 1, spaceMm: spaceUm / UM_PER_MM, stripLengthMm: lengthMm, pitches: pixels }, piece: { lengthMm, pixels } };
+}
+
+/** Length of whole pixels at their own pitch, mm (to the nanometre, for display and reels). */
+function pixelsLengthMm(pixels: number, pixelsPerM: number): number {
+  return round((pixels * 1000) / pixelsPerM, 6);
+}
+
+/**
+ * Pixels on whole cut pitches. A pitch normally holds a whole number of pixels (strip is cut
+ * between pixel groups): when pitch × density is within 1 % of a whole number, that number per
+ * pitch counts (so a 33.3 mm pitch at 30 pixels/m holds 1 pixel, not 0.999); otherwise the
+ * whole pixels of the cut length.
+ */
+function pitchPiece(pitches: number, pitchUm: number, pixelsPerM: number): PixelPiece {
+  const lengthMm = (pitches * pitchUm) / UM_PER_MM;
+  const perPitch = (pitchUm * pixelsPerM) / 1e6;
+  const whole = Math.round(perPitch);
+  const pixels = whole >= 1 && Math.abs(perPitch - whole) <= 0.01 * whole ? pitches * whole : wholePixels(pitches * pitchUm, perKm(pixelsPerM));
+  return { lengthMm, pixels };
 }
 
 /** Constant-voltage strip: P = (W/m) × length, I = P / V. */
@@ -43,13 +91,16 @@ export function cvLoad(lengthMm: number, powerWPerM: number, voltageV: number): 
 
 /**
  * Whole pixels in a piece. With a cut pitch the piece is first cut down to whole pitches;
- * without one, each pixel is its own cut point.
+ * without one, each pixel is its own cut point. Counted in integers (see fitPixelStrip).
  */
 export function pixelPiece(lengthMm: number, pixelsPerM: number, cutPitchMm?: number): PixelPiece {
-  const pitchMm = cutPitchMm ?? 1000 / pixelsPerM;
-  const cutMm = lengthMm > 0 ? Math.floor(lengthMm / pitchMm + EPSILON) * pitchMm : 0;
-  const pixels = Math.floor((pixelsPerM * cutMm) / 1000 + EPSILON);
-  return { lengthMm: round(cutMm, 6), pixels };
+  const lengthUm = toUm(lengthMm);
+  if (cutPitchMm !== undefined) {
+    const pitchUm = toUm(cutPitchMm);
+    return pitchPiece(lengthUm > 0 ? Math.floor(lengthUm / pitchUm) : 0, pitchUm, pixelsPerM);
+  }
+  const pixels = wholePixels(lengthUm, perKm(pixelsPerM));
+  return { lengthMm: pixelsLengthMm(pixels, pixelsPerM), pixels };
 }
 
 /** Full-white current; a brightness cap scales it linearly (PWM duty). */

@@ -4,7 +4,7 @@ import type { PixelsResult } from '../../schemas/pixels.js';
 import { bestControllerTread, treadPositionsM, type ControllerPosition, type StairGeometry } from '../geometry.js';
 import { blockSizes } from '../outputs.js';
 import { injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
-import { fitStrip, pixelCurrentA, pixelCurrentTrace, pixelPiece, stripFitTrace, type PixelPiece, type StripFit } from '../strip.js';
+import { fitPixelStrip, pixelCurrentA, pixelCurrentTrace, stripFitTrace, type PixelPiece, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { dropPercentOf, loopDropV } from '../voltage-drop.js';
 import { timingTrace, type DataOutputUse } from './rail-pixels.js';
@@ -147,9 +147,9 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const n = stair.treads;
   const { profile } = settings;
   const pitchMm = block.cutPitchMm ?? 1000 / block.pixelsPerM;
-  const fit = fitStrip(stair.treadWidthMm as number, pitchMm, block.endClearanceMm);
-  const cut = fit.fits ? pixelPiece(fit.stripLengthMm, block.pixelsPerM, block.cutPitchMm) : NO_PIECE;
-  const piece = cut.pixels > 0 ? cut : NO_PIECE;
+  // Whole pixels counted in integers: 30 pixels/m on 960 mm of space is 28 pixels (933.33 mm).
+  const { fit, piece: cut } = fitPixelStrip(stair.treadWidthMm as number, block.pixelsPerM, block.cutPitchMm, block.endClearanceMm);
+  const piece = fit.fits && cut.pixels > 0 ? cut : NO_PIECE;
   const p = piece.pixels;
   const treadCurrentA = pixelCurrentA(p, block.currentPerPixelMa, block.brightnessPercent);
   const treadPowerW = treadCurrentA * block.voltageV;
@@ -276,7 +276,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
       quantity: 'treads.pixelsPerTread',
       value: p,
       unit: 'pixels',
-      formula: block.cutPitchMm === undefined ? 'floor(stripLengthMm × pixelsPerM / 1000)' : 'whole cut pitches, then floor(lengthMm × pixelsPerM / 1000)',
+      formula: block.cutPitchMm === undefined ? 'floor(spaceUm × pixelsPerKm / 10⁹), in integers' : 'whole cut pitches (in µm), then the whole pixels each pitch holds',
       inputs: { stripLengthMm: fit.stripLengthMm, pixelsPerM: block.pixelsPerM, cutPitchMm: block.cutPitchMm ?? null },
       reference: 'arithmetic: whole pixels only',
     },
