@@ -93,6 +93,48 @@ const pixelCommon = {
     .optional()
     .meta({ description: 'Longest strip the datasheet allows from one feed point, m. Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory).' }),
   sku: skuField,
+  // Added for issue 8 (pixel current defaults, brightness cap, clocked timing, data lines, feed points):
+  powerWPerM: z
+    .number()
+    .positive()
+    .max(200)
+    .optional()
+    .meta({
+      description:
+        'Added field: strip power per metre at full white, W/m (datasheet). Sets the current per pixel when currentPerPixelMa is not given. Default without either: 60 mA per 5 V RGB pixel, 80 mA per 5 V RGBW pixel, 14.4 W/m (× 4/3 RGBW) for 12 / 24 V strip (from memory), with a pixel-current warning.',
+    }),
+  sizeForFullWhite: z
+    .boolean()
+    .optional()
+    .meta({
+      description:
+        'Added field: with a brightness cap, size drivers and cables for full white (true) or for the cap (false, the default: the cap must then be enforced in the controller and the supply overload-protected, as the brightness-cap check says).',
+      default: false,
+    }),
+  clockHz: z
+    .number()
+    .min(1_000)
+    .max(50_000_000)
+    .optional()
+    .meta({ description: 'Added field: clock rate of a clocked (data + clock) strip, Hz. Default 1 MHz.', default: 1_000_000 }),
+  resetUs: z
+    .number()
+    .min(0)
+    .max(10_000)
+    .optional()
+    .meta({ description: 'Added field: latch time after each frame, µs: one-wire reset (default 280); clocked parts that latch on a pause (default 0).' }),
+  maxDataLinkM: z
+    .number()
+    .min(0.1)
+    .max(100)
+    .optional()
+    .meta({ description: 'Added field: longest unbuffered one-wire data gap from one pixel to the next (tread to tread), m. Default 2 (about 1–2 m, from memory).', default: 2 }),
+  maxFeedCurrentA: z
+    .number()
+    .min(0.1)
+    .max(100)
+    .optional()
+    .meta({ description: 'Added field: most current one feed point may push into the strip copper, A (strip datasheet). Default 5 A (common practice, from memory).', default: 5 }),
 };
 
 export const railPixelsSchema = z
@@ -356,6 +398,11 @@ const quaysideRailRun = {
   fullWhiteCurrentA: 32.4,
   powerW: 162,
   brightnessPercent: 50,
+  currentPerPixelMa: 60,
+  currentPerPixelSource: 'default-5v-pixel',
+  uncappedCurrentA: 64.8,
+  uncappedPowerW: 324,
+  sizedForBrightnessPercent: 50,
   feedPoints: 8,
   injectionPoints: 7,
   maxFeedLengthM: 2.5,
@@ -384,6 +431,13 @@ export const CHECK_IDS = [
   'sensor-supply',
   'rail-grouping',
   'piece-fits-reel',
+  // Added for issue 8 (pixels, data lines, sensors):
+  'pixel-current',
+  'brightness-cap',
+  'data-line-length',
+  'data-logic-level',
+  'sensor-inputs',
+  'feed-point-current',
 ] as const;
 
 export type CheckId = (typeof CHECK_IDS)[number];
@@ -518,6 +572,13 @@ export const estimatePixelRunSchema = z
     fullWhiteCurrentA: z.number(),
     powerW: z.number(),
     brightnessPercent: z.number(),
+    currentPerPixelMa: z.number().meta({ description: 'Added field: current of one pixel at full white used, mA.' }),
+    currentPerPixelSource: z
+      .enum(['given', 'strip-power', 'default-5v-pixel', 'default-segment', 'default-strip-power'])
+      .meta({ description: 'Added field: where that current came from: the request, its powerWPerM, or a default by channels and voltage.' }),
+    uncappedCurrentA: z.number().meta({ description: 'Added field: the run at full white with no brightness cap, A.' }),
+    uncappedPowerW: z.number().meta({ description: 'Added field: the run at full white with no brightness cap, W.' }),
+    sizedForBrightnessPercent: z.number().meta({ description: 'Added field: brightness the drivers and cables are sized for (100 with sizeForFullWhite).' }),
     feedPoints: z.int().meta({ description: 'Points where power is fed (the first plus injection points).' }),
     injectionPoints: z.int(),
     maxFeedLengthM: z.number(),

@@ -2,8 +2,19 @@ import { round, type TraceEntry } from './trace.js';
 
 /** Gap left at each end of a tread so the strip clears the stringer (domain rule, default). */
 export const DEFAULT_END_CLEARANCE_MM = 20;
-/** 5 V RGB pixel at full white, 20 mA per colour — Adafruit NeoPixel Überguide. */
+/** 5 V RGB pixel at full white, 20 mA per colour (common practice, widely published in makers' guides, from memory). */
 export const DEFAULT_CURRENT_PER_PIXEL_MA = 60;
+/** 5 V RGBW pixel at full white: a fourth 20 mA channel (common practice, from memory). */
+export const DEFAULT_CURRENT_PER_RGBW_PIXEL_MA = 80;
+/**
+ * 12 V / 24 V pixel strip at full white when the request gives neither the current per pixel
+ * nor the strip power: 14.4 W/m, the common 60 LED/m strip (20 segments/m × 0.06 A × 12 V —
+ * common practice, from memory), × 4/3 for RGBW. Spread over the pixels per metre it gives one
+ * pixel's (segment's) share: 20 pixels/m at 12 V → 60 mA, 60 pixels/m at 24 V → 10 mA.
+ */
+export const DEFAULT_PIXEL_STRIP_W_PER_M = 14.4;
+/** Pixel strip above this voltage carries segments (one IC driving 3 or 6 LEDs): size it per metre. */
+export const PER_PIXEL_MAX_VOLTAGE_V = 5.5;
 
 // Cut counts are whole numbers, so they are computed on whole numbers: lengths in micrometres,
 // densities in pixels per kilometre. Floating division of such integers (all far below 2^53)
@@ -155,21 +166,110 @@ export function pixelCurrentTrace(
   currentPerPixelMa: number | undefined,
   brightnessPercent: number | undefined,
   quantity = 'fullWhiteCurrentA',
+  basis?: PixelCurrentBasis,
 ): TraceEntry {
+  const mA = basis?.currentPerPixelMa ?? currentPerPixelMa ?? DEFAULT_CURRENT_PER_PIXEL_MA;
+  const defaulted = basis ? basis.defaulted : currentPerPixelMa === undefined;
   return {
     quantity,
-    value: round(pixelCurrentA(pixels, currentPerPixelMa, brightnessPercent)),
+    value: round(pixelCurrentA(pixels, mA, brightnessPercent)),
     unit: 'A',
     formula: 'I = pixels × currentPerPixelMa / 1000 × brightnessPercent / 100',
     inputs: {
       pixels,
-      currentPerPixelMa: currentPerPixelMa ?? DEFAULT_CURRENT_PER_PIXEL_MA,
-      currentPerPixelDefaulted: currentPerPixelMa === undefined,
+      currentPerPixelMa: round(mA, 4),
+      currentPerPixelDefaulted: defaulted,
+      currentPerPixelSource: basis?.source ?? (defaulted ? 'default-5v-pixel' : 'given'),
       brightnessPercent: brightnessPercent ?? 100,
     },
-    reference:
-      currentPerPixelMa === undefined
-        ? '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide; brightness scales linearly'
-        : 'current per pixel as given; brightness scales linearly',
+    reference: `${basis?.reference ?? (defaulted ? '60 mA per 5 V RGB pixel at full white (common practice, from memory)' : 'current per pixel as given')}; brightness scales linearly`,
+  };
+}
+
+/** How the current of one pixel at full white was found. */
+export type PixelCurrentSource = 'given' | 'strip-power' | 'default-5v-pixel' | 'default-segment' | 'default-strip-power';
+
+export interface PixelCurrentBasis {
+  currentPerPixelMa: number;
+  source: PixelCurrentSource;
+  /** true when neither currentPerPixelMa nor powerWPerM was given (a warning is due). */
+  defaulted: boolean;
+  /** Strip power per metre behind the figure (given or assumed), W/m; null when sized per pixel. */
+  powerWPerM: number | null;
+  reference: string;
+}
+
+export interface PixelCurrentInput {
+  currentPerPixelMa?: number | undefined;
+  /** Strip power per metre at full white (datasheet). */
+  powerWPerM?: number | undefined;
+  /** Needed to spread a power per metre over the pixels; a calculation without it sizes per segment. */
+  pixelsPerM?: number | undefined;
+  voltageV: number;
+  bitsPerPixel?: number | undefined;
+  protocol?: string | undefined;
+}
+
+const RGBW_FACTOR = 4 / 3;
+
+/**
+ * Current of one pixel at full white. Given → as given; a strip power per metre → W/m ÷ (px/m × V);
+ * otherwise a default by channels and voltage: 5 V pixels 60 mA RGB / 80 mA RGBW; 12 V / 24 V
+ * strip 14.4 W/m (× 4/3 RGBW) spread over its pixels, or — with no density known — 60 / 80 mA per
+ * segment (one IC per 3 or 6 LEDs in series, 20 mA per colour; from memory).
+ */
+export function pixelCurrentBasis(input: PixelCurrentInput): PixelCurrentBasis {
+  const rgbw = input.protocol !== 'clocked' && input.bitsPerPixel === 32;
+  if (input.currentPerPixelMa !== undefined) {
+    return { currentPerPixelMa: input.currentPerPixelMa, source: 'given', defaulted: false, powerWPerM: null, reference: 'current per pixel as given (strip datasheet)' };
+  }
+  if (input.powerWPerM !== undefined && input.pixelsPerM !== undefined) {
+    return {
+      currentPerPixelMa: (input.powerWPerM / input.pixelsPerM / input.voltageV) * 1000,
+      source: 'strip-power',
+      defaulted: false,
+      powerWPerM: input.powerWPerM,
+      reference: 'strip power per metre as given (strip datasheet); I = P / V spread over the pixels per metre',
+    };
+  }
+  if (input.voltageV <= PER_PIXEL_MAX_VOLTAGE_V) {
+    return {
+      currentPerPixelMa: rgbw ? DEFAULT_CURRENT_PER_RGBW_PIXEL_MA : DEFAULT_CURRENT_PER_PIXEL_MA,
+      source: 'default-5v-pixel',
+      defaulted: true,
+      powerWPerM: null,
+      reference: rgbw
+        ? 'about 80 mA per 5 V RGBW pixel at full white, 20 mA per channel (common practice, from memory)'
+        : '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, widely published in makers’ guides, from memory)',
+    };
+  }
+  if (input.pixelsPerM !== undefined) {
+    const wPerM = DEFAULT_PIXEL_STRIP_W_PER_M * (rgbw ? RGBW_FACTOR : 1);
+    return {
+      currentPerPixelMa: (wPerM / input.pixelsPerM / input.voltageV) * 1000,
+      source: 'default-strip-power',
+      defaulted: true,
+      powerWPerM: wPerM,
+      reference: `12 V / 24 V pixel strip sized per metre: ${round(wPerM, 2)} W/m assumed (a common 60 LED/m strip, 20 segments/m × 0.06 A × 12 V${rgbw ? ', × 4/3 for RGBW' : ''}; common practice, from memory)`,
+    };
+  }
+  return {
+    currentPerPixelMa: rgbw ? DEFAULT_CURRENT_PER_RGBW_PIXEL_MA : DEFAULT_CURRENT_PER_PIXEL_MA,
+    source: 'default-segment',
+    defaulted: true,
+    powerWPerM: null,
+    reference: `${rgbw ? 80 : 60} mA per 12 V / 24 V segment (one IC driving 3 or 6 LEDs in series, 20 mA per colour; common practice, from memory)`,
+  };
+}
+
+/** Trace entry of the default current per pixel, for an estimate's list of defaults. */
+export function pixelCurrentDefaultEntry(basis: PixelCurrentBasis): TraceEntry {
+  return {
+    quantity: 'default currentPerPixelMa',
+    value: round(basis.currentPerPixelMa, 3),
+    unit: 'mA',
+    formula: basis.powerWPerM === null ? 'not given; default by channels and voltage' : 'not given; powerWPerM / pixelsPerM / voltageV × 1000',
+    inputs: basis.powerWPerM === null ? {} : { powerWPerM: round(basis.powerWPerM, 3) },
+    reference: basis.reference,
   };
 }

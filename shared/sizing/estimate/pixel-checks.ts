@@ -205,3 +205,65 @@ export function railGroupingCheck(d: Design): EstimateCheck | null {
     `Use a rail strip with at least ${perM} pixels/m over the ${d.rail.rail.lengthM} m rail.`,
   );
 }
+
+/** The pixel run's load figures, rail or chained treads. */
+function pixelLoad(d: Design) {
+  if (d.rail) {
+    const r = d.rail;
+    return { name: 'rail', current: r.current, cap: r.rail.brightnessPercent ?? 100, sized: r.sizingBrightnessPercent, currentA: r.currentA, uncappedA: r.uncappedCurrentA, voltageV: r.rail.voltageV };
+  }
+  if (d.treadPixels) {
+    const t = d.treadPixels;
+    const cap = t.block.brightnessPercent ?? 100;
+    return { name: 'tread', current: t.current, cap, sized: t.sizingBrightnessPercent, currentA: t.totalCurrentA, uncappedA: t.uncappedCurrentA, voltageV: t.block.voltageV };
+  }
+  return null;
+}
+
+/** Every default current per pixel is a guess the installer must confirm (issue 8). */
+export function pixelCurrentCheck(d: Design): EstimateCheck | null {
+  const run = pixelLoad(d);
+  if (!run) return null;
+  const mA = run.current.currentPerPixelMa;
+  const value = Math.round(mA * 1e4) / 1e4;
+  if (!run.current.defaulted) {
+    return passed('pixel-current', `Each ${run.name} pixel draws ${fmt(mA, 2)} mA at full white (${run.current.source === 'given' ? 'as given' : `from ${fmt(run.current.powerWPerM ?? 0, 2)} W/m`}).`, value, null, 'mA', run.current.reference);
+  }
+  return flagged(
+    'pixel-current',
+    'warn',
+    `No current per pixel or strip power given: ${fmt(mA, 2)} mA per ${run.name} pixel at ${run.voltageV} V assumed${run.current.powerWPerM === null ? '' : ` (${fmt(run.current.powerWPerM, 2)} W/m)`}.`,
+    value,
+    null,
+    'mA',
+    run.current.reference,
+    'Give currentPerPixelMa or powerWPerM from the strip datasheet: drivers, feeders and feed points are sized from it.',
+  );
+}
+
+/**
+ * A brightness cap lowers the load only while the controller enforces it: show both loads, and
+ * either size for full white or say the cap must be enforced and the supply overload-protected.
+ */
+export function brightnessCapCheck(d: Design): EstimateCheck | null {
+  const run = pixelLoad(d);
+  if (!run || run.cap >= 100) return null;
+  const cappedA = run.uncappedA * (run.cap / 100);
+  const both = `${run.cap} % cap: ${fmt(cappedA, 2)} A (${fmt(cappedA * run.voltageV, 1)} W); full white: ${fmt(run.uncappedA, 2)} A (${fmt(run.uncappedA * run.voltageV, 1)} W)`;
+  if (run.sized >= 100) {
+    return passed('brightness-cap', `Drivers and cables sized for full white. ${both}.`, round4(run.uncappedA), round4(run.uncappedA), 'A', CAP_REFERENCE);
+  }
+  return flagged(
+    'brightness-cap',
+    'warn',
+    `Drivers and cables are sized for the brightness cap. ${both}.`,
+    round4(cappedA),
+    round4(run.uncappedA),
+    'A',
+    CAP_REFERENCE,
+    `Enforce the ${run.cap} % cap in the controller and use an overload-protected (current-limiting) supply, or set sizeForFullWhite: true to size for ${fmt(run.uncappedA * run.voltageV, 1)} W.`,
+  );
+}
+
+const CAP_REFERENCE = 'PWM brightness scales current linearly; a cap set in software is not a protection (common practice, no published source)';
+const round4 = (x: number) => Math.round(x * 1e4) / 1e4;

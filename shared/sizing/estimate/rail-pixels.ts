@@ -3,7 +3,7 @@ import type { ControllerProfile } from '../../schemas/controller.js';
 import type { RailPixelsBlock } from '../../schemas/estimate.js';
 import { blockSizes } from '../outputs.js';
 import { injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
-import { pixelCurrentA, pixelPiece } from '../strip.js';
+import { pixelCurrentA, pixelCurrentBasis, pixelPiece, type PixelCurrentBasis } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 
 export interface DataOutputUse {
@@ -29,6 +29,12 @@ export interface RailPart {
   dataOutputs: DataOutputUse[];
   currentA: number;
   powerW: number;
+  /** Current of one pixel at full white and how it was found. */
+  current: PixelCurrentBasis;
+  /** Brightness the loads are sized for: the cap, or 100 with sizeForFullWhite. */
+  sizingBrightnessPercent: number;
+  /** Whole run at full white with no cap, A. */
+  uncappedCurrentA: number;
   injection: InjectionPlan;
   feedPoints: number;
 }
@@ -52,17 +58,22 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
   const grouping = treadsInStep === null ? null : railGrouping(treadsInStep, pixelsOnRail);
   const pixels = grouping && grouping.fits ? grouping.pixelsToFit : pixelsOnRail;
 
+  const current = pixelCurrentBasis(rail);
+  // Sized for the cap unless the caller asks for full white (the brightness-cap check says which).
+  const sizingBrightnessPercent = rail.sizeForFullWhite ? 100 : (rail.brightnessPercent ?? 100);
   const data = pixelData({
     pixels,
     protocol: rail.protocol,
     bitsPerPixel: rail.bitsPerPixel,
+    resetUs: rail.resetUs,
+    clockHz: rail.clockHz,
     // pixelData splits N pixels over ceil(N / limit) outputs; with no pixel there is nothing to split.
     maxPixelsPerOutput: pixels > 0 ? profile.maxPixelsPerOutput : undefined,
-    currentPerPixelMa: rail.currentPerPixelMa,
+    currentPerPixelMa: current.currentPerPixelMa,
     supplyVoltageV: rail.voltageV,
-    brightnessPercent: rail.brightnessPercent,
+    brightnessPercent: sizingBrightnessPercent,
   });
-  const currentA = pixelCurrentA(pixels, rail.currentPerPixelMa, rail.brightnessPercent);
+  const currentA = pixelCurrentA(pixels, current.currentPerPixelMa, sizingBrightnessPercent);
   const powerW = currentA * rail.voltageV;
 
   const perController = profile.dataOutputs ?? 0;
@@ -93,11 +104,14 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
       value: round(powerW),
       unit: 'W',
       formula: 'pixels × currentPerPixelMa / 1000 × brightnessPercent / 100 × voltageV',
-      inputs: { pixels, currentPerPixelMa: rail.currentPerPixelMa ?? 60, brightnessPercent: rail.brightnessPercent ?? 100, voltageV: rail.voltageV },
-      reference:
-        rail.currentPerPixelMa === undefined
-          ? '60 mA per 5 V RGB pixel at full white — Adafruit NeoPixel Überguide; P = V·I'
-          : 'current per pixel as given; P = V·I',
+      inputs: {
+        pixels,
+        currentPerPixelMa: round(current.currentPerPixelMa, 4),
+        currentPerPixelSource: current.source,
+        brightnessPercent: sizingBrightnessPercent,
+        voltageV: rail.voltageV,
+      },
+      reference: `${current.reference}; P = V·I`,
     },
     ...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `rail.${e.quantity}` })),
   );
@@ -114,6 +128,9 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
     dataOutputs,
     currentA,
     powerW,
+    current,
+    sizingBrightnessPercent,
+    uncappedCurrentA: pixelCurrentA(pixels, current.currentPerPixelMa, 100),
     injection,
     feedPoints: injection.injectionPoints + 1,
   };

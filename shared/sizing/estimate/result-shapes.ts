@@ -1,4 +1,5 @@
 import type { EstimateOutputs, EstimateResult } from '../../schemas/estimate.js';
+import type { PixelCurrentBasis } from '../strip.js';
 import { round } from '../trace.js';
 import type { DataOutputUse, RailPart } from './rail-pixels.js';
 import type { Settings } from './settings.js';
@@ -65,6 +66,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           fullWhiteCurrentA: round(rail.currentA),
           powerW: round(rail.powerW),
           brightnessPercent: rail.rail.brightnessPercent ?? 100,
+          ...currentFields(rail.current, rail.uncappedCurrentA, rail.rail.voltageV, rail.sizingBrightnessPercent),
           feedPoints: rail.feedPoints,
           injectionPoints: rail.injection.injectionPoints,
           maxFeedLengthM: round(rail.injection.maxFeedLengthM, 3),
@@ -86,6 +88,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           fullWhiteCurrentA: round(treadPixels.totalCurrentA),
           powerW: round(treadPixels.totalLoadW),
           brightnessPercent: treadPixels.block.brightnessPercent ?? 100,
+          ...currentFields(treadPixels.current, treadPixels.uncappedCurrentA, treadPixels.block.voltageV, treadPixels.sizingBrightnessPercent),
           feedPoints: treadPixels.feedGroups.length,
           injectionPoints: treadPixels.feedGroups.length - treadPixels.chains.length,
           maxFeedLengthM: round(treadPixels.injection.maxFeedLengthM, 3),
@@ -93,5 +96,16 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
         }
       : null,
     railGrouping: rail?.grouping ?? null,
+  };
+}
+
+/** The current per pixel behind a run's load, and its load with no brightness cap. */
+function currentFields(current: PixelCurrentBasis, uncappedCurrentA: number, voltageV: number, sizedForBrightnessPercent: number) {
+  return {
+    currentPerPixelMa: round(current.currentPerPixelMa, 4),
+    currentPerPixelSource: current.source,
+    uncappedCurrentA: round(uncappedCurrentA),
+    uncappedPowerW: round(uncappedCurrentA * voltageV),
+    sizedForBrightnessPercent,
   };
 }

@@ -4,7 +4,7 @@ import type { PixelsResult } from '../../schemas/pixels.js';
 import { bestControllerTread, treadPositionsM, type ControllerPosition, type StairGeometry } from '../geometry.js';
 import { blockSizes } from '../outputs.js';
 import { injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
-import { fitPixelStrip, pixelCurrentA, pixelCurrentTrace, stripFitTrace, type PixelPiece, type StripFit } from '../strip.js';
+import { fitPixelStrip, pixelCurrentA, pixelCurrentBasis, pixelCurrentTrace, stripFitTrace, type PixelCurrentBasis, type PixelPiece, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { dropPercentOf, loopDropV } from '../voltage-drop.js';
 import { timingTrace, type DataOutputUse } from './rail-pixels.js';
@@ -33,6 +33,12 @@ export interface TreadPixelPart {
   block: TreadPixelsBlock;
   fit: StripFit;
   piece: PixelPiece;
+  /** Current of one pixel at full white and how it was found. */
+  current: PixelCurrentBasis;
+  /** Brightness the loads are sized for: the cap, or 100 with sizeForFullWhite. */
+  sizingBrightnessPercent: number;
+  /** Whole run at full white with no cap, A. */
+  uncappedCurrentA: number;
   pixelsPerTread: number;
   litTreads: number;
   treadCurrentA: number;
@@ -151,7 +157,10 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const { fit, piece: cut } = fitPixelStrip(stair.treadWidthMm as number, block.pixelsPerM, block.cutPitchMm, block.endClearanceMm);
   const piece = fit.fits && cut.pixels > 0 ? cut : NO_PIECE;
   const p = piece.pixels;
-  const treadCurrentA = pixelCurrentA(p, block.currentPerPixelMa, block.brightnessPercent);
+  const current = pixelCurrentBasis(block);
+  // Sized for the cap unless the caller asks for full white (the brightness-cap check says which).
+  const sizingBrightnessPercent = block.sizeForFullWhite ? 100 : (block.brightnessPercent ?? 100);
+  const treadCurrentA = pixelCurrentA(p, current.currentPerPixelMa, sizingBrightnessPercent);
   const treadPowerW = treadCurrentA * block.voltageV;
 
   const plan = planChains(n, p, profile);
@@ -256,9 +265,11 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     pixels: busiestChainPixels,
     protocol: block.protocol,
     bitsPerPixel: block.bitsPerPixel,
-    currentPerPixelMa: block.currentPerPixelMa,
+    resetUs: block.resetUs,
+    clockHz: block.clockHz,
+    currentPerPixelMa: current.currentPerPixelMa,
     supplyVoltageV: block.voltageV,
-    brightnessPercent: block.brightnessPercent,
+    brightnessPercent: sizingBrightnessPercent,
   });
   const totalPixels = n * p;
   const totalCurrentA = n * treadCurrentA;
@@ -280,7 +291,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
       inputs: { stripLengthMm: fit.stripLengthMm, pixelsPerM: block.pixelsPerM, cutPitchMm: block.cutPitchMm ?? null },
       reference: 'arithmetic: whole pixels only',
     },
-    pixelCurrentTrace(p, block.currentPerPixelMa, block.brightnessPercent, 'tread.currentA'),
+    pixelCurrentTrace(p, block.currentPerPixelMa, sizingBrightnessPercent, 'tread.currentA', current),
     {
       quantity: 'treads.totalPixels',
       value: totalPixels,
@@ -335,6 +346,9 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     block,
     fit,
     piece,
+    current,
+    sizingBrightnessPercent,
+    uncappedCurrentA: n * pixelCurrentA(p, current.currentPerPixelMa, 100),
     pixelsPerTread: p,
     litTreads: p > 0 ? n : 0,
     treadCurrentA,

@@ -1,0 +1,109 @@
+import { describe, expect, it } from 'vitest';
+import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
+import { estimateRequestSchema, type EstimateResult } from '../../shared/schemas/estimate.js';
+import { alderRowStair, alderRowTreadPixels, hlK20Profile, hlK36Profile, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
+import { estimate } from '../../shared/sizing/estimate/estimate.js';
+import { pixelData } from '../../shared/sizing/pixels.js';
+
+const run = (body: unknown): EstimateResult => estimate(estimateRequestSchema.parse(body));
+const check = (result: EstimateResult, id: string) => result.checks.find((c) => c.id === id);
+const calc = (body: unknown) => pixelData(pixelsRequestSchema.parse(body));
+
+/** A corridor rail of the given strip on the HL-K36 profile (two outputs of 600 pixels). */
+const corridor = (railPixels: Record<string, unknown>) => ({
+  layout: 'rail-pixels',
+  railPixels: { lengthM: 5, protocol: 'one-wire-800k', ...railPixels },
+  controller: { profile: hlK36Profile },
+});
+
+describe('issue 8, item 7: pixel fit counted in integers', () => {
+  it('30 pixels/m on 1000 mm treads: 28 pixels per tread, not 27', () => {
+    const result = run({ ...alderRowTreadPixels, staircase: { ...alderRowStair, treadWidthMm: 1000 }, treadPixels: { pixelsPerM: 30, voltageV: 5, protocol: 'one-wire-800k' } });
+    // hand arithmetic: 1000 − 2 × 20 = 960 mm; 960 × 30 / 1000 = 28.8 → 28 pixels (28 × 33.33… = 933.33 mm)
+    expect(result.treads[0]?.pixels).toBe(28);
+    expect(result.treads[0]?.stripLengthMm).toBeCloseTo(933.333, 3);
+    expect(check(result, 'strip-fits-tread')?.message).toContain('28 pixels per tread');
+    // hand arithmetic: 14 treads × 28 = 392 pixels
+    expect(result.pixels.treads?.pixels).toBe(392);
+  });
+});
+
+describe('issue 8, item 8: pixel current defaults by channels and voltage', () => {
+  it('the calculation keeps 60 mA for a 5 V RGB pixel and says it assumed it', () => {
+    const result = calc({ pixels: 100, protocol: 'one-wire-800k' });
+    // 60 mA per 5 V RGB pixel (common practice, from memory): 100 × 0.06 = 6 A, 30 W at 5 V
+    expect(result.currentPerPixelMa).toBe(60);
+    expect(result.fullWhiteCurrentA).toBeCloseTo(6, 9);
+    expect(result.warnings.map((w) => w.code)).toContain('current_per_pixel_assumed');
+  });
+
+  it('a 5 V RGBW pixel defaults to 80 mA, not the RGB 60 mA', () => {
+    // about 80 mA per 5 V RGBW pixel, 20 mA per channel (common practice, from memory): 100 × 0.08 = 8 A
+    expect(calc({ pixels: 100, protocol: 'one-wire-800k', bitsPerPixel: 32 }).fullWhiteCurrentA).toBeCloseTo(8, 9);
+    const result = run(corridor({ pixelsPerM: 60, voltageV: 5, bitsPerPixel: 32 }));
+    // 5 m × 60 = 300 pixels × 0.08 A = 24 A; × 5 V = 120 W
+    expect(result.pixels.rail?.currentPerPixelMa).toBe(80);
+    expect(result.pixels.rail?.powerW).toBeCloseTo(120, 9);
+    expect(check(result, 'pixel-current')).toMatchObject({ status: 'warn', value: 80 });
+    expect(check(result, 'pixel-current')?.reference).toContain('from memory');
+  });
+
+  it('24 V pixel strip is sized per metre, not at 60 mA per pixel', () => {
+    const result = run(corridor({ pixelsPerM: 60, voltageV: 24 }));
+    // 14.4 W/m assumed for 12 / 24 V strip (20 segments/m × 0.06 A × 12 V, common practice, from memory):
+    // 14.4 / 60 / 24 = 10 mA per pixel; 5 m → 72 W (the old 60 mA gave 300 × 0.06 × 24 = 432 W)
+    expect(result.pixels.rail?.currentPerPixelMa).toBeCloseTo(10, 9);
+    expect(result.pixels.rail?.powerW).toBeCloseTo(72, 6);
+    expect(result.pixels.rail?.currentPerPixelSource).toBe('default-strip-power');
+    expect(check(result, 'pixel-current')?.status).toBe('warn');
+  });
+
+  it('a strip power per metre from the datasheet sets the current per pixel and passes', () => {
+    const result = run(corridor({ pixelsPerM: 60, voltageV: 24, powerWPerM: 18 }));
+    // hand arithmetic: 18 W/m / 60 px/m / 24 V = 12.5 mA; 5 m × 18 W/m = 90 W
+    expect(result.pixels.rail?.currentPerPixelMa).toBeCloseTo(12.5, 9);
+    expect(result.pixels.rail?.powerW).toBeCloseTo(90, 6);
+    expect(check(result, 'pixel-current')?.status).toBe('pass');
+  });
+
+  it('without a density, a 24 V segment defaults to 60 mA in the calculation and warns', () => {
+    const result = calc({ pixels: 10, protocol: 'one-wire-800k', supplyVoltageV: 24 });
+    // 60 mA per 12 V / 24 V segment, 20 mA per colour (common practice, from memory): 10 × 0.06 × 24 = 14.4 W
+    expect(result.powerW).toBeCloseTo(14.4, 9);
+    expect(result.warnings.map((w) => w.code)).toContain('current_per_pixel_assumed');
+  });
+});
+
+describe('issue 8, item 8: a brightness cap shows both loads', () => {
+  it('Quayside: sized for the 50 % cap, full white shown, the cap must be enforced', () => {
+    const result = run(quaysideCorridor);
+    // 1 080 pixels × 60 mA (common practice, from memory) = 64.8 A at full white; × 50 % = 32.4 A
+    expect(result.pixels.rail?.fullWhiteCurrentA).toBeCloseTo(32.4, 9);
+    expect(result.pixels.rail?.uncappedCurrentA).toBeCloseTo(64.8, 9);
+    expect(result.pixels.rail?.uncappedPowerW).toBeCloseTo(324, 9);
+    const cap = check(result, 'brightness-cap');
+    expect(cap).toMatchObject({ status: 'warn', value: 32.4, limit: 64.8 });
+    expect(cap?.suggestion).toContain('overload-protected');
+  });
+
+  it('sizeForFullWhite sizes the drivers for full white', () => {
+    const result = run({ ...quaysideCorridor, railPixels: { ...quaysideCorridor.railPixels, sizeForFullWhite: true } });
+    // hand arithmetic: 64.8 A × 5 V = 324 W on the 5 V rail
+    expect(result.drivers[0]?.loadW).toBeCloseTo(324, 9);
+    expect(check(result, 'brightness-cap')?.status).toBe('pass');
+  });
+});
+
+describe('issue 8, item 12: clocked clock and latch set in an estimate', () => {
+  it('a clocked rail at 4 MHz sends a frame four times faster than at the 1 MHz default', () => {
+    const base = { pixelsPerM: 20, voltageV: 5, protocol: 'clocked', currentPerPixelMa: 60 };
+    const slow = run({ ...corridor(base), controller: { profile: hlK20Profile } });
+    const fast = run({ ...corridor({ ...base, clockHz: 4_000_000 }), controller: { profile: hlK20Profile } });
+    // APA102C datasheet frame: 100 LEDs → 32 + 3 200 + 56 = 3 288 bits; 3 288 µs at 1 MHz, 822 µs at 4 MHz
+    expect(slow.pixels.rail?.frameTimeUs).toBe(3288);
+    expect(fast.pixels.rail?.frameTimeUs).toBe(822);
+    // a part that latches on a 500 µs pause (datasheet value as given): 822 + 500 µs
+    const latched = run({ ...corridor({ ...base, clockHz: 4_000_000, resetUs: 500 }), controller: { profile: hlK20Profile } });
+    expect(latched.pixels.rail?.frameTimeUs).toBe(1322);
+  });
+});
