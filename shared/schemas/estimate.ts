@@ -141,6 +141,15 @@ export const railPixelsSchema = z
   .object({
     lengthM: z.number().min(0.1).max(500).meta({ description: 'Length of the rail (handrail, skirting or corridor wall) run, m.' }),
     ...pixelCommon,
+    dataLeadM: z
+      .number()
+      .min(0)
+      .max(100)
+      .optional()
+      .meta({
+        description: 'Added field: data lead from the controller to the start of the rail, m. Default 0.5 (controller beside the rail’s start); each further data output’s lead runs on to the start of its stretch.',
+        default: 0.5,
+      }),
   })
   .meta({
     id: 'RailPixels',
@@ -406,6 +415,10 @@ const quaysideRailRun = {
   feedPoints: 8,
   injectionPoints: 7,
   maxFeedLengthM: 2.5,
+  dataGaps: [
+    { kind: 'lead', controller: 1, output: 1, tread: null, lengthM: 0.5, limitM: 2, withinLimit: true },
+    { kind: 'lead', controller: 1, output: 2, tread: null, lengthM: 9.5, limitM: 2, withinLimit: false },
+  ],
 } as const;
 
 /** Stable check ids: other tools are built against them, so ids are added, never renamed. */
@@ -583,6 +596,19 @@ export const estimatePixelRunSchema = z
     injectionPoints: z.int(),
     maxFeedLengthM: z.number(),
     chainCableLengthM: z.number().optional().meta({ description: 'Chaining cable between treads in total, m (tread pixels).' }),
+    dataGaps: z
+      .array(
+        z.object({
+          kind: z.enum(['lead', 'link']).meta({ description: 'lead: data output → first pixel; link: last pixel of one tread → first of the next.' }),
+          controller: z.int().nullable(),
+          output: z.int().nullable(),
+          tread: z.int().nullable().meta({ description: 'Tread the gap leads into; null on a rail.' }),
+          lengthM: z.number(),
+          limitM: z.number().meta({ description: 'Longest unbuffered one-wire gap allowed, m.' }),
+          withinLimit: z.boolean(),
+        }),
+      )
+      .meta({ description: 'Added field: every data gap of the run, each checked on its own (each pixel regenerates the data).' }),
   })
   .meta({ id: 'EstimatePixelRun', description: 'An addressable run: data timing, power and feed points.', example: quaysideRailRun });
 
@@ -658,7 +684,19 @@ export const estimateSensorsResultSchema = z
 export const bomLineSchema = z
   .object({
     sku: z.string().optional(),
-    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
+    category: z.enum([
+      'strip',
+      'pixel-strip',
+      'aluminium-profile',
+      'end-caps',
+      'driver',
+      'controller',
+      'motion-sensor',
+      'daylight-sensor',
+      'cable',
+      // Added for issue 8: differential data links and level shifters of pixel data lines.
+      'data-line',
+    ]),
     description: z.string(),
     quantity: z.int(),
     unit: z.enum(['reel', 'pcs', 'm', 'pair']),

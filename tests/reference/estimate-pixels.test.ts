@@ -107,3 +107,60 @@ describe('issue 8, item 12: clocked clock and latch set in an estimate', () => {
     expect(latched.pixels.rail?.frameTimeUs).toBe(1322);
   });
 });
+
+describe('issue 8, item 6: every one-wire data gap checked on its own', () => {
+  const bomLine = (result: EstimateResult, text: string) => result.bom.find((l) => l.category === 'data-line' && l.description.includes(text));
+
+  it('a 9.7 m unbuffered data lead fails and puts a differential link in the bill of materials', () => {
+    const result = run(corridor({ pixelsPerM: 60, voltageV: 5, currentPerPixelMa: 60, dataLeadM: 9.7 }));
+    // one-wire data kept to about 1–2 m unbuffered (team handbook, from memory): 9.7 m > 2 m
+    expect(check(result, 'data-line-length')).toMatchObject({ status: 'fail', value: 9.7, limit: 2 });
+    expect(check(result, 'data-line-length')?.suggestion).toContain('differential');
+    expect(bomLine(result, 'Differential')?.quantity).toBe(1);
+  });
+
+  it('a 0.5 m lead passes and adds nothing to the bill', () => {
+    const result = run(corridor({ pixelsPerM: 60, voltageV: 5, currentPerPixelMa: 60 }));
+    // 0.5 m default lead (controller beside the rail's start) ≤ 2 m (from memory)
+    expect(check(result, 'data-line-length')).toMatchObject({ status: 'pass', value: 0.5 });
+    expect(result.bom.some((l) => l.category === 'data-line')).toBe(false);
+  });
+
+  it('Quayside: the second output’s lead runs 9.5 m to its stretch of rail', () => {
+    const result = run(quaysideCorridor);
+    // hand arithmetic: output 1 drives pixels 1–540; output 2 starts 540 / 60 = 9 m along, + 0.5 m lead = 9.5 m > 2 m
+    expect(result.pixels.rail?.dataGaps.map((g) => g.lengthM)).toEqual([0.5, 9.5]);
+    expect(check(result, 'data-line-length')).toMatchObject({ status: 'fail', value: 9.5 });
+  });
+
+  it('tread pixels: the lead from a controller at the top to tread 1 is too long', () => {
+    const result = run({ ...alderRowTreadPixels, controller: { profile: hlK20Profile, position: 'top' } });
+    // stair geometry: 13 steps × √(185² + 250²) mm = 4.043 m + 0.5 m allowance = 4.543 m > 2 m (from memory)
+    const lead = result.pixels.treads?.dataGaps.find((g) => g.kind === 'lead');
+    expect(lead?.lengthM).toBeCloseTo(13 * Math.hypot(185, 250) / 1000 + 0.5, 3);
+    expect(check(result, 'data-line-length')?.status).toBe('fail');
+    expect(check(result, 'data-line-length')?.message).toContain('tread 1');
+  });
+
+  it('tread pixels: every tread-to-tread link is a gap of its own', () => {
+    const result = run({ ...alderRowTreadPixels, cable: { serviceAllowanceM: 2 } });
+    // stair geometry: each link is one step 0.311 m + 2 m allowance = 2.311 m > 2 m; 13 links on a 14-tread chain
+    const links = result.pixels.treads?.dataGaps.filter((g) => g.kind === 'link') ?? [];
+    expect(links).toHaveLength(13);
+    expect(links.every((g) => !g.withinLimit)).toBe(true);
+    expect(bomLine(result, 'Differential')?.quantity).toBe(13);
+    // Alder Row as documented (controller at the chain start, 0.5 m allowance): 0.81 m links pass
+    expect(check(run(alderRowTreadPixels), 'data-line-length')?.status).toBe('pass');
+  });
+
+  it('3.3 V data on 5 V pixels needs a level shifter; 5 V data does not', () => {
+    const low = run({ ...corridor({ pixelsPerM: 60, voltageV: 5, currentPerPixelMa: 60 }), controller: { profile: { ...hlK36Profile, dataLogicV: 3.3 } } });
+    // WS2812B datasheet: VIH = 0.7 × VDD = 3.5 V at 5 V; 3.3 V < 3.5 V
+    expect(check(low, 'data-logic-level')).toMatchObject({ status: 'fail', value: 3.3, limit: 3.5 });
+    expect(bomLine(low, 'Level shifter')?.quantity).toBe(1);
+    const high = run({ ...corridor({ pixelsPerM: 60, voltageV: 5, currentPerPixelMa: 60 }), controller: { profile: { ...hlK36Profile, dataLogicV: 5 } } });
+    expect(check(high, 'data-logic-level')?.status).toBe('pass');
+    // no data logic voltage in the profile: nothing to judge
+    expect(check(run(quaysideCorridor), 'data-logic-level')).toBeUndefined();
+  });
+});

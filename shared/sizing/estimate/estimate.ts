@@ -7,6 +7,7 @@ import { buildBom } from './bom.js';
 import { cableSchedule, cableUsesOf, describeUse, type CableUse } from './cable-schedule.js';
 import { indexCatalog } from './catalog.js';
 import { cautionsFor } from './cautions.js';
+import { dataLineBomLines } from './data-lines.js';
 import type { Design } from './checks.js';
 import { sizeRailPixels, type RailPart } from './rail-pixels.js';
 import { outputsOf, pixelsOf } from './result-shapes.js';
@@ -87,7 +88,9 @@ export function estimate(input: EstimateInput): EstimateResult {
   const checks = runChecks(design);
 
   const litPieces = litPiecesMm(treadStrips, treadPixels);
-  const bom = buildBom({ settings, catalog, strips, profilePiecesMm: litPieces, supplies, controllers, sensors, cables }, trace);
+  // Issue 8 (pixels): parts the data lines need.
+  const extraLines = dataLineBomLines(rail?.dataLines ?? treadPixels?.dataLines);
+  const bom = buildBom({ settings, catalog, strips, profilePiecesMm: litPieces, supplies, controllers, sensors, cables, extraLines }, trace);
 
   let totalLoadW = 0;
   let driverCount = 0;

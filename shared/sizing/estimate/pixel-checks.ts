@@ -2,6 +2,7 @@ import type { EstimateCheck } from '../../schemas/estimate.js';
 import type { PixelsResult } from '../../schemas/pixels.js';
 import { pixelData, SMOOTH_REFRESH_HZ } from '../pixels.js';
 import { flagged, fmt, passed, type Design } from './checks.js';
+import { DATA_LINE_REFERENCE, type DataGap } from './data-lines.js';
 
 const PROFILE = 'controller profile';
 const REFRESH_REFERENCE =
@@ -267,3 +268,62 @@ export function brightnessCapCheck(d: Design): EstimateCheck | null {
 
 const CAP_REFERENCE = 'PWM brightness scales current linearly; a cap set in software is not a protection (common practice, no published source)';
 const round4 = (x: number) => Math.round(x * 1e4) / 1e4;
+
+function gapText(g: DataGap): string {
+  if (g.kind === 'lead') {
+    const from = g.output === null ? 'the controller' : `data output ${g.output}${g.controller !== null && g.controller > 1 ? ` of controller ${g.controller}` : ''}`;
+    return g.tread === null ? `the lead from ${from} to its stretch of rail` : `the lead from ${from} to tread ${g.tread}`;
+  }
+  return `the link into tread ${g.tread}`;
+}
+
+/** One-wire data is regenerated at every pixel, so every gap on its own stays short (issue 8, item 6). */
+export function dataLineLengthCheck(d: Design): EstimateCheck | null {
+  const lines = d.rail?.dataLines ?? d.treadPixels?.dataLines;
+  if (!lines || !lines.oneWire || !lines.worst) return null;
+  const worst = lines.worst;
+  if (lines.overLimit.length === 0) {
+    return passed(
+      'data-line-length',
+      `Every one-wire data gap is within its unbuffered limit; the longest relative to its limit is ${gapText(worst)}, ${fmt(worst.lengthM, 2)} m of ${fmt(worst.limitM, 2)} m.`,
+      round4(worst.lengthM),
+      worst.limitM,
+      'm',
+      DATA_LINE_REFERENCE,
+    );
+  }
+  const n = lines.overLimit.length;
+  const listed = lines.overLimit.slice(0, 3).map((g) => `${gapText(g)} ${fmt(g.lengthM, 2)} m`).join('; ');
+  return flagged(
+    'data-line-length',
+    'fail',
+    `${n} one-wire data gap${n === 1 ? '' : 's'} exceed${n === 1 ? 's' : ''} the unbuffered limit: ${listed}${n > 3 ? '; …' : ''} (limit ${fmt(worst.limitM, 2)} m).`,
+    round4(worst.lengthM),
+    worst.limitM,
+    'm',
+    DATA_LINE_REFERENCE,
+    `Fit a differential data link (transmitter at the sending end, receiver beside the first pixel; ${n} pair${n === 1 ? '' : 's'} in the bill of materials) on ${n === 1 ? 'that gap' : 'each of those gaps'}, or a buffer at the sending end for a little more length, or move the controller so that each gap is within ${fmt(worst.limitM, 2)} m${worst.kind === 'lead' && d.rail ? ' (e.g. between two outputs’ stretches, each output running outward)' : ''}.`,
+  );
+}
+
+/** A 3.3 V data output is under the 0.7 × VDD a 5 V pixel reads as high: a level shifter is needed. */
+export function dataLogicLevelCheck(d: Design): EstimateCheck | null {
+  const lines = d.rail?.dataLines ?? d.treadPixels?.dataLines;
+  if (!lines || lines.dataLogicV === null) return null;
+  const limit = Math.round(lines.logicHighV * 1000) / 1000;
+  if (lines.levelShiftersNeeded === 0) {
+    return passed('data-logic-level', `The controller's ${lines.dataLogicV} V data reaches the ${fmt(limit, 2)} V the pixels read as high.`, lines.dataLogicV, limit, 'V', LOGIC_REFERENCE);
+  }
+  return flagged(
+    'data-logic-level',
+    'fail',
+    `The controller's ${lines.dataLogicV} V data is below the ${fmt(limit, 2)} V (0.7 × VDD) the pixels need to read a high bit.`,
+    lines.dataLogicV,
+    limit,
+    'V',
+    LOGIC_REFERENCE,
+    `Fit a level shifter to 5 V logic at each of the ${lines.levelShiftersNeeded} data output${lines.levelShiftersNeeded === 1 ? '' : 's'} used (in the bill of materials), or choose a controller with 5 V data outputs.`,
+  );
+}
+
+const LOGIC_REFERENCE = 'logic high ≥ 0.7 × VDD (WS2812B datasheet, VIH); pixel ICs on 12 V / 24 V strip run from about 5 V (from memory)';

@@ -5,6 +5,7 @@ import { blockSizes } from '../outputs.js';
 import { injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
 import { pixelCurrentA, pixelCurrentBasis, pixelPiece, type PixelCurrentBasis } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
+import { DEFAULT_RAIL_DATA_LEAD_M, dataLines, dataLinesTrace, gap, maxDataLeadM, type DataGap, type DataLines } from './data-lines.js';
 
 export interface DataOutputUse {
   controller: number;
@@ -37,6 +38,8 @@ export interface RailPart {
   uncappedCurrentA: number;
   injection: InjectionPlan;
   feedPoints: number;
+  /** Data leads from each controller to the start of each of its outputs' stretch of rail. */
+  dataLines: DataLines;
 }
 
 const TIMING_QUANTITIES = new Set(['frameTimeUs', 'maxRefreshHz', 'outputsNeeded']);
@@ -86,6 +89,21 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
     });
   }
 
+  // A controller sits dataLeadM before the first stretch it drives; each output's lead runs on to
+  // the first pixel of its own stretch (outputs take consecutive stretches of the rail).
+  const gaps: DataGap[] = [];
+  const leadM = rail.dataLeadM ?? DEFAULT_RAIL_DATA_LEAD_M;
+  let startPixel = 0;
+  let controllerStartPixel = 0;
+  for (const o of dataOutputs) {
+    if (o.output === 1) controllerStartPixel = startPixel;
+    gaps.push(gap('lead', 'rail', leadM + (startPixel - controllerStartPixel) / rail.pixelsPerM, maxDataLeadM(profile), { controller: o.controller, output: o.output }));
+    startPixel += o.pixels;
+  }
+  if (dataOutputs.length === 0 && pixels > 0) gaps.push(gap('lead', 'rail', leadM, maxDataLeadM(profile), {}));
+  const lines = dataLines(gaps, rail.protocol, rail.voltageV, profile, dataOutputs.length);
+  trace.push(dataLinesTrace('rail', lines, profile, undefined));
+
   const injectionInput = { lengthM: rail.lengthM, voltageV: rail.voltageV, maxFeedLengthM: rail.maxFeedLengthM, currentA };
   const injection = injectionPoints(injectionInput);
 
@@ -133,5 +151,6 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
     uncappedCurrentA: pixelCurrentA(pixels, current.currentPerPixelMa, 100),
     injection,
     feedPoints: injection.injectionPoints + 1,
+    dataLines: lines,
   };
 }

@@ -1,5 +1,6 @@
 import type { EstimateOutputs, EstimateResult } from '../../schemas/estimate.js';
 import type { PixelCurrentBasis } from '../strip.js';
+import type { DataLines } from './data-lines.js';
 import { round } from '../trace.js';
 import type { DataOutputUse, RailPart } from './rail-pixels.js';
 import type { Settings } from './settings.js';
@@ -70,6 +71,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           feedPoints: rail.feedPoints,
           injectionPoints: rail.injection.injectionPoints,
           maxFeedLengthM: round(rail.injection.maxFeedLengthM, 3),
+          dataGaps: gapsOf(rail.dataLines),
         }
       : null,
     treads: treadPixels
@@ -93,6 +95,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           injectionPoints: treadPixels.feedGroups.length - treadPixels.chains.length,
           maxFeedLengthM: round(treadPixels.injection.maxFeedLengthM, 3),
           chainCableLengthM: round(treadPixels.chainCableLengthM, 3),
+          dataGaps: gapsOf(treadPixels.dataLines),
         }
       : null,
     railGrouping: rail?.grouping ?? null,
@@ -108,4 +111,8 @@ function currentFields(current: PixelCurrentBasis, uncappedCurrentA: number, vol
     uncappedPowerW: round(uncappedCurrentA * voltageV),
     sizedForBrightnessPercent,
   };
+}
+
+function gapsOf(lines: DataLines) {
+  return lines.gaps.map((g) => ({ kind: g.kind, controller: g.controller, output: g.output, tread: g.tread, lengthM: round(g.lengthM, 3), limitM: g.limitM, withinLimit: g.withinLimit }));
 }

@@ -2,7 +2,7 @@ import type { EstimateCheck } from '../../schemas/estimate.js';
 import { cableCurrentCheck, cableDropCheck, cableMinSizeCheck, cableRunLengthCheck } from './cable-checks.js';
 import type { Design } from './checks.js';
 import { controllerInputCheck, outputCountCheck, outputCurrentCheck } from './output-checks.js';
-import { brightnessCapCheck, pixelCurrentCheck, pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
+import { brightnessCapCheck, dataLineLengthCheck, dataLogicLevelCheck, pixelCurrentCheck, pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
 import { sensorCurrentCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
 import { pieceFitsReelCheck, stripFitsCheck, treadCountCheck } from './stair-checks.js';
 import { class2Check, driverLoadingCheck, selvCheck } from './supply-checks.js';
@@ -32,6 +32,8 @@ const CHECKS: readonly ((d: Design) => EstimateCheck | null)[] = [
   // Added for issue 8 (pixels, data lines, sensors):
   pixelCurrentCheck,
   brightnessCapCheck,
+  dataLineLengthCheck,
+  dataLogicLevelCheck,
 ];
 
 export function runChecks(d: Design): EstimateCheck[] {

@@ -7,6 +7,7 @@ import { injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '
 import { fitPixelStrip, pixelCurrentA, pixelCurrentBasis, pixelCurrentTrace, stripFitTrace, type PixelCurrentBasis, type PixelPiece, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { dropPercentOf, loopDropV } from '../voltage-drop.js';
+import { DEFAULT_MAX_UNBUFFERED_DATA_M, dataLines, dataLinesTrace, gap, maxDataLeadM, type DataGap, type DataLines } from './data-lines.js';
 import { timingTrace, type DataOutputUse } from './rail-pixels.js';
 import { setSize, sizeRun, type RunCable } from './run-cable.js';
 import type { Settings } from './settings.js';
@@ -61,6 +62,8 @@ export interface TreadPixelPart {
   chainCableLengthM: number;
   injection: InjectionPlan;
   rows: EstimateTread[];
+  /** Data gaps: controller → first tread of each chain, and tread to tread. */
+  dataLines: DataLines;
 }
 
 const NO_PIECE: PixelPiece = Object.freeze({ lengthMm: 0, pixels: 0 });
@@ -207,6 +210,10 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   let chainCableLengthM = 0;
   // Without data outputs no chain has an output to go on (the pixels-total check fails).
   const hasDataOutputs = (profile.dataOutputs ?? 0) > 0;
+  // Every data gap on its own: each pixel regenerates the signal (handbook, "Data lines").
+  const gaps: DataGap[] = [];
+  const leadLimitM = maxDataLeadM(profile);
+  const linkLimitM = block.maxDataLinkM ?? DEFAULT_MAX_UNBUFFERED_DATA_M;
   const rowPowerW = round(treadPowerW);
   const rowCurrentA = round(treadCurrentA);
   for (const c of chainBlocks) {
@@ -227,6 +234,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
           kind = 'chain-lead';
           cable = lead;
           lengthM = lead.lengthM;
+          gaps.push(gap('lead', 'treads', lengthM, leadLimitM, { controller: c.controller, output: hasDataOutputs ? c.output : null, tread: k }));
         } else if (k === g.firstTread) {
           kind = 'data-link';
           lengthM = linkLengthM(positions, k, settings);
@@ -241,6 +249,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
           dropPercent = dropPercentOf(cumulativeDropV, block.voltageV);
           chainCableLengthM += lengthM;
         }
+        if (k !== c.firstTread) gaps.push(gap('link', 'treads', lengthM, linkLimitM, { controller: c.controller, output: hasDataOutputs ? c.output : null, tread: k }));
         const row: EstimateTread = {
           index: k,
           stripLengthMm: piece.lengthMm,
@@ -338,7 +347,9 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
       reference: 'DC distributor theory, loads tapped along a run (any circuits text); IEC 60364-5-52 Annex G loop drop',
     },
   );
+  const lines = dataLines(gaps, block.protocol, block.voltageV, profile, hasDataOutputs ? chains.length : 0);
   timingTrace('treads', data, trace);
+  trace.push(dataLinesTrace('treads', lines, profile, block.maxDataLinkM));
   trace.push(...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `treads.${e.quantity}` })));
   trace.push(...runsTrace(stair, runs, settings.position, settings.cable.serviceAllowanceGiven));
 
@@ -368,5 +379,6 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     chainCableLengthM,
     injection,
     rows,
+    dataLines: lines,
   };
 }
