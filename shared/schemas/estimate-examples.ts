@@ -20,6 +20,7 @@ export const hlK20Profile = {
   dataOutputs: 1,
   maxPixelsPerOutput: 800,
   sensorInput: { type: 'pnp', supplyV: 5, maxCurrentMa: 12 },
+  sensorInputs: 2,
 } as const;
 
 /** HL-K36: 36 CV outputs at 1.2 A, two data outputs of 600 pixels each. */
@@ -132,7 +133,7 @@ export const alderRowTownhouseResponse = {
     worstDropPercent: 2.149,
     motionSensors: 2,
     reels: 3,
-    checks: { pass: 14, warn: 1, fail: 0 },
+    checks: { pass: 15, warn: 1, fail: 0 },
   },
   treads: [
     {
@@ -245,7 +246,10 @@ export const alderRowTownhouseResponse = {
   ],
   sensors: {
     motionSensors: 2,
-    placements: [{ role: 'foot', flight: 1, tread: 1 }, { role: 'head', flight: 1, tread: 14 }],
+    placements: [
+      { role: 'foot', flight: 1, tread: 1, cableLengthM: 2.366 },
+      { role: 'head', flight: 1, tread: 14, cableLengthM: 2.677 },
+    ],
     motion: { outputType: 'pnp', supplyV: 5, currentMa: 8, source: 'request' },
     controllerInput: { type: 'pnp', supplyV: 5, maxCurrentMa: 12, source: 'profile' },
     typeMatch: true,
@@ -256,6 +260,7 @@ export const alderRowTownhouseResponse = {
     daylightSensors: 1,
     daylightCutoffLux: 50,
     daylightCutoffDefaulted: true,
+    sensorCableM: 5.043,
   },
   bom: [
     {
@@ -281,6 +286,7 @@ export const alderRowTownhouseResponse = {
     },
     { category: 'cable', description: '2-core copper cable 0.5 mm²', quantity: 23, unit: 'm' },
     { category: 'cable', description: '2-core copper cable 0.75 mm²', quantity: 2, unit: 'm' },
+    { category: 'cable', description: '3-core sensor cable (supply, 0 V, signal) 0.5 mm², 2 runs', quantity: 6, unit: 'm' },
   ],
   checks: [
     {
@@ -418,6 +424,15 @@ export const alderRowTownhouseResponse = {
       limit: 5000,
       unit: 'mm',
       reference: 'common practice, no published source',
+    },
+    {
+      id: 'sensor-inputs',
+      status: 'pass',
+      message: '2 motion sensors on 2 sensor inputs.',
+      value: 2,
+      limit: 2,
+      unit: 'sensors',
+      reference: 'controller profile',
     },
   ],
   cautions: [

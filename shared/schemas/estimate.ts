@@ -664,8 +664,10 @@ export const estimateSensorsResultSchema = z
         role: z.enum(['foot', 'head', 'landing', 'corridor-end', 'side-entrance']),
         flight: z.int().nullable(),
         tread: z.int().nullable(),
+        cableLengthM: z.number().optional().meta({ description: 'Added field: sensor cable from the controller to this sensor, m (from the geometry).' }),
       }),
     ),
+    sensorCableM: z.number().optional().meta({ description: 'Added field: sensor cable in total, m.' }),
     motion: z
       .object({ outputType: z.enum(['pnp', 'npn']), supplyV: z.number(), currentMa: z.number(), source: z.enum(['request', 'catalog']), sku: z.string().optional() })
       .nullable(),

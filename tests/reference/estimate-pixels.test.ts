@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
 import { estimateRequestSchema, type EstimateResult } from '../../shared/schemas/estimate.js';
-import { alderRowStair, alderRowTreadPixels, hlK20Profile, hlK36Profile, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
+import { alderRowCornerUnit, alderRowStair, alderRowTreadPixels, hlK20Profile, hlK36Profile, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
 import { pixelData } from '../../shared/sizing/pixels.js';
 
@@ -162,5 +162,54 @@ describe('issue 8, item 6: every one-wire data gap checked on its own', () => {
     expect(check(high, 'data-logic-level')?.status).toBe('pass');
     // no data logic voltage in the profile: nothing to judge
     expect(check(run(quaysideCorridor), 'data-logic-level')).toBeUndefined();
+  });
+});
+
+describe('issue 8, item 9: sensors on L and U stairs, against the controller’s inputs', () => {
+  const corner = (sensors: Record<string, unknown>, profile: Record<string, unknown> = {}) =>
+    run({
+      ...alderRowCornerUnit,
+      controller: { profile: { ...hlK20Profile, ...profile } },
+      sensors: { ...alderRowCornerUnit.sensors, ...sensors },
+    });
+
+  it('an L stair with a plain landing has two sensors, on the two inputs', () => {
+    const result = corner({}, { sensorInputs: 2 });
+    // team handbook, rules of thumb (common practice, no published source): foot and head of the whole stair
+    expect(result.sensors.placements.map((p) => [p.role, p.tread])).toEqual([
+      ['foot', 1],
+      ['head', 15],
+    ]);
+    expect(check(result, 'sensor-inputs')).toMatchObject({ status: 'pass', value: 2, limit: 2 });
+  });
+
+  it('an entered landing adds a third sensor: too many for two inputs', () => {
+    const result = corner({ joinedLandings: [1] }, { sensorInputs: 2 });
+    // common practice, no published source: a landing where people enter needs its own sensor → 3 > 2 inputs
+    expect(result.sensors.motionSensors).toBe(3);
+    expect(check(result, 'sensor-inputs')).toMatchObject({ status: 'fail', value: 3, limit: 2 });
+    expect(check(corner({ joinedLandings: [1] }, { sensorInputs: 4 }), 'sensor-inputs')?.status).toBe('pass');
+  });
+
+  it('without sensorInputs in the profile, two are assumed and the check says so', () => {
+    const result = run({ ...alderRowCornerUnit, controller: { profile: hlK36Profile } });
+    // two sensor inputs per controller (common practice, from memory)
+    expect(check(result, 'sensor-inputs')).toMatchObject({ status: 'warn', limit: 2 });
+  });
+
+  it('orders sensor cable by the geometry', () => {
+    const result = run({ ...alderRowTreadPixels, controller: { profile: hlK20Profile } });
+    // stair geometry: the chain starts at tread 1, so the controller sits at tread 1 (x = 0);
+    // foot: 0 + 0.5 m; head: 13 × √(185² + 250²) mm = 4.043 m + 0.5 m = 4.543 m; in all 5.043 m → 6 m
+    const step = Math.hypot(185, 250) / 1000;
+    expect(result.sensors.placements.map((p) => p.cableLengthM)).toEqual([0.5, Number((13 * step + 0.5).toFixed(3))]);
+    const line = result.bom.find((l) => l.description.startsWith('3-core sensor cable'));
+    expect(line).toMatchObject({ category: 'cable', quantity: 6, unit: 'm' });
+  });
+
+  it('a corridor: one sensor at each end of the rail', () => {
+    const result = run(quaysideCorridor);
+    // controller beside the rail's start (0.5 m lead, Treadwise assumption): near end 0.5 m, far end 18 + 0.5 m
+    expect(result.sensors.placements.map((p) => p.cableLengthM)).toEqual([0.5, 18.5]);
   });
 });

@@ -177,12 +177,13 @@ describe('Harbor Lane checkout: the Alder Row stair priced from the shop catalog
 describe('Alder Row corner unit: 7 + 8 treads turning at a 900 mm landing', () => {
   const result = run(alderRowCornerUnit);
 
-  it('needs a sensor at the foot and head of both flights', () => {
-    // common practice, no published source: 2 per flight × 2 flights
-    expect(result.sensors.motionSensors).toBe(4);
-    // a landing where people join gets its own (common practice, no published source)
+  it('needs a sensor at the foot and head of the whole stair, and one on an entered landing', () => {
+    // team handbook, rules of thumb (common practice, no published source): an L stair with a plain
+    // landing still has two sensors (issue 8: the old rule of two per flight gave 4)
+    expect(result.sensors.motionSensors).toBe(2);
+    // a landing where people join gets its own (common practice, no published source): 3
     const joined = run({ ...alderRowCornerUnit, sensors: { ...alderRowCornerUnit.sensors, joinedLandings: [1] } });
-    expect(joined.sensors.motionSensors).toBe(5);
+    expect(joined.sensors.motionSensors).toBe(3);
   });
 
   it('loads 127.5 W on one 200 W driver', () => {

@@ -3,7 +3,7 @@ import { describeSize } from '../conductors.js';
 import type { StairGeometry } from '../geometry.js';
 import { round, type TraceEntry } from '../trace.js';
 import { ENGINE_VERSION } from '../version.js';
-import { buildBom } from './bom.js';
+import { buildBom, type ExtraBomLine } from './bom.js';
 import { cableSchedule, cableUsesOf, describeUse, type CableUse } from './cable-schedule.js';
 import { indexCatalog } from './catalog.js';
 import { cautionsFor } from './cautions.js';
@@ -12,7 +12,7 @@ import type { Design } from './checks.js';
 import { sizeRailPixels, type RailPart } from './rail-pixels.js';
 import { outputsOf, pixelsOf } from './result-shapes.js';
 import { runChecks } from './run-checks.js';
-import { planSensors } from './sensor-layout.js';
+import { controllerSites, planSensors, sensorCableLine, sensorWiring } from './sensor-layout.js';
 import { endClearanceDefault, pixelDefaults, resolveSettings, type Settings } from './settings.js';
 import type { TreadBlock } from './stair.js';
 import { planReels } from './strip-reels.js';
@@ -78,6 +78,7 @@ export function estimate(input: EstimateInput): EstimateResult {
 
   const supplies = sizeSupplies(loadsOf(treadStrips, rail, treadPixels, settings), settings, catalog, trace);
   const sensors = planSensors(input, settings, catalog, controllers, trace);
+  sensors.wiring = sensorWiring(sensors, controllerSites(stair, treadStrips, treadPixels, rail), settings, trace);
 
   const { treadReels, railReels, strips } = planReels(treadStrips, treadPixels, rail, settings, catalog, trace);
 
@@ -88,8 +89,10 @@ export function estimate(input: EstimateInput): EstimateResult {
   const checks = runChecks(design);
 
   const litPieces = litPiecesMm(treadStrips, treadPixels);
-  // Issue 8 (pixels): parts the data lines need.
-  const extraLines = dataLineBomLines(rail?.dataLines ?? treadPixels?.dataLines);
+  // Issue 8 (pixels): parts the data lines need, and the sensor cable from the geometry.
+  const extraLines: ExtraBomLine[] = dataLineBomLines(rail?.dataLines ?? treadPixels?.dataLines);
+  const sensorCable = sensors.wiring ? sensorCableLine(sensors, sensors.wiring, settings) : null;
+  if (sensorCable) extraLines.push(sensorCable);
   const bom = buildBom({ settings, catalog, strips, profilePiecesMm: litPieces, supplies, controllers, sensors, cables, extraLines }, trace);
 
   let totalLoadW = 0;

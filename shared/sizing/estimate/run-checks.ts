@@ -3,7 +3,7 @@ import { cableCurrentCheck, cableDropCheck, cableMinSizeCheck, cableRunLengthChe
 import type { Design } from './checks.js';
 import { controllerInputCheck, outputCountCheck, outputCurrentCheck } from './output-checks.js';
 import { brightnessCapCheck, dataLineLengthCheck, dataLogicLevelCheck, pixelCurrentCheck, pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
-import { sensorCurrentCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
+import { sensorCurrentCheck, sensorInputsCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
 import { pieceFitsReelCheck, stripFitsCheck, treadCountCheck } from './stair-checks.js';
 import { class2Check, driverLoadingCheck, selvCheck } from './supply-checks.js';
 
@@ -34,6 +34,7 @@ const CHECKS: readonly ((d: Design) => EstimateCheck | null)[] = [
   brightnessCapCheck,
   dataLineLengthCheck,
   dataLogicLevelCheck,
+  sensorInputsCheck,
 ];
 
 export function runChecks(d: Design): EstimateCheck[] {
