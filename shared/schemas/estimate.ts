@@ -415,6 +415,7 @@ const quaysideRailRun = {
   feedPoints: 8,
   injectionPoints: 7,
   maxFeedLengthM: 2.5,
+  maxFeedCurrentA: 5,
   dataGaps: [
     { kind: 'lead', controller: 1, output: 1, tread: null, lengthM: 0.5, limitM: 2, withinLimit: true },
     { kind: 'lead', controller: 1, output: 2, tread: null, lengthM: 9.5, limitM: 2, withinLimit: false },
@@ -595,6 +596,7 @@ export const estimatePixelRunSchema = z
     feedPoints: z.int().meta({ description: 'Points where power is fed (the first plus injection points).' }),
     injectionPoints: z.int(),
     maxFeedLengthM: z.number(),
+    maxFeedCurrentA: z.number().meta({ description: 'Added field: most current one feed point may push into the strip, A (given or the 5 A default).' }),
     chainCableLengthM: z.number().optional().meta({ description: 'Chaining cable between treads in total, m (tread pixels).' }),
     dataGaps: z
       .array(

@@ -249,14 +249,21 @@ export interface InjectionInput {
   /** Current of the whole strip, spread evenly along it; needed with the trace resistance. */
   currentA?: number;
   maxDropPercent?: number;
+  /** Most current one feed point may push into the strip copper, A; needs currentA. */
+  maxFeedCurrentA?: number | undefined;
 }
+
+/** Current one feed point may push into the strip copper when the datasheet gives none (common practice, from memory). */
+export const DEFAULT_MAX_FEED_CURRENT_A = 5;
 
 export interface InjectionPlan {
   /** Extra feed points besides the first. */
   injectionPoints: number;
   segmentLengthM: number;
   maxFeedLengthM: number;
-  maxFeedLengthSource: 'given' | 'default' | 'voltage-drop';
+  maxFeedLengthSource: 'given' | 'default' | 'voltage-drop' | 'current';
+  /** Current each segment draws from its feed point (spread evenly), A; null without a current. */
+  feedCurrentA: number | null;
   /** Drop along one segment fed from one end; null without a trace resistance and current. */
   dropV: number | null;
   dropPercent: number | null;
@@ -286,6 +293,15 @@ export function injectionPoints(input: InjectionInput): InjectionPlan {
   } else if (rPerM !== undefined) {
     warnings.push({ code: 'current_missing', message: 'A trace resistance needs the strip current; the feed length default was used.' });
   }
+  // Density and current set the spacing too: a feed point pushes its whole segment's current
+  // through the strip copper next to it, so a segment is no longer than maxFeedCurrentA / (A per m).
+  if (input.maxFeedCurrentA !== undefined && currentPerM !== undefined && currentPerM > 0) {
+    const byCurrent = input.maxFeedCurrentA / currentPerM;
+    if (byCurrent < maxFeedLengthM) {
+      maxFeedLengthM = byCurrent;
+      source = 'current';
+    }
+  }
   if (source === 'default') {
     warnings.push({
       code: 'feed_length_assumed',
@@ -301,6 +317,7 @@ export function injectionPoints(input: InjectionInput): InjectionPlan {
     segmentLengthM,
     maxFeedLengthM,
     maxFeedLengthSource: source,
+    feedCurrentA: currentPerM === undefined ? null : currentPerM * segmentLengthM,
     dropV,
     dropPercent: dropV === null ? null : (dropV / input.voltageV) * 100,
     warnings,
@@ -314,9 +331,17 @@ export function injectionTrace(input: InjectionInput, plan: InjectionPlan): Trac
       value: plan.injectionPoints,
       unit: 'points',
       formula: 'ceil(lengthM / maxFeedLengthM) − 1',
-      inputs: { lengthM: input.lengthM, maxFeedLengthM: Number.isFinite(plan.maxFeedLengthM) ? round(plan.maxFeedLengthM) : 'unlimited', source: plan.maxFeedLengthSource },
+      inputs: {
+        lengthM: input.lengthM,
+        maxFeedLengthM: Number.isFinite(plan.maxFeedLengthM) ? round(plan.maxFeedLengthM) : 'unlimited',
+        source: plan.maxFeedLengthSource,
+        maxFeedCurrentA: input.maxFeedCurrentA ?? null,
+        feedCurrentA: plan.feedCurrentA === null ? null : round(plan.feedCurrentA),
+      },
       reference:
-        plan.maxFeedLengthSource === 'default'
+        plan.maxFeedLengthSource === 'current'
+          ? 'segment ≤ maxFeedCurrentA / (current per metre): each feed point pushes its segment’s current through the strip copper (5 A default: common practice, from memory)'
+          : plan.maxFeedLengthSource === 'default'
           ? 'about 2.5 m for 5 V pixel strip, 5 m for 12 V / 24 V strip (common practice, from memory)'
           : plan.maxFeedLengthSource === 'given'
             ? 'strip datasheet, as given'

@@ -3,7 +3,7 @@ import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
 import { estimateRequestSchema, type EstimateResult } from '../../shared/schemas/estimate.js';
 import { alderRowCornerUnit, alderRowStair, alderRowTreadPixels, hlK20Profile, hlK36Profile, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
-import { pixelData } from '../../shared/sizing/pixels.js';
+import { injectionPoints, pixelData } from '../../shared/sizing/pixels.js';
 
 const run = (body: unknown): EstimateResult => estimate(estimateRequestSchema.parse(body));
 const check = (result: EstimateResult, id: string) => result.checks.find((c) => c.id === id);
@@ -211,5 +211,42 @@ describe('issue 8, item 9: sensors on L and U stairs, against the controller’s
     const result = run(quaysideCorridor);
     // controller beside the rail's start (0.5 m lead, Treadwise assumption): near end 0.5 m, far end 18 + 0.5 m
     expect(result.sensors.placements.map((p) => p.cableLengthM)).toEqual([0.5, 18.5]);
+  });
+});
+
+describe('issue 8, item 10: feed points spaced by density and current', () => {
+  it('144 pixels/m at 5 V: a feed point every 0.58 m, not every 2.5 m', () => {
+    const plan = injectionPoints({ lengthM: 18, voltageV: 5, currentA: 18 * 144 * 0.06, maxFeedCurrentA: 5 });
+    // hand arithmetic: 144 × 0.06 A = 8.64 A/m; 5 A / 8.64 A/m = 0.5787 m; ceil(18 / 0.5787) = 32 feeds, 31 injections
+    expect(plan.maxFeedLengthSource).toBe('current');
+    expect(plan.maxFeedLengthM).toBeCloseTo(5 / 8.64, 9);
+    expect(plan.injectionPoints).toBe(31);
+    // 155.52 A / 32 = 4.86 A per feed point ≤ 5 A
+    expect(plan.feedCurrentA).toBeCloseTo(4.86, 9);
+  });
+
+  it('a 2.5 m rail at 144 pixels/m no longer pushes 21.6 A through one feed point', () => {
+    const result = run(corridor({ lengthM: 2.5, pixelsPerM: 144, voltageV: 5, currentPerPixelMa: 60 }));
+    // hand arithmetic: 360 pixels × 0.06 A = 21.6 A; at most 5 A per feed point (common practice, from memory) → 5 feeds of 4.32 A
+    expect(result.pixels.rail?.feedPoints).toBe(5);
+    expect(check(result, 'feed-point-current')).toMatchObject({ status: 'pass', value: 4.32, limit: 5 });
+    // a strip rated for 10 A per feed point (datasheet, as given): ceil(21.6 / 10) = 3 feeds of 7.2 A
+    const rated = run(corridor({ lengthM: 2.5, pixelsPerM: 144, voltageV: 5, currentPerPixelMa: 60, maxFeedCurrentA: 10 }));
+    expect(rated.pixels.rail?.feedPoints).toBe(3);
+    expect(check(rated, 'feed-point-current')).toMatchObject({ status: 'pass', value: 7.2, limit: 10 });
+  });
+
+  it('tread pixels: feed groups grow until none draws more than a feed point may push', () => {
+    const result = run({ ...alderRowTreadPixels, treadPixels: { pixelsPerM: 60, voltageV: 5, protocol: 'one-wire-800k', currentPerPixelMa: 60 } });
+    // hand arithmetic: 860 mm × 60 / 1000 = 51 pixels × 0.06 A = 3.06 A per tread; 5 A per feed point → 1 tread per group, 14 groups
+    expect(result.pixels.treads?.feedPoints).toBe(14);
+    expect(check(result, 'feed-point-current')).toMatchObject({ status: 'pass', value: 3.06 });
+  });
+
+  it('one tread above the limit cannot be fixed by more feed points: the check fails', () => {
+    const result = run({ ...alderRowTreadPixels, treadPixels: { pixelsPerM: 144, voltageV: 5, protocol: 'one-wire-800k', currentPerPixelMa: 60 } });
+    // hand arithmetic: 860 × 144 / 1000 = 123.84 → 123 pixels × 0.06 A = 7.38 A > 5 A (common practice, from memory)
+    expect(check(result, 'feed-point-current')).toMatchObject({ status: 'fail', value: 7.38, limit: 5 });
+    expect(check(result, 'feed-point-current')?.suggestion).toContain('both ends');
   });
 });

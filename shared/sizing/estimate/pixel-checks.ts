@@ -327,3 +327,44 @@ export function dataLogicLevelCheck(d: Design): EstimateCheck | null {
 }
 
 const LOGIC_REFERENCE = 'logic high ≥ 0.7 × VDD (WS2812B datasheet, VIH); pixel ICs on 12 V / 24 V strip run from about 5 V (from memory)';
+
+const FEED_REFERENCE =
+  'each feed point pushes its segment’s current through the strip copper; at most maxFeedCurrentA per feed point (strip datasheet; 5 A by default, common practice, from memory)';
+
+/** Feed points are spaced by density and current: no feed point pushes more than the strip copper takes (issue 8, item 10). */
+export function feedPointCurrentCheck(d: Design): EstimateCheck | null {
+  let perFeedA: number;
+  let limit: number;
+  let feeds: number;
+  let treadA: number | null = null;
+  if (d.rail) {
+    if (d.rail.pixels === 0) return null;
+    feeds = d.rail.feedPoints;
+    perFeedA = d.rail.currentA / feeds;
+    limit = d.rail.maxFeedCurrentA;
+  } else if (d.treadPixels && d.treadPixels.pixelsPerTread > 0) {
+    const t = d.treadPixels;
+    feeds = t.feedGroups.length;
+    perFeedA = 0;
+    for (const g of t.feedGroups) perFeedA = Math.max(perFeedA, g.currentA);
+    limit = t.maxFeedCurrentA;
+    treadA = t.treadCurrentA;
+  } else {
+    return null;
+  }
+  if (perFeedA <= limit + 1e-9) {
+    return passed('feed-point-current', `${feeds} feed point${feeds === 1 ? '' : 's'}; the busiest feeds ${fmt(perFeedA, 2)} A of the ${limit} A one feed point may push.`, round4(perFeedA), limit, 'A', FEED_REFERENCE);
+  }
+  return flagged(
+    'feed-point-current',
+    'fail',
+    treadA !== null
+      ? `One tread's segment draws ${fmt(treadA, 2)} A, more than the ${limit} A one feed point may push into the strip.`
+      : `A feed point pushes ${fmt(perFeedA, 2)} A, more than the ${limit} A allowed.`,
+    round4(perFeedA),
+    limit,
+    'A',
+    FEED_REFERENCE,
+    'Feed each tread’s segment at both ends, cap the brightness in the controller, or use a strip with fewer pixels per metre or a higher voltage.',
+  );
+}

@@ -2,7 +2,7 @@ import type { PixelsResult } from '../../schemas/pixels.js';
 import type { ControllerProfile } from '../../schemas/controller.js';
 import type { RailPixelsBlock } from '../../schemas/estimate.js';
 import { blockSizes } from '../outputs.js';
-import { injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
+import { DEFAULT_MAX_FEED_CURRENT_A, injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
 import { pixelCurrentA, pixelCurrentBasis, pixelPiece, type PixelCurrentBasis } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { DEFAULT_RAIL_DATA_LEAD_M, dataLines, dataLinesTrace, gap, maxDataLeadM, type DataGap, type DataLines } from './data-lines.js';
@@ -38,6 +38,8 @@ export interface RailPart {
   uncappedCurrentA: number;
   injection: InjectionPlan;
   feedPoints: number;
+  /** Current limit per feed point used, A (given or the 5 A default). */
+  maxFeedCurrentA: number;
   /** Data leads from each controller to the start of each of its outputs' stretch of rail. */
   dataLines: DataLines;
 }
@@ -104,7 +106,8 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
   const lines = dataLines(gaps, rail.protocol, rail.voltageV, profile, dataOutputs.length);
   trace.push(dataLinesTrace('rail', lines, profile, undefined));
 
-  const injectionInput = { lengthM: rail.lengthM, voltageV: rail.voltageV, maxFeedLengthM: rail.maxFeedLengthM, currentA };
+  const maxFeedCurrentA = rail.maxFeedCurrentA ?? DEFAULT_MAX_FEED_CURRENT_A;
+  const injectionInput = { lengthM: rail.lengthM, voltageV: rail.voltageV, maxFeedLengthM: rail.maxFeedLengthM, currentA, maxFeedCurrentA };
   const injection = injectionPoints(injectionInput);
 
   timingTrace('rail', data, trace);
@@ -151,6 +154,7 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
     uncappedCurrentA: pixelCurrentA(pixels, current.currentPerPixelMa, 100),
     injection,
     feedPoints: injection.injectionPoints + 1,
+    maxFeedCurrentA,
     dataLines: lines,
   };
 }

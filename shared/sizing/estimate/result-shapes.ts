@@ -71,6 +71,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           feedPoints: rail.feedPoints,
           injectionPoints: rail.injection.injectionPoints,
           maxFeedLengthM: round(rail.injection.maxFeedLengthM, 3),
+          maxFeedCurrentA: rail.maxFeedCurrentA,
           dataGaps: gapsOf(rail.dataLines),
         }
       : null,
@@ -94,6 +95,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           feedPoints: treadPixels.feedGroups.length,
           injectionPoints: treadPixels.feedGroups.length - treadPixels.chains.length,
           maxFeedLengthM: round(treadPixels.injection.maxFeedLengthM, 3),
+          maxFeedCurrentA: treadPixels.maxFeedCurrentA,
           chainCableLengthM: round(treadPixels.chainCableLengthM, 3),
           dataGaps: gapsOf(treadPixels.dataLines),
         }

@@ -3,7 +3,7 @@ import type { EstimateTread, TreadPixelsBlock } from '../../schemas/estimate.js'
 import type { PixelsResult } from '../../schemas/pixels.js';
 import { bestControllerTread, treadPositionsM, type ControllerPosition, type StairGeometry } from '../geometry.js';
 import { blockSizes } from '../outputs.js';
-import { injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
+import { DEFAULT_MAX_FEED_CURRENT_A, injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
 import { fitPixelStrip, pixelCurrentA, pixelCurrentBasis, pixelCurrentTrace, stripFitTrace, type PixelCurrentBasis, type PixelPiece, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { dropPercentOf, loopDropV } from '../voltage-drop.js';
@@ -61,6 +61,8 @@ export interface TreadPixelPart {
   feedGroups: FeedGroup[];
   chainCableLengthM: number;
   injection: InjectionPlan;
+  /** Current limit per feed point used, A (given or the 5 A default). */
+  maxFeedCurrentA: number;
   rows: EstimateTread[];
   /** Data gaps: controller → first tread of each chain, and tread to tread. */
   dataLines: DataLines;
@@ -83,8 +85,9 @@ function planChains(n: number, pixelsPerTread: number, profile: ControllerProfil
 }
 
 /**
- * Feed groups along one chain: as many as the strip's feed length asks, more while a group's
- * links cannot keep the drop within the limit (up to one per tread).
+ * Feed groups along one chain: as many as the strip's feed length and the current per feed point
+ * ask, more while a group's links cannot keep the drop within the limit or a group draws more
+ * than one feed point may push (up to one per tread).
  */
 function feedGroups(
   chain: TreadBlock,
@@ -93,6 +96,7 @@ function feedGroups(
   block: TreadPixelsBlock,
   settings: Settings,
   startFeeds: number,
+  maxFeedCurrentA: number,
 ): FeedGroup[] {
   const treads = chain.lastTread - chain.firstTread + 1;
   for (let feeds = Math.min(treads, startFeeds); ; feeds++) {
@@ -101,7 +105,8 @@ function feedGroups(
     let ok = true;
     for (const size of blockSizes(treads, feeds)) {
       const group = sizeGroup(first, first + size - 1, treadCurrentA, positions, block.voltageV, settings);
-      if (group.cable?.failure) ok = false;
+      // Whole treads per group: more feed points while a group draws more than one feed point may push.
+      if (group.cable?.failure || group.currentA > maxFeedCurrentA + 1e-9) ok = false;
       groups.push(group);
       first += size;
     }
@@ -195,11 +200,13 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   let longest: TreadBlock = chainBlocks[0] as TreadBlock;
   for (const c of chainBlocks) if (c.lastTread - c.firstTread > longest.lastTread - longest.firstTread) longest = c;
   const chainLengthM = (c: TreadBlock) => ((c.lastTread - c.firstTread + 1) * piece.lengthMm) / 1000;
+  const maxFeedCurrentA = block.maxFeedCurrentA ?? DEFAULT_MAX_FEED_CURRENT_A;
   const injectionInput = {
     lengthM: chainLengthM(longest),
     voltageV: block.voltageV,
     maxFeedLengthM: block.maxFeedLengthM,
     currentA: (longest.lastTread - longest.firstTread + 1) * treadCurrentA,
+    maxFeedCurrentA,
   };
   const injection = injectionPoints(injectionInput);
 
@@ -217,8 +224,9 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const rowPowerW = round(treadPowerW);
   const rowCurrentA = round(treadCurrentA);
   for (const c of chainBlocks) {
-    const startFeeds = injectionPoints({ ...injectionInput, lengthM: chainLengthM(c) }).injectionPoints + 1;
-    const groups = feedGroups(c, treadCurrentA, positions, block, settings, startFeeds);
+    const chainTreads = c.lastTread - c.firstTread + 1;
+    const startFeeds = injectionPoints({ ...injectionInput, lengthM: chainLengthM(c), currentA: chainTreads * treadCurrentA }).injectionPoints + 1;
+    const groups = feedGroups(c, treadCurrentA, positions, block, settings, startFeeds, maxFeedCurrentA);
     const lead = sizeRun(block.voltageV, 0, runs.runsM[c.firstTread - 1] as number, settings.cable);
     dataCables.push({ kind: 'chain leads', tread: c.firstTread, cable: lead });
     chains.push({ ...c, pixels: (c.lastTread - c.firstTread + 1) * p, lead, groups });
@@ -378,6 +386,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     feedGroups: allGroups,
     chainCableLengthM,
     injection,
+    maxFeedCurrentA,
     rows,
     dataLines: lines,
   };
