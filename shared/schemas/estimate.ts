@@ -452,6 +452,7 @@ export const CHECK_IDS = [
   'data-logic-level',
   'sensor-inputs',
   'feed-point-current',
+  'rail-holds-pixels',
 ] as const;
 
 export type CheckId = (typeof CHECK_IDS)[number];

@@ -250,3 +250,18 @@ describe('issue 8, item 10: feed points spaced by density and current', () => {
     expect(check(result, 'feed-point-current')?.suggestion).toContain('both ends');
   });
 });
+
+describe('issue 8, item 12: smaller pixel and reel fixes', () => {
+  it('a rail that holds no whole pixel fails and orders no reel', () => {
+    const result = run(corridor({ lengthM: 0.15, pixelsPerM: 5, voltageV: 5, currentPerPixelMa: 60 }));
+    // arithmetic: 0.15 m × 5 pixels/m = 0.75 → 0 whole pixels
+    expect(result.pixels.rail?.pixels).toBe(0);
+    expect(check(result, 'rail-holds-pixels')).toMatchObject({ status: 'fail', value: 0, limit: 1 });
+    expect(result.reels.rail).toBeNull();
+    expect(result.bom.some((l) => l.category === 'pixel-strip')).toBe(false);
+    // Quayside: 18 m × 60 = 1 080 pixels (demo scenario) passes and orders reels
+    const quayside = run(quaysideCorridor);
+    expect(check(quayside, 'rail-holds-pixels')).toMatchObject({ status: 'pass', value: 1080 });
+    expect(quayside.reels.rail?.reels).toBe(4);
+  });
+});

@@ -368,3 +368,21 @@ export function feedPointCurrentCheck(d: Design): EstimateCheck | null {
     'Feed each tread’s segment at both ends, cap the brightness in the controller, or use a strip with fewer pixels per metre or a higher voltage.',
   );
 }
+
+/** A rail must hold at least one whole pixel; otherwise nothing is lit and no reel is ordered (issue 8, item 12). */
+export function railHoldsPixelsCheck(d: Design): EstimateCheck | null {
+  if (!d.rail) return null;
+  const { rail, pixels } = d.rail;
+  const reference = 'arithmetic: whole pixels only';
+  if (pixels > 0) return passed('rail-holds-pixels', `The ${rail.lengthM} m rail holds ${pixels} pixels.`, pixels, 1, 'pixels', reference);
+  return flagged(
+    'rail-holds-pixels',
+    'fail',
+    `The ${rail.lengthM} m rail at ${rail.pixelsPerM} pixels/m holds no whole pixel: nothing would light, and no reel is ordered.`,
+    0,
+    1,
+    'pixels',
+    reference,
+    `Use a strip with at least ${Math.ceil(1 / rail.lengthM)} pixels/m, or check the rail length.`,
+  );
+}

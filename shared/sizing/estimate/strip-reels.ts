@@ -150,7 +150,8 @@ export function planReels(
       strips.push(stripLine('pixel-strip', description, treadReels.response.reels, reelMm, b.sku, item, differs));
     }
   }
-  if (rail) {
+  // A rail that holds no whole pixel gets no reel (the rail-holds-pixels check fails instead).
+  if (rail && rail.pixels > 0) {
     const r = rail.rail;
     const item = catalog ? findPixelStrip(catalog, r.sku, r.voltageV, r.pixelsPerM, r.protocol) : undefined;
     const reelMm = reelLength(settings.reelLengthMm, item?.reelLengthMm, settings.defaultsUsed);
