@@ -43,10 +43,23 @@ export const staircaseSchema = z
     riserHeightMm: z.number().min(50).max(400).meta({ description: 'Riser height, mm.' }),
     goingMm: z.number().min(50).max(1000).meta({ description: 'Going (tread depth, front to back), mm.' }),
     flights: z.array(flightSchema).min(1).max(20).optional().meta({ description: 'Flights foot first; they must add up to `treads`. Default: one straight flight.' }),
+    treadWidthsMm: z
+      .array(z.number().min(100).max(5000))
+      .min(1)
+      .max(MAX_TREADS)
+      .optional()
+      .meta({
+        description:
+          'Added field: width of each tread where the strip goes, foot first, mm (winders, a bullnose first step: the length along the nosing). One per tread; default: every tread `treadWidthMm` wide.',
+        example: [1150, 900, 900, 900],
+      }),
   })
   .superRefine((stair, ctx) => {
     const issue = flightsMismatch(stair);
     if (issue) ctx.addIssue({ code: 'custom', path: ['flights'], message: issue });
+    if (stair.treadWidthsMm && stair.treadWidthsMm.length !== stair.treads) {
+      ctx.addIssue({ code: 'custom', path: ['treadWidthsMm'], message: `gives ${stair.treadWidthsMm.length} widths but the stair has ${stair.treads} treads` });
+    }
   })
   .meta({ id: 'Staircase', description: 'The stair as measured.', example: { treads: 14, treadWidthMm: 900, riserHeightMm: 185, goingMm: 250 } });
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
 import { estimateRequestSchema, type EstimateResult } from '../../shared/schemas/estimate.js';
-import { alderRowCornerUnit, alderRowStair, alderRowTreadPixels, hlK20Profile, hlK36Profile, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
+import { alderRowCornerUnit, alderRowStair, alderRowTownhouse, alderRowTreadPixels, hlK20Profile, hlK36Profile, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
 import { injectionPoints, pixelData } from '../../shared/sizing/pixels.js';
 
@@ -263,5 +263,48 @@ describe('issue 8, item 12: smaller pixel and reel fixes', () => {
     const quayside = run(quaysideCorridor);
     expect(check(quayside, 'rail-holds-pixels')).toMatchObject({ status: 'pass', value: 1080 });
     expect(quayside.reels.rail?.reels).toBe(4);
+  });
+});
+
+describe('treads that differ: per-tread widths (winders, a bullnose first step)', () => {
+  const bullnose = { ...alderRowStair, treadWidthsMm: [1150, ...Array.from({ length: 13 }, () => 900)] };
+
+  it('tread strips: each tread cut and loaded on its own width', () => {
+    const result = run({ ...alderRowTownhouse, staircase: bullnose });
+    // domain rule: 1150 − 40 = 1110 mm → 22 × 50 mm = 1100 mm; 900 − 40 = 860 → 850 mm
+    expect(result.treads[0]?.stripLengthMm).toBe(1100);
+    expect(result.treads[1]?.stripLengthMm).toBe(850);
+    // hand arithmetic: 1.1 m × 10 W/m = 11 W; + 13 × 8.5 W = 121.5 W
+    expect(result.treads[0]?.powerW).toBeCloseTo(11, 9);
+    expect(result.summary.totalLoadW).toBeCloseTo(121.5, 9);
+    // cutting stock: 1100 + 13 × 850 = 12 150 mm → at least ceil(12 150 / 5 000) = 3 reels; 3 are found
+    expect(result.reels.treads?.reels).toBe(3);
+    expect(result.reels.treads?.plan.flatMap((r) => r.piecesMm)).toContain(1100);
+  });
+
+  it('a tread too narrow for one pitch is unlit and fails strip-fits-tread, naming its width', () => {
+    const widths = [120, ...Array.from({ length: 13 }, () => 900)];
+    const result = run({ ...alderRowTownhouse, staircase: { ...alderRowStair, treadWidthsMm: widths }, treadStrip: { ...alderRowTownhouse.treadStrip, cutPitchMm: 100 } });
+    // domain rule: 120 − 40 = 80 mm < one 100 mm pitch → no strip on tread 1; 860 → 800 mm on the others
+    expect(result.treads[0]?.stripLengthMm).toBe(0);
+    expect(result.summary.litTreads).toBe(13);
+    expect(check(result, 'strip-fits-tread')?.status).toBe('fail');
+    expect(check(result, 'strip-fits-tread')?.message).toContain('120 mm tread');
+  });
+
+  it('tread pixels: each tread holds its own pixels; totals add them up', () => {
+    const result = run({ ...alderRowTreadPixels, staircase: bullnose });
+    // 20 pixels/m cut every 50 mm (one pixel per cut): 1110 mm → 22 pixels; 860 mm → 17 pixels
+    expect(result.treads[0]?.pixels).toBe(22);
+    expect(result.treads[5]?.pixels).toBe(17);
+    // hand arithmetic: 22 + 13 × 17 = 243 pixels; × 12 mA (as given) = 2.916 A
+    expect(result.pixels.treads?.pixels).toBe(243);
+    expect(result.pixels.treads?.fullWhiteCurrentA).toBeCloseTo(2.916, 9);
+  });
+
+  it('one width per tread, or a 400 at staircase.treadWidthsMm', () => {
+    const parsed = estimateRequestSchema.safeParse({ ...alderRowTownhouse, staircase: { ...alderRowStair, treadWidthsMm: [900, 900] } });
+    expect(parsed.success).toBe(false);
+    expect(parsed.error?.issues.map((i) => i.path.join('.'))).toContain('staircase.treadWidthsMm');
   });
 });

@@ -193,8 +193,9 @@ function noteBlockDefaults(input: EstimateInput, settings: Settings): void {
 }
 
 function litPiecesMm(treadStrips: TreadStripPart | null, treadPixels: TreadPixelPart | null): number[] {
-  if (treadStrips && treadStrips.litTreads > 0) return new Array(treadStrips.litTreads).fill(treadStrips.fit.stripLengthMm);
-  if (treadPixels && treadPixels.litTreads > 0) return new Array(treadPixels.litTreads).fill(treadPixels.piece.lengthMm);
+  // Each lit tread's own piece (treads may differ in width).
+  if (treadStrips && treadStrips.litTreads > 0) return treadStrips.litPiecesMm;
+  if (treadPixels && treadPixels.litTreads > 0) return treadPixels.litPiecesMm;
   return [];
 }
 

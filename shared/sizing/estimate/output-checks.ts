@@ -47,7 +47,8 @@ export function outputCurrentCheck(d: Design): EstimateCheck | null {
   if (part.allocation.outputCurrentOk) {
     return passed('output-current', `The busiest output carries ${fmt(currentA, 3)} A of the ${limit} A allowed.`, value, limit, 'A', PROFILE);
   }
-  const { strip, fit } = part;
+  // The tread that draws most (treads may differ in width).
+  const { strip, largestFit: fit } = part;
   const lengthM = fit.stripLengthMm / 1000;
   // Strip power at which one tread's piece stays within the output limit.
   const maxWPerM = Math.floor(((limit * strip.voltageV) / lengthM) * 10) / 10;

@@ -1,7 +1,7 @@
 import type { ControllerProfile } from '../../schemas/controller.js';
 import type { EstimateTread, TreadPixelsBlock } from '../../schemas/estimate.js';
 import type { PixelsResult } from '../../schemas/pixels.js';
-import { bestControllerTread, treadPositionsM, type ControllerPosition, type StairGeometry } from '../geometry.js';
+import { bestControllerTread, treadPositionsM, treadWidthsOf, type ControllerPosition, type StairGeometry } from '../geometry.js';
 import { blockSizes } from '../outputs.js';
 import { DEFAULT_MAX_FEED_CURRENT_A, injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
 import { fitPixelStrip, pixelCurrentA, pixelCurrentBasis, pixelCurrentTrace, stripFitTrace, type PixelCurrentBasis, type PixelPiece, type StripFit } from '../strip.js';
@@ -42,6 +42,12 @@ export interface TreadPixelPart {
   uncappedCurrentA: number;
   pixelsPerTread: number;
   litTreads: number;
+  /** Strip cut for each lit tread, mm, and the tread it is for. */
+  litPiecesMm: number[];
+  litPieceTreads: number[];
+  /** Width and pixels of the narrowest tread (strip-fits-tread judges it); `fit` is its fit. */
+  narrowestWidthMm: number;
+  narrowestPixels: number;
   treadCurrentA: number;
   totalPixels: number;
   totalCurrentA: number;
@@ -162,9 +168,38 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const { profile } = settings;
   const pitchMm = block.cutPitchMm ?? 1000 / block.pixelsPerM;
   // Whole pixels counted in integers: 30 pixels/m on 960 mm of space is 28 pixels (933.33 mm).
-  const { fit, piece: cut } = fitPixelStrip(stair.treadWidthMm as number, block.pixelsPerM, block.cutPitchMm, block.endClearanceMm);
-  const piece = fit.fits && cut.pixels > 0 ? cut : NO_PIECE;
+  // Each tread's own width (winders, a bullnose step) or the stair's; equal widths share one fit.
+  // Chains, feed groups and timing are sized as if every tread held the widest tread's pixels
+  // (conservative); rows, totals and reels use each tread's own piece.
+  const widths = treadWidthsOf(stair);
+  const byWidth = new Map<number, { fit: StripFit; piece: PixelPiece }>();
+  const treadPieces: PixelPiece[] = new Array(n);
+  let narrowest = 0;
+  let widest = 0;
+  for (let k = 0; k < n; k++) {
+    const width = widths[k] as number;
+    let one = byWidth.get(width);
+    if (!one) {
+      // Whole pixels counted in integers: 30 pixels/m on 960 mm of space is 28 pixels (933.33 mm).
+      const f = fitPixelStrip(width, block.pixelsPerM, block.cutPitchMm, block.endClearanceMm);
+      one = { fit: f.fit, piece: f.fit.fits && f.piece.pixels > 0 ? f.piece : NO_PIECE };
+      byWidth.set(width, one);
+    }
+    treadPieces[k] = one.piece;
+    if (width < (widths[narrowest] as number)) narrowest = k;
+    if (one.piece.pixels > (treadPieces[widest] as PixelPiece).pixels) widest = k;
+  }
+  const fit = (byWidth.get(widths[narrowest] as number) as { fit: StripFit }).fit;
+  const piece = treadPieces[widest] as PixelPiece;
   const p = piece.pixels;
+  const litPiecesMm: number[] = [];
+  const litPieceTreads: number[] = [];
+  treadPieces.forEach((tp, k) => {
+    if (tp.pixels > 0) {
+      litPiecesMm.push(tp.lengthMm);
+      litPieceTreads.push(k + 1);
+    }
+  });
   const current = pixelCurrentBasis(block);
   // Sized for the cap unless the caller asks for full white (the brightness-cap check says which).
   const sizingBrightnessPercent = block.sizeForFullWhite ? 100 : (block.brightnessPercent ?? 100);
@@ -221,6 +256,8 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const gaps: DataGap[] = [];
   const leadLimitM = maxDataLeadM(profile);
   const linkLimitM = block.maxDataLinkM ?? DEFAULT_MAX_UNBUFFERED_DATA_M;
+  const uniform = byWidth.size === 1;
+  const ownCurrentA = (k: number) => pixelCurrentA((treadPieces[k - 1] as PixelPiece).pixels, current.currentPerPixelMa, sizingBrightnessPercent);
   const rowPowerW = round(treadPowerW);
   const rowCurrentA = round(treadCurrentA);
   for (const c of chainBlocks) {
@@ -260,10 +297,10 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
         if (k !== c.firstTread) gaps.push(gap('link', 'treads', lengthM, linkLimitM, { controller: c.controller, output: hasDataOutputs ? c.output : null, tread: k }));
         const row: EstimateTread = {
           index: k,
-          stripLengthMm: piece.lengthMm,
-          pixels: p,
-          powerW: rowPowerW,
-          currentA: rowCurrentA,
+          stripLengthMm: (treadPieces[k - 1] as PixelPiece).lengthMm,
+          pixels: (treadPieces[k - 1] as PixelPiece).pixels,
+          powerW: uniform ? rowPowerW : round(ownCurrentA(k) * block.voltageV),
+          currentA: uniform ? rowCurrentA : round(ownCurrentA(k)),
           controller: c.controller,
           output: hasDataOutputs ? c.output : null,
           cableKind: kind,
@@ -288,8 +325,9 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     supplyVoltageV: block.voltageV,
     brightnessPercent: sizingBrightnessPercent,
   });
-  const totalPixels = n * p;
-  const totalCurrentA = n * treadCurrentA;
+  let totalPixels = 0;
+  for (const tp of treadPieces) totalPixels += tp.pixels;
+  const totalCurrentA = pixelCurrentA(totalPixels, current.currentPerPixelMa, sizingBrightnessPercent);
   const dataOutputs: DataOutputUse[] = (hasDataOutputs ? chains : []).map((c) => ({
     controller: c.controller,
     output: c.output,
@@ -299,7 +337,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   }));
 
   trace.push(
-    stripFitTrace(stair.treadWidthMm as number, pitchMm, block.endClearanceMm, fit),
+    stripFitTrace(widths[narrowest] as number, pitchMm, block.endClearanceMm, fit),
     {
       quantity: 'treads.pixelsPerTread',
       value: p,
@@ -367,9 +405,13 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     piece,
     current,
     sizingBrightnessPercent,
-    uncappedCurrentA: n * pixelCurrentA(p, current.currentPerPixelMa, 100),
+    uncappedCurrentA: pixelCurrentA(totalPixels, current.currentPerPixelMa, 100),
     pixelsPerTread: p,
-    litTreads: p > 0 ? n : 0,
+    litTreads: litPiecesMm.length,
+    litPiecesMm,
+    litPieceTreads,
+    narrowestWidthMm: widths[narrowest] as number,
+    narrowestPixels: (treadPieces[narrowest] as PixelPiece).pixels,
     treadCurrentA,
     totalPixels,
     totalCurrentA,
