@@ -396,7 +396,7 @@ export const alderRowTownhouseResponse = {
       value: 'pnp',
       limit: 'pnp',
       unit: '',
-      reference: 'PNP sources, NPN sinks (Pepperl+Fuchs and Omron sensor knowledge bases); stair-controller inputs are usually PNP (common practice, no published source)',
+      reference: 'PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2); stair-controller inputs are usually PNP (common practice, no published source)',
     },
     {
       id: 'sensor-current',

@@ -158,7 +158,7 @@ export function sensorTrace(input: SensorPlanInput, plan: SensorPlan): TraceEntr
       unit: '',
       formula: 'sensor output type = controller input type, else an interface is needed',
       inputs: { sensorType: input.motion?.outputType ?? null, inputType: input.sensorInput?.type ?? null },
-      reference: 'PNP sources, NPN sinks (Pepperl+Fuchs and Omron sensor knowledge bases)',
+      reference: 'PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2)',
     },
     {
       quantity: 'daylightCutoffLux',

@@ -308,3 +308,18 @@ describe('treads that differ: per-tread widths (winders, a bullnose first step)'
     expect(parsed.error?.issues.map((i) => i.path.join('.'))).toContain('staircase.treadWidthsMm');
   });
 });
+
+describe('issue 8: the trace lists the new defaults it used', () => {
+  it('feed-point current, data lead and the cap sizing on the Quayside rail', () => {
+    const defaults = run(quaysideCorridor)
+      .trace.filter((t) => t.quantity.startsWith('default '))
+      .map((t) => t.quantity);
+    // 5 A per feed point (from memory), 0.5 m data lead (Treadwise assumption), sized for the 50 % cap
+    expect(defaults).toEqual(expect.arrayContaining(['default currentPerPixelMa', 'default maxFeedCurrentA', 'default dataLeadM', 'default sizeForFullWhite']));
+    const given = run({ ...quaysideCorridor, railPixels: { ...quaysideCorridor.railPixels, maxFeedCurrentA: 6, dataLeadM: 1, sizeForFullWhite: false, currentPerPixelMa: 50 } })
+      .trace.filter((t) => t.quantity.startsWith('default '))
+      .map((t) => t.quantity);
+    expect(given).not.toEqual(expect.arrayContaining(['default maxFeedCurrentA']));
+    expect(given.some((q) => ['default dataLeadM', 'default sizeForFullWhite', 'default currentPerPixelMa'].includes(q))).toBe(false);
+  });
+});

@@ -224,7 +224,7 @@ describe('Quayside Studio: 18 m corridor handrail, 60 pixels/m at 5 V, HL-K36', 
   });
 
   it('draws 32.4 A at the 50 % cap and feeds it at 8 points', () => {
-    // Adafruit NeoPixel Überguide: 60 mA per pixel at full white; × 50 % cap → 1080 × 0.03 A = 32.4 A, × 5 V = 162 W
+    // 60 mA per 5 V RGB pixel at full white (common practice, from memory); × 50 % cap → 1080 × 0.03 A = 32.4 A, × 5 V = 162 W
     expect(rail?.fullWhiteCurrentA).toBeCloseTo(32.4, 9);
     expect(rail?.powerW).toBeCloseTo(162, 9);
     // common practice, from memory: about 2.5 m from one feed at 5 V → ceil(18 / 2.5) = 8 feeds, 7 injection points
@@ -277,7 +277,7 @@ describe('Alder Row with a 24 V handrail in step with the treads', () => {
     // 5 V pixel strip (demo scenario HL-P05-60) beside 24 V tread strip: one rail per voltage
     const mixed = run({ ...alderRowWithRail, railPixels: { lengthM: 4.5, pixelsPerM: 60, voltageV: 5, protocol: 'one-wire-800k' } });
     expect(mixed.drivers.map((d) => d.voltageV)).toEqual([24, 5]);
-    // Adafruit NeoPixel Überguide: 60 mA per pixel; 4.5 m × 60 = 270 → 28 groups of 9 = 252 pixels × 0.06 A × 5 V = 75.6 W
+    // 60 mA per 5 V RGB pixel (common practice, from memory); 4.5 m × 60 = 270 → 28 groups of 9 = 252 pixels × 0.06 A × 5 V = 75.6 W
     expect(mixed.drivers[1]?.loadW).toBeCloseTo(75.6, 6);
   });
 });
@@ -377,7 +377,7 @@ describe('designs that break a limit still get a full answer', () => {
 
   it('an NPN sensor on a PNP input fails and asks for an interface', () => {
     const result = run({ ...alderRowTownhouse, sensors: { motion: { outputType: 'npn', supplyV: 5, currentMa: 8 } } });
-    // Pepperl+Fuchs / Omron knowledge bases: NPN sinks, PNP sources — they do not interchange
+    // three-wire DC sensor outputs (IEC 60947-5-2): NPN sinks, PNP sources — they do not interchange
     expect(check(result, 'sensor-type')?.status).toBe('fail');
     expect(check(result, 'sensor-type')?.suggestion).toMatch(/NPN-to-PNP interface for each of the 2 sensors/);
   });

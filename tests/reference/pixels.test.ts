@@ -30,7 +30,7 @@ describe('one-wire frame time', () => {
   it('says which defaults it used', () => {
     const result = run({ pixels: 300, protocol: 'one-wire-800k' });
     const defaults = result.trace.filter((t) => t.quantity.startsWith('default ')).map((t) => t.quantity);
-    // bitsPerPixel 24 and resetUs 280 (WS2812B datasheet), 60 mA (Adafruit NeoPixel Überguide), 5 V, 100 %
+    // bitsPerPixel 24 and resetUs 280 (WS2812B datasheet), 60 mA (common practice, from memory), 5 V, 100 %
     expect(defaults).toEqual([
       'default bitsPerPixel',
       'default resetUs',
@@ -73,7 +73,7 @@ describe('outputs and power of the corridor rail', () => {
   });
 
   it('scales full-white current with the brightness cap', () => {
-    // Adafruit NeoPixel Überguide, 60 mA per pixel: 1 080 × 0.06 A × 50 % = 32.4 A
+    // 60 mA per 5 V RGB pixel (common practice, from memory): 1 080 × 0.06 A × 50 % = 32.4 A
     expect(result.fullWhiteCurrentA).toBeCloseTo(32.4, 6);
     // P = V·I: 32.4 A × 5 V = 162 W
     expect(result.powerW).toBeCloseTo(162, 6);

@@ -54,12 +54,12 @@ describe('loads', () => {
   });
 
   it('14.4 W/m is 20 segments × 0.06 A at 12 V', () => {
-    // Adafruit "RGB LED strips: current draw": 5050 60 LED/m at 12 V, 20 segments/m × 0.06 A = 1.2 A/m
+    // team handbook (common practice, from memory): 5050 60 LED/m at 12 V, 20 segments/m × 0.06 A = 1.2 A/m
     expect(cvLoad(1000, 14.4, 12).currentA).toBeCloseTo(20 * 0.06, 9);
   });
 
   it('pixel current at full white and under a brightness cap', () => {
-    // Adafruit NeoPixel Überguide: 60 mA per pixel → 51 × 0.06 = 3.06 A; linear brightness at 50 % → 1.53 A
+    // 60 mA per 5 V RGB pixel (common practice, from memory) → 51 × 0.06 = 3.06 A; linear brightness at 50 % → 1.53 A
     expect(pixelCurrentA(51)).toBeCloseTo(3.06, 9);
     expect(pixelCurrentA(51, 60, 50)).toBeCloseTo(1.53, 9);
     // WS2811 datasheet: 18.5 mA per output × 3 outputs = 55.5 mA per pixel → 100 pixels 5.55 A

@@ -42,7 +42,7 @@ describe('sensor plan', () => {
   });
 
   it('an NPN sensor on a PNP input needs an interface', () => {
-    // PNP sources, NPN sinks (Pepperl+Fuchs and Omron sensor knowledge bases): they do not interchange
+    // PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2): they do not interchange
     const plan = sensorPlan({ flights: [{ treads: 14 }], motion: { ...hlM05, outputType: 'npn' }, sensorInput: hlK20Input });
     expect(plan.needsInterface).toBe(true);
     expect(plan.warnings.map((w) => w.code)).toContain('sensor_type_mismatch');

@@ -122,3 +122,33 @@ export function dataLineBomLines(lines: DataLines | null | undefined): { categor
   }
   return out;
 }
+
+function defaultEntry(field: string, value: number | boolean, unit: string, reference: string): TraceEntry {
+  return Object.freeze({ quantity: `default ${field}`, value, unit, formula: 'not given; default used', inputs: Object.freeze({}), reference }) as TraceEntry;
+}
+
+const BLOCK_DEFAULTS = {
+  maxFeedCurrentA: defaultEntry('maxFeedCurrentA', 5, 'A', 'current one feed point pushes into the strip copper (common practice, from memory)'),
+  maxDataLinkM: defaultEntry('maxDataLinkM', DEFAULT_MAX_UNBUFFERED_DATA_M, 'm', 'unbuffered one-wire data between pixels kept to about 1–2 m (team handbook, from memory)'),
+  dataLeadM: defaultEntry('dataLeadM', DEFAULT_RAIL_DATA_LEAD_M, 'm', 'controller beside the rail’s start (Treadwise assumption, no published source)'),
+  sizeForFullWhite: defaultEntry('sizeForFullWhite', false, '', 'sized for the brightness cap, which the controller must enforce (see the brightness-cap check)'),
+} as const;
+
+/** Defaults of the issue-8 fields of a pixel block (rail or tread pixels), for the estimate's list of defaults. */
+export function pixelBlockDefaults(block: {
+  maxFeedCurrentA?: number | undefined;
+  maxDataLinkM?: number | undefined;
+  dataLeadM?: number | undefined;
+  lengthM?: number | undefined;
+  brightnessPercent?: number | undefined;
+  sizeForFullWhite?: boolean | undefined;
+}): TraceEntry[] {
+  const out: TraceEntry[] = [];
+  if (block.maxFeedCurrentA === undefined) out.push(BLOCK_DEFAULTS.maxFeedCurrentA);
+  // A rail block has a length; tread pixels have tread-to-tread links instead.
+  if (block.lengthM !== undefined) {
+    if (block.dataLeadM === undefined) out.push(BLOCK_DEFAULTS.dataLeadM);
+  } else if (block.maxDataLinkM === undefined) out.push(BLOCK_DEFAULTS.maxDataLinkM);
+  if (block.brightnessPercent !== undefined && block.brightnessPercent < 100 && block.sizeForFullWhite === undefined) out.push(BLOCK_DEFAULTS.sizeForFullWhite);
+  return out;
+}

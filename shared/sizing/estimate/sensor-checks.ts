@@ -1,7 +1,7 @@
 import type { EstimateCheck } from '../../schemas/estimate.js';
 import { flagged, passed, type Design } from './checks.js';
 
-const TYPE_REFERENCE = 'PNP sources, NPN sinks (Pepperl+Fuchs and Omron sensor knowledge bases); stair-controller inputs are usually PNP (common practice, no published source)';
+const TYPE_REFERENCE = 'PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2); stair-controller inputs are usually PNP (common practice, no published source)';
 
 function inputReference(d: Design): string {
   return d.sensors.controllerInput.source === 'profile' ? 'controller profile' : 'typical stair-controller input: PNP, 5 V, about 10 mA (common practice, no published source)';

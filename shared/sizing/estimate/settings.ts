@@ -7,6 +7,7 @@ import { SizingInputError } from '../errors.js';
 import { DEFAULT_SERVICE_ALLOWANCE_M, type ControllerPosition } from '../geometry.js';
 import { DEFAULT_DAYLIGHT_CUTOFF_LUX } from '../sensors.js';
 import { pixelCurrentBasis, pixelCurrentDefaultEntry, type PixelCurrentInput } from '../strip.js';
+import { pixelBlockDefaults } from './data-lines.js';
 import { CONDUCTOR_TABLES, type ConductorTableId, type SizeSystem } from '../tables/conductors.js';
 import type { TraceEntry } from '../trace.js';
 import { DEFAULT_MAX_DROP_PERCENT, DROP_LIMIT_REFERENCE } from '../voltage-drop.js';
@@ -102,6 +103,7 @@ export function pixelDefaults(
   if (block.bitsPerPixel === undefined && block.protocol !== 'clocked') into.push(DEFAULTS.bitsPerPixel);
   if (block.brightnessPercent === undefined) into.push(DEFAULTS.brightnessPercent);
   if (block.maxFeedLengthM === undefined) into.push(block.voltageV <= 5 ? FEED_LENGTH_DEFAULTS.low : FEED_LENGTH_DEFAULTS.high);
+  into.push(...pixelBlockDefaults(block));
 }
 
 export function endClearanceDefault(into: TraceEntry[]): void {
