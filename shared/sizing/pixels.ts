@@ -84,7 +84,9 @@ export function pixelData(input: PixelsInput): PixelsResult {
           : 'WS2812B datasheet: 1.25 µs per bit at 800 kbit/s; reset as given or 280 µs',
     });
   }
-  const maxRefreshHz = 1e6 / frameTimeUs;
+  // An empty run with no latch time (estimates only: the calculation needs a pixel) sends nothing.
+  const rate = 1e6 / frameTimeUs;
+  const maxRefreshHz = Number.isFinite(rate) ? rate : 0;
   const fullWhiteCurrentA = pixelCurrentA(input.pixels, currentPerPixelMa, brightnessPercent);
   const powerW = fullWhiteCurrentA * supplyVoltageV;
   // The load with no cap: what the supply sees if the cap is not enforced.

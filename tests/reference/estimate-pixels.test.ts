@@ -259,6 +259,8 @@ describe('issue 8, item 12: smaller pixel and reel fixes', () => {
     expect(check(result, 'rail-holds-pixels')).toMatchObject({ status: 'fail', value: 0, limit: 1 });
     expect(result.reels.rail).toBeNull();
     expect(result.bom.some((l) => l.category === 'pixel-strip')).toBe(false);
+    // no pixel, no data line to judge
+    expect(check(result, 'data-line-length')).toBeUndefined();
     // Quayside: 18 m × 60 = 1 080 pixels (demo scenario) passes and orders reels
     const quayside = run(quaysideCorridor);
     expect(check(quayside, 'rail-holds-pixels')).toMatchObject({ status: 'pass', value: 1080 });

@@ -145,7 +145,8 @@ export function pixelsTotalCheck(d: Design): EstimateCheck | null {
 
 export function refreshRateCheck(d: Design): EstimateCheck | null {
   const run = pixelRun(d);
-  if (!run) return null;
+  // No pixel, no frame to judge (strip-fits-tread or rail-holds-pixels fails instead).
+  if (!run || run.pixels === 0) return null;
   const hz = run.data.maxRefreshHz;
   if (hz >= SMOOTH_REFRESH_HZ) {
     return passed(

@@ -97,7 +97,8 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
   const leadM = rail.dataLeadM ?? DEFAULT_RAIL_DATA_LEAD_M;
   let startPixel = 0;
   let controllerStartPixel = 0;
-  for (const o of dataOutputs) {
+  // A rail without a pixel has no data line (rail-holds-pixels fails instead).
+  for (const o of pixels > 0 ? dataOutputs : []) {
     if (o.output === 1) controllerStartPixel = startPixel;
     gaps.push(gap('lead', 'rail', leadM + (startPixel - controllerStartPixel) / rail.pixelsPerM, maxDataLeadM(profile), { controller: o.controller, output: o.output }));
     startPixel += o.pixels;

@@ -393,7 +393,8 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
       reference: 'DC distributor theory, loads tapped along a run (any circuits text); IEC 60364-5-52 Annex G loop drop',
     },
   );
-  const lines = dataLines(gaps, block.protocol, block.voltageV, profile, hasDataOutputs ? chains.length : 0);
+  // No pixel on any tread: no data line to judge (strip-fits-tread fails instead).
+  const lines = dataLines(p > 0 ? gaps : [], block.protocol, block.voltageV, profile, hasDataOutputs ? chains.length : 0);
   timingTrace('treads', data, trace);
   trace.push(dataLinesTrace('treads', lines, profile, block.maxDataLinkM));
   trace.push(...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `treads.${e.quantity}` })));
