@@ -302,6 +302,8 @@ describe('treads that differ: per-tread widths (winders, a bullnose first step)'
     // hand arithmetic: 22 + 13 × 17 = 243 pixels; × 12 mA (as given) = 2.916 A
     expect(result.pixels.treads?.pixels).toBe(243);
     expect(result.pixels.treads?.fullWhiteCurrentA).toBeCloseTo(2.916, 9);
+    // hand arithmetic: 1.1 m + 13 × 0.85 m = 12.15 m of pixel strip
+    expect(result.pixels.treads?.lengthM).toBeCloseTo(12.15, 9);
   });
 
   it('one width per tread, or a 400 at staircase.treadWidthsMm', () => {

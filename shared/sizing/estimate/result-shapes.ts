@@ -79,7 +79,7 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
       ? {
           run: 'treads',
           pixels: treadPixels.totalPixels,
-          lengthM: round((treadPixels.litTreads * treadPixels.piece.lengthMm) / 1000, 3),
+          lengthM: round(treadPixels.litPiecesMm.reduce((sum, mm) => sum + mm, 0) / 1000, 3),
           pixelsPerM: treadPixels.block.pixelsPerM,
           voltageV: treadPixels.block.voltageV,
           protocol: treadPixels.block.protocol,

@@ -2,7 +2,18 @@ import type { EstimateCheck } from '../../schemas/estimate.js';
 import { cableCurrentCheck, cableDropCheck, cableMinSizeCheck, cableRunLengthCheck } from './cable-checks.js';
 import type { Design } from './checks.js';
 import { controllerInputCheck, outputCountCheck, outputCurrentCheck } from './output-checks.js';
-import { railHoldsPixelsCheck, brightnessCapCheck, dataLineLengthCheck, dataLogicLevelCheck, feedPointCurrentCheck, pixelCurrentCheck, pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
+import {
+  brightnessCapCheck,
+  dataLineLengthCheck,
+  dataLogicLevelCheck,
+  feedPointCurrentCheck,
+  pixelCurrentCheck,
+  pixelsPerOutputCheck,
+  pixelsTotalCheck,
+  railGroupingCheck,
+  railHoldsPixelsCheck,
+  refreshRateCheck,
+} from './pixel-checks.js';
 import { sensorCurrentCheck, sensorInputsCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
 import { pieceFitsReelCheck, stripFitsCheck, treadCountCheck } from './stair-checks.js';
 import { class2Check, driverLoadingCheck, selvCheck } from './supply-checks.js';

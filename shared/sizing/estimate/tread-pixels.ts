@@ -167,7 +167,6 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const n = stair.treads;
   const { profile } = settings;
   const pitchMm = block.cutPitchMm ?? 1000 / block.pixelsPerM;
-  // Whole pixels counted in integers: 30 pixels/m on 960 mm of space is 28 pixels (933.33 mm).
   // Each tread's own width (winders, a bullnose step) or the stair's; equal widths share one fit.
   // Chains, feed groups and timing are sized as if every tread held the widest tread's pixels
   // (conservative); rows, totals and reels use each tread's own piece.
