@@ -53,10 +53,24 @@ export const staircaseSchema = z
           'Added field: width of each tread where the strip goes, foot first, mm (winders, a bullnose first step: the length along the nosing). One per tread; default: every tread `treadWidthMm` wide.',
         example: [1150, 900, 900, 900],
       }),
+    litLandings: z
+      .array(z.int().min(1).max(19))
+      .max(19)
+      .optional()
+      .meta({
+        description:
+          'Added field: landings lit with a strip along their front edge, as wide as the stair (1 = the landing above flight 1). Each lights in the step sequence between its flights on a CV output of its own (tread-strip layouts).',
+      }),
   })
   .superRefine((stair, ctx) => {
     const issue = flightsMismatch(stair);
     if (issue) ctx.addIssue({ code: 'custom', path: ['flights'], message: issue });
+    const landings = (stair.flights?.length ?? 1) - 1;
+    stair.litLandings?.forEach((landing, i) => {
+      if (landing > landings) {
+        ctx.addIssue({ code: 'custom', path: ['litLandings', i], message: landings === 0 ? 'the stair has no landing between flights' : `must be a landing from 1 to ${landings}` });
+      }
+    });
     if (stair.treadWidthsMm && stair.treadWidthsMm.length !== stair.treads) {
       ctx.addIssue({ code: 'custom', path: ['treadWidthsMm'], message: `gives ${stair.treadWidthsMm.length} widths but the stair has ${stair.treads} treads` });
     }
@@ -308,7 +322,7 @@ const commonFields = {
 };
 
 type CrossCheckable = {
-  staircase?: { treads: number; flights?: { treads: number }[] | undefined } | undefined;
+  staircase?: { treads: number; flights?: { treads: number }[] | undefined; litLandings?: number[] | undefined } | undefined;
   controller: { position?: z.output<typeof controllerPositionSchema> | undefined };
   sensors?: { joinedLandings?: number[] | undefined } | undefined;
   reels?: { reelLengthMm?: number | undefined } | undefined;
@@ -327,6 +341,9 @@ function crossCheck(value: CrossCheckable, ctx: z.RefinementCtx): void {
   const pitch = value.treadStrip?.cutPitchMm ?? value.treadPixels?.cutPitchMm;
   if (reel !== undefined && pitch !== undefined && reel < pitch) {
     ctx.addIssue({ code: 'custom', path: ['reels', 'reelLengthMm'], message: `a reel must hold at least one ${pitch} mm cut pitch` });
+  }
+  if ((value.staircase?.litLandings?.length ?? 0) > 0 && value.treadStrip === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['staircase', 'litLandings'], message: 'lit landings are sized with tread strips (layouts tread-strips and treads-and-rail)' });
   }
   const landings = (value.staircase?.flights?.length ?? 1) - 1;
   value.sensors?.joinedLandings?.forEach((landing, i) => {
@@ -496,11 +513,31 @@ export const estimateTreadSchema = z
   })
   .meta({ id: 'EstimateTread', description: 'One row of the wiring schedule.', example: alderRowTownhouseResponse.treads[2] });
 
+export const estimateLandingSchema = z
+  .object({
+    landing: z.int().meta({ description: 'Landing number: 1 = the landing above flight 1.' }),
+    belowTread: z.int().meta({ description: 'The tread just below it; the landing lights after it.' }),
+    stripLengthMm: z.number().meta({ description: 'Strip cut for the landing’s front edge, mm; 0 when none fits.' }),
+    powerW: z.number(),
+    currentA: z.number(),
+    controller: z.int().nullable(),
+    output: z.int().nullable(),
+    cableLengthM: z.number().meta({ description: 'Lead from the controller to the landing, service allowance included, m.' }),
+    ...sizeFields,
+    dropPercent: z.number(),
+  })
+  .meta({
+    id: 'EstimateLanding',
+    description: 'One lit landing of the wiring schedule.',
+    example: { landing: 1, belowTread: 7, stripLengthMm: 850, powerW: 8.5, currentA: 0.3542, controller: 1, output: 8, cableLengthM: 0.811, crossSectionMm2: 0.5, dropPercent: 0.239 },
+  });
+
 const cvOutputSchema = z
   .object({
     controller: z.int(),
     output: z.int(),
     treads: z.array(z.int()).meta({ description: 'Treads on this output.' }),
+    landings: z.array(z.int()).optional().meta({ description: 'Added field: lit landings on this output (1 = the landing above flight 1).' }),
     currentA: z.number(),
     withinLimit: z.boolean().meta({ description: 'currentA ≤ maxCurrentPerOutputA.' }),
   })
@@ -766,6 +803,7 @@ export const estimateResponseSchema = z
     layout: z.enum(['tread-strips', 'rail-pixels', 'treads-and-rail', 'tread-pixels']),
     summary: estimateSummarySchema,
     treads: z.array(estimateTreadSchema).meta({ description: 'Wiring schedule, foot first; empty for a corridor.' }),
+    landings: z.array(estimateLandingSchema).optional().meta({ description: 'Added field: wiring schedule of the lit landings, when the stair has any.' }),
     outputs: estimateOutputsSchema,
     drivers: z.array(estimateRailSupplySchema),
     feeder: estimateFeederSchema,
@@ -789,6 +827,7 @@ export const estimateResponseSchema = z
 
 export type EstimateResult = z.output<typeof estimateResponseSchema>;
 export type EstimateTread = z.output<typeof estimateTreadSchema>;
+export type EstimateLanding = z.output<typeof estimateLandingSchema>;
 export type EstimateCheck = z.output<typeof estimateCheckSchema>;
 export type EstimateOutputs = z.output<typeof estimateOutputsSchema>;
 export type EstimateRailSupply = z.output<typeof estimateRailSupplySchema>;

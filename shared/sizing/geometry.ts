@@ -23,6 +23,8 @@ export interface StairGeometry {
   flights?: Flight[];
   /** Width of each tread where the strip goes (winders, bullnose), foot first; default: treadWidthMm. */
   treadWidthsMm?: number[] | undefined;
+  /** Landings lit with a strip of their own (1 = the landing above flight 1). */
+  litLandings?: number[] | undefined;
 }
 
 /** Width of tread k (1 = foot): its own when the stair lists them, else the stair's width. */

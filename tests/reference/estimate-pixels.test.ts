@@ -327,3 +327,40 @@ describe('issue 8: the trace lists the new defaults it used', () => {
     expect(given.some((q) => ['default dataLeadM', 'default sizeForFullWhite', 'default currentPerPixelMa'].includes(q))).toBe(false);
   });
 });
+
+describe('treads that differ: lit landings', () => {
+  const lit = { ...alderRowCornerUnit, staircase: { ...alderRowCornerUnit.staircase, litLandings: [1] } };
+
+  it('a lit landing lights between its flights on an output of its own', () => {
+    const result = run(lit);
+    // sequence foot first: treads 1–7, landing 1, treads 8–15 → 16 outputs of HL-K20's 20 (one per step, common practice)
+    expect(result.outputs.cv.find((o) => o.landings?.includes(1))).toMatchObject({ output: 8, treads: [] });
+    expect(result.treads[7]).toMatchObject({ index: 8, output: 9 });
+    expect(check(result, 'output-count')).toMatchObject({ status: 'pass', value: 16 });
+    // domain rule: the landing is as wide as the stair, 900 − 40 → 850 mm; 0.85 m × 10 W/m = 8.5 W; 16 × 8.5 W = 136 W
+    expect(result.landings?.[0]).toMatchObject({ landing: 1, belowTread: 7, stripLengthMm: 850, controller: 1, output: 8 });
+    expect(result.summary.totalLoadW).toBeCloseTo(136, 9);
+    expect(result.summary.litTreads).toBe(15);
+  });
+
+  it('its lead runs from the controller to the landing’s front edge', () => {
+    const result = run(lit);
+    // stair geometry: controller at tread 8 (the corner unit's best position); the landing's edge is one step above
+    // tread 7, so the lead is the landing crossing √(185² + 900²) = 0.9188 m + 0.5 m allowance
+    expect(result.outputs.controllerTreads[0]?.atTread).toBe(8);
+    expect(result.landings?.[0]?.cableLengthM).toBeCloseTo(Math.hypot(185, 900) / 1000 + 0.5, 3);
+  });
+
+  it('its piece is cut from the reels with the treads', () => {
+    // cutting stock: 16 pieces of 850 mm, 5 per 5 m reel → ceil(16 / 5) = 4 reels (15 treads alone: 3)
+    expect(run(lit).reels.treads?.reels).toBe(4);
+    expect(run(alderRowCornerUnit).reels.treads?.reels).toBe(3);
+  });
+
+  it('a landing that is not there, or a lit landing on a pixel layout, is a 400 at its path', () => {
+    const wrong = estimateRequestSchema.safeParse({ ...alderRowCornerUnit, staircase: { ...alderRowCornerUnit.staircase, litLandings: [2] } });
+    expect(wrong.error?.issues.map((i) => i.path.join('.'))).toContain('staircase.litLandings.0');
+    const pixels = estimateRequestSchema.safeParse({ ...alderRowTreadPixels, staircase: { ...alderRowCornerUnit.staircase, litLandings: [1] } });
+    expect(pixels.error?.issues.map((i) => i.path.join('.'))).toContain('staircase.litLandings');
+  });
+});

@@ -29,6 +29,7 @@ const staircase = fc.integer({ min: 1, max: 200 }).chain((treads) =>
       goingMm: dbl(50, 1000),
       flights: flightsOf(treads),
       treadWidthsMm: fc.array(dbl(100, 5000), { minLength: treads, maxLength: treads }),
+      litLandings: fc.uniqueArray(fc.integer({ min: 1, max: 3 }), { maxLength: 3 }),
     },
     { requiredKeys: ['treads', 'treadWidthMm', 'riserHeightMm', 'goingMm'] },
   ),
@@ -220,12 +221,15 @@ describe('estimate: any request in the schema’s range', () => {
           const result = estimateOrDocumentedError(input as EstimateInput);
           if (!result) return;
           // Rows are rounded to 4 decimals each: allow half a unit per row.
-          const rowsW = result.treads.reduce((sum, t) => sum + t.powerW, 0);
+          // Lit landings (issue 8) are loads of the tread rail too, with rows of their own.
+          const landingRows = result.landings ?? [];
+          const rowsW = result.treads.reduce((sum, t) => sum + t.powerW, 0) + landingRows.reduce((sum, l) => sum + l.powerW, 0);
           const treadLoadW = result.pixels.treads?.powerW ?? rowsW;
-          expect(Math.abs(rowsW - treadLoadW)).toBeLessThanOrEqual(5e-5 * result.treads.length + 1e-6 * treadLoadW + 1e-9);
+          const rowCount = result.treads.length + landingRows.length;
+          expect(Math.abs(rowsW - treadLoadW)).toBeLessThanOrEqual(5e-5 * rowCount + 1e-6 * treadLoadW + 1e-9);
           const railW = result.pixels.rail?.powerW ?? 0;
           const totalW = result.drivers.reduce((sum, r) => sum + r.loadW, 0);
-          expect(Math.abs(totalW - (treadLoadW + railW))).toBeLessThanOrEqual(5e-5 * (result.treads.length + 2) + 1e-6 * totalW);
+          expect(Math.abs(totalW - (treadLoadW + railW))).toBeLessThanOrEqual(5e-5 * (rowCount + 2) + 1e-6 * totalW);
           const maxLoading = input?.drivers?.maxLoadingPercent ?? 80;
           for (const rail of result.drivers) {
             if (rail.loadW === 0 || rail.driverCount === 0) continue;

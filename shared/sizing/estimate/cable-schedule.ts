@@ -19,6 +19,8 @@ export interface CableUse {
   powered: boolean;
   /** Tread the run ends at (tread leads, chain leads), or the first of a feed group. */
   tread: number | null;
+  /** Lit landing a tread lead runs to instead of a tread (issue 8). */
+  landing?: number;
   lastTread: number | null;
   /** Feeder target, for messages. */
   feederTo: 'controller' | 'pixel feed point' | null;
@@ -30,7 +32,7 @@ export interface CableUse {
 export function describeUse(use: CableUse): string {
   switch (use.use) {
     case 'tread leads':
-      return `the lead to tread ${use.tread}`;
+      return use.landing !== undefined ? `the lead to landing ${use.landing}` : `the lead to tread ${use.tread}`;
     case 'chain leads':
       return `the data lead to tread ${use.tread}`;
     case 'data links':
@@ -89,6 +91,11 @@ export function cableUsesOf(
   if (treadStrips) {
     treadStrips.leads.forEach((run, k) => {
       uses.push({ use: 'tread leads', cores: 2, run, laidLengthM: run.lengthM, powered: true, tread: k + 1, lastTread: null, feederTo: null, controller: null, count: 1 });
+    });
+    // Lit landings (issue 8): a lead each, like a tread's.
+    treadStrips.landingLeads.forEach((run, j) => {
+      const landing = treadStrips.landingRows[j]?.landing as number;
+      uses.push({ use: 'tread leads', cores: 2, run, laidLengthM: run.lengthM, powered: true, tread: null, landing, lastTread: null, feederTo: null, controller: null, count: 1 });
     });
   }
   if (treadPixels) {

@@ -157,6 +157,7 @@ export function estimate(input: EstimateInput): EstimateResult {
     cautions: cautionsFor(maxRailCurrentA, maxRailVoltageV),
     trace: settings.defaultsUsed.length > 0 ? settings.defaultsUsed.concat(trace) : trace,
   };
+  if (treadStrips && treadStrips.landingRows.length > 0) result.landings = treadStrips.landingRows;
   if (bom.total !== undefined) result.bomTotal = bom.total;
   if (bom.complete !== undefined) result.bomTotalComplete = bom.complete;
   if (bom.currency !== undefined) result.currency = bom.currency;

@@ -21,14 +21,17 @@ export function outputCountCheck(d: Design): EstimateCheck | null {
       `Choose a controller with at least ${needed} CV outputs, one per tread.`,
     );
   }
+  // Lit landings take an output each, in the sequence between their flights.
+  const lit = part.landingRows.length;
+  const what = lit > 0 ? `${needed - lit} treads and ${lit} lit landing${lit === 1 ? '' : 's'}` : `${needed} treads`;
   if (part.allocation.outputCountOk) {
-    return passed('output-count', `${needed} treads use ${needed} of the controller's ${profile.outputs} outputs.`, needed, profile.outputs, 'outputs', PROFILE);
+    return passed('output-count', `${what} use ${needed} of the controller's ${profile.outputs} outputs.`, needed, profile.outputs, 'outputs', PROFILE);
   }
   const blocks = part.allocation.controllers;
   return flagged(
     'output-count',
     'warn',
-    `${needed} treads need ${needed} outputs; one controller has ${profile.outputs}, so ${blocks.length} controllers share the treads (${treadsText(blocks)}).`,
+    `${what} need ${needed} outputs; one controller has ${profile.outputs}, so ${blocks.length} controllers share the treads (${treadsText(blocks)}).`,
     needed,
     profile.outputs,
     'outputs',

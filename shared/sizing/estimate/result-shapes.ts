@@ -40,6 +40,7 @@ export function outputsOf(
       controller: o.controller,
       output: o.output,
       treads: o.treads,
+      ...(o.landings ? { landings: o.landings } : {}),
       currentA: round(o.currentA),
       withinLimit: o.withinLimit,
     })),

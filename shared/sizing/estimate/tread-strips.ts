@@ -1,11 +1,12 @@
-import type { EstimateTread, TreadStripInput } from '../../schemas/estimate.js';
-import { treadWidthsOf, type StairGeometry } from '../geometry.js';
+import type { EstimateLanding, EstimateTread, TreadStripInput } from '../../schemas/estimate.js';
+import { treadPositionsM, treadWidthsOf, type StairGeometry } from '../geometry.js';
+import { allocationInTreads, lightingSequence, litLandingsOf } from './lit-landings.js';
 import { allocateOutputs, outputsTrace, type OutputAllocation } from '../outputs.js';
 import { cvLoad, cvLoadTrace, fitStrip, stripFitTrace, type CvLoad, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { setSize, sizeRun, type RunCable } from './run-cable.js';
 import type { Settings } from './settings.js';
-import { runsTrace, stairRuns, type StairRuns } from './stair.js';
+import { runsTrace, stairRuns, type BlockRuns, type StairRuns } from './stair.js';
 
 export interface TreadStripPart {
   strip: TreadStripInput;
@@ -23,6 +24,9 @@ export interface TreadStripPart {
   /** Strip cut for each lit tread, mm, and the tread it is for. */
   litPiecesMm: number[];
   litPieceTreads: number[];
+  /** Lit landings: their leads and schedule rows (empty without lit landings). */
+  landingLeads: RunCable[];
+  landingRows: EstimateLanding[];
   litTreads: number;
   allocation: OutputAllocation;
   runs: StairRuns;
@@ -68,8 +72,17 @@ export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, se
   const fit = fits[narrowest] as StripFit;
   const load = loads[largest] as CvLoad;
   const treadCurrentsA: number[] = loads.map((l) => l.currentA);
-  const allocationInput = { treadCurrentsA, profile: settings.profile };
+  // Lit landings light in the sequence between their flights, each on an output of its own.
+  const landings = litLandingsOf(stair, stair.litLandings);
+  const landingFit = fitStrip(stair.treadWidthMm as number, strip.cutPitchMm, strip.endClearanceMm);
+  const landingLoad = landingFit.fits ? cvLoad(landingFit.stripLengthMm, strip.powerWPerM, strip.voltageV) : NO_LOAD;
+  const sequence = lightingSequence(n, landings);
+  const allocationInput = {
+    treadCurrentsA: landings.length > 0 ? sequence.map((i) => (i.tread !== undefined ? (treadCurrentsA[i.tread - 1] as number) : landingLoad.currentA)) : treadCurrentsA,
+    profile: settings.profile,
+  };
   const allocation = allocateOutputs(allocationInput);
+  if (landings.length > 0) allocationInTreads(allocation, sequence);
 
   // Without CV outputs no controller can take a tread; the runs are still measured from one.
   const blocks = allocation.controllers.length > 0 ? allocation.controllers : [{ firstTread: 1, lastTread: n }];
@@ -110,6 +123,38 @@ export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, se
   }
   const controllerCurrentsA = allocation.controllers.map((c) => c.currentA);
 
+  // Each lit landing: a lead from the controller whose block holds the tread below it.
+  const positions = landings.length > 0 ? treadPositionsM(stair) : null;
+  const landingLeads: RunCable[] = [];
+  const landingRows: EstimateLanding[] = [];
+  landings.forEach((l, j) => {
+    const block = runs.blocks.find((b) => l.belowTread >= b.firstTread && l.belowTread <= b.lastTread) ?? (runs.blocks[0] as BlockRuns);
+    const lengthM = Math.abs(l.positionM - ((positions as Float64Array)[block.atTread - 1] as number)) + settings.cable.serviceAllowanceM;
+    const lead = sizeRun(strip.voltageV, landingLoad.currentA, lengthM, settings.cable);
+    landingLeads.push(lead);
+    const out = allocation.outputs.find((o) => o.landings?.includes(l.landing));
+    const row: EstimateLanding = {
+      landing: l.landing,
+      belowTread: l.belowTread,
+      stripLengthMm: landingFit.stripLengthMm,
+      powerW: round(landingLoad.powerW),
+      currentA: round(landingLoad.currentA),
+      controller: out?.controller ?? null,
+      output: out?.output ?? null,
+      cableLengthM: round(lead.lengthM, 3),
+      dropPercent: round(lead.dropPercent, 3),
+    };
+    setSize(row, settings.cable, lead);
+    landingRows.push(row);
+    totalLoadW += landingLoad.powerW;
+    totalCurrentA += landingLoad.currentA;
+    if (landingFit.fits) {
+      litPiecesMm.push(landingFit.stripLengthMm);
+      // Reel plans count pieces from 0 by tread; lit landings follow the treads (n + 1, n + 2, …).
+      litPieceTreads.push(n + j + 1);
+    }
+  });
+
   trace.push(
     stripFitTrace(widths[narrowest] as number, strip.cutPitchMm, strip.endClearanceMm, fit),
     ...cvLoadTrace((fits[largest] as StripFit).stripLengthMm, strip.powerWPerM, strip.voltageV, load, 'tread.powerW'),
@@ -143,7 +188,9 @@ export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, se
     loads,
     litPiecesMm,
     litPieceTreads,
-    litTreads: litPiecesMm.length,
+    litTreads: litPiecesMm.length - (landingFit.fits ? landings.length : 0),
+    landingLeads,
+    landingRows,
     allocation,
     runs,
     leads,
