@@ -24,6 +24,28 @@ export const controllerProfileSchema = z
     maxTreads: z.int().min(1).max(512).optional().meta({ description: 'Most treads the controller supports.' }),
     maxInputCurrentA: z.number().positive().max(1000).optional().meta({ description: 'Largest total current into the controller, A.' }),
     sensorInput: sensorInputSchema.optional(),
+    // Added for issue 8 (data lines, sensors):
+    dataLogicV: z
+      .number()
+      .positive()
+      .max(24)
+      .optional()
+      .meta({ description: 'Added field: logic-high voltage of the data outputs, V (e.g. 3.3 or 5). A pixel reads high from 0.7 × its VDD, so 3.3 V on 5 V pixels needs a level shifter.' }),
+    maxDataLeadM: z
+      .number()
+      .min(0.1)
+      .max(1000)
+      .optional()
+      .meta({
+        description: 'Added field: longest unbuffered data lead from a data output to the first pixel, m. Default 2 (one-wire data kept to about 1–2 m, from memory); a built-in buffer or differential output allows more.',
+        default: 2,
+      }),
+    sensorInputs: z
+      .int()
+      .min(0)
+      .max(64)
+      .optional()
+      .meta({ description: 'Added field: motion-sensor inputs on one controller. Default 2 (foot and head; common practice, from memory).', default: 2 }),
   })
   .refine((p) => p.minTreads === undefined || p.maxTreads === undefined || p.minTreads <= p.maxTreads, {
     message: 'maxTreads must not be below minTreads',

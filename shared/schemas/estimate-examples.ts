@@ -20,6 +20,7 @@ export const hlK20Profile = {
   dataOutputs: 1,
   maxPixelsPerOutput: 800,
   sensorInput: { type: 'pnp', supplyV: 5, maxCurrentMa: 12 },
+  sensorInputs: 2,
 } as const;
 
 /** HL-K36: 36 CV outputs at 1.2 A, two data outputs of 600 pixels each. */
@@ -133,7 +134,11 @@ export const alderRowTownhouseResponse = {
     worstDropPercent: 2.399,
     motionSensors: 2,
     reels: 3,
-    checks: { pass: 15, warn: 1, fail: 0 },
+    checks: {
+      pass: 16,
+      warn: 1,
+      fail: 0
+    }
   },
   treads: [
     {
@@ -147,7 +152,7 @@ export const alderRowTownhouseResponse = {
       cableLengthM: 2.366,
       dropPercent: 0.34,
       crossSectionMm2: 0.5,
-      pathDropPercent: 2.355,
+      pathDropPercent: 2.355
     },
     {
       index: 7,
@@ -160,7 +165,7 @@ export const alderRowTownhouseResponse = {
       cableLengthM: 0.5,
       dropPercent: 0.072,
       crossSectionMm2: 0.5,
-      pathDropPercent: 2.086,
+      pathDropPercent: 2.086
     },
     {
       index: 14,
@@ -173,13 +178,19 @@ export const alderRowTownhouseResponse = {
       cableLengthM: 2.677,
       dropPercent: 0.385,
       crossSectionMm2: 0.5,
-      pathDropPercent: 2.399,
-    },
+      pathDropPercent: 2.399
+    }
   ],
   outputs: {
     controllers: 1,
     controllerTreads: [
-      { controller: 1, firstTread: 1, lastTread: 14, atTread: 7, currentA: 4.9583 },
+      {
+        controller: 1,
+        firstTread: 1,
+        lastTread: 14,
+        atTread: 7,
+        currentA: 4.9583
+      }
     ],
     cvOutputsPerController: 20,
     maxCurrentPerOutputA: 1.5,
@@ -188,55 +199,74 @@ export const alderRowTownhouseResponse = {
       {
         controller: 1,
         output: 1,
-        treads: [1],
+        treads: [
+          1
+        ],
         currentA: 0.3542,
-        withinLimit: true,
+        withinLimit: true
       },
       {
         controller: 1,
         output: 2,
-        treads: [2],
+        treads: [
+          2
+        ],
         currentA: 0.3542,
-        withinLimit: true,
-      },
+        withinLimit: true
+      }
     ],
     dataOutputsPerController: 1,
-    data: [],
+    data: []
   },
   drivers: [
     {
       voltageV: 24,
-      loads: ['tread strips'],
+      loads: [
+        'tread strips'
+      ],
       loadW: 119,
       currentA: 4.9583,
       requiredRatingW: 148.75,
       maxLoadingPercent: 80,
       drivers: [
-        { ratingW: 150, count: 1, loadW: 119, loadingPercent: 79.3333 },
+        {
+          ratingW: 150,
+          count: 1,
+          loadW: 119,
+          loadingPercent: 79.3333
+        }
       ],
       driverCount: 1,
       totalRatingW: 150,
       loadingPercent: 79.3333,
       maxSupplyW: null,
       circuits: 1,
-      ratingsSource: 'default',
-    },
+      ratingsSource: 'default'
+    }
   ],
   circuits: [
     {
       circuit: 1,
       name: 'controller 1',
       voltageV: 24,
-      loads: ['tread strips'],
+      loads: [
+        'tread strips'
+      ],
       loadW: 119,
       currentA: 4.9583,
-      driver: { ratingW: 150, loadingPercent: 79.3333, currentLimitA: 9.375 },
+      driver: {
+        ratingW: 150,
+        loadingPercent: 79.3333,
+        currentLimitA: 9.375
+      },
       driverPositionM: 1.866,
       feeds: 1,
       worstPathDropPercent: 2.399,
-      fusesA: [6.3],
-      protectedBy: 'driver current limit',
-    },
+      fusesA: [
+        6.3
+      ],
+      protectedBy: 'driver current limit'
+    }
   ],
   feeder: {
     lengthM: 2,
@@ -261,11 +291,15 @@ export const alderRowTownhouseResponse = {
         pathDropPercent: 2.399,
         fuseA: 6.3,
         protectedBy: 'driver current limit',
-        crossSectionMm2: 1,
-      },
-    ],
+        crossSectionMm2: 1
+      }
+    ]
   },
-  pixels: { rail: null, treads: null, railGrouping: null },
+  pixels: {
+    rail: null,
+    treads: null,
+    railGrouping: null
+  },
   reels: {
     treads: {
       reels: 3,
@@ -273,44 +307,112 @@ export const alderRowTownhouseResponse = {
       plan: [
         {
           reel: 1,
-          piecesMm: [850, 850, 850, 850, 850],
-          pieceIndexes: [0, 1, 2, 3, 4],
-          wasteMm: 750,
+          piecesMm: [
+            850,
+            850,
+            850,
+            850,
+            850
+          ],
+          pieceIndexes: [
+            0,
+            1,
+            2,
+            3,
+            4
+          ],
+          wasteMm: 750
         },
         {
           reel: 2,
-          piecesMm: [850, 850, 850, 850, 850],
-          pieceIndexes: [5, 6, 7, 8, 9],
-          wasteMm: 750,
+          piecesMm: [
+            850,
+            850,
+            850,
+            850,
+            850
+          ],
+          pieceIndexes: [
+            5,
+            6,
+            7,
+            8,
+            9
+          ],
+          wasteMm: 750
         },
         {
           reel: 3,
-          piecesMm: [850, 850, 850, 850],
-          pieceIndexes: [10, 11, 12, 13],
-          wasteMm: 1600,
-        },
+          piecesMm: [
+            850,
+            850,
+            850,
+            850
+          ],
+          pieceIndexes: [
+            10,
+            11,
+            12,
+            13
+          ],
+          wasteMm: 1600
+        }
       ],
       totalWasteMm: 3100,
       lowerBoundReels: 3,
       provenOptimal: true,
       method: 'identical-pieces',
       unplaceableTreads: [],
-      sku: 'HL-S24-10',
+      sku: 'HL-S24-10'
     },
-    rail: null,
+    rail: null
   },
   cables: [
-    { cores: 2, use: 'tread leads', runs: 14, totalLengthM: 22.239, orderLengthM: 23, crossSectionMm2: 0.5 },
-    { cores: 2, use: 'feeders', runs: 1, totalLengthM: 2, orderLengthM: 2, crossSectionMm2: 1 },
+    {
+      cores: 2,
+      use: 'tread leads',
+      runs: 14,
+      totalLengthM: 22.239,
+      orderLengthM: 23,
+      crossSectionMm2: 0.5
+    },
+    {
+      cores: 2,
+      use: 'feeders',
+      runs: 1,
+      totalLengthM: 2,
+      orderLengthM: 2,
+      crossSectionMm2: 1
+    }
   ],
   sensors: {
     motionSensors: 2,
     placements: [
-      { role: 'foot', flight: 1, tread: 1 },
-      { role: 'head', flight: 1, tread: 14 },
+      {
+        role: 'foot',
+        flight: 1,
+        tread: 1,
+        cableLengthM: 2.366
+      },
+      {
+        role: 'head',
+        flight: 1,
+        tread: 14,
+        cableLengthM: 2.677
+      }
     ],
-    motion: { outputType: 'pnp', supplyV: 5, currentMa: 8, source: 'request' },
-    controllerInput: { type: 'pnp', supplyV: 5, maxCurrentMa: 12, source: 'profile' },
+    motion: {
+      outputType: 'pnp',
+      supplyV: 5,
+      currentMa: 8,
+      source: 'request'
+    },
+    controllerInput: {
+      type: 'pnp',
+      supplyV: 5,
+      maxCurrentMa: 12,
+      source: 'profile'
+    },
     typeMatch: true,
     needsInterface: false,
     supplyMatch: true,
@@ -319,6 +421,7 @@ export const alderRowTownhouseResponse = {
     daylightSensors: 1,
     daylightCutoffLux: 50,
     daylightCutoffDefaulted: true,
+    sensorCableM: 5.043
   },
   bom: [
     {
@@ -326,40 +429,56 @@ export const alderRowTownhouseResponse = {
       description: 'CV strip 24 V 10 W/m, cut pitch 50 mm, 5 m reel',
       quantity: 3,
       unit: 'reel',
-      sku: 'HL-S24-10',
+      sku: 'HL-S24-10'
     },
     {
       category: 'driver',
       description: 'LED driver 24 V 150 W, one per circuit (circuit 1); never parallel their outputs',
       quantity: 1,
-      unit: 'pcs',
+      unit: 'pcs'
     },
     {
       category: 'fuse',
       description: 'Inline fuse holder with 6.3 A fuse, at the driver output of a feeder',
       quantity: 1,
-      unit: 'pcs',
+      unit: 'pcs'
     },
     {
       category: 'controller',
       description: 'Stair controller (profile sent inline)',
       quantity: 1,
-      unit: 'pcs',
+      unit: 'pcs'
     },
     {
       category: 'motion-sensor',
       description: 'PIR motion sensor, PNP output, 5 V, 8 mA',
       quantity: 2,
-      unit: 'pcs',
+      unit: 'pcs'
     },
     {
       category: 'daylight-sensor',
       description: 'Ambient-light sensor for the 50 lx cut-off',
       quantity: 1,
-      unit: 'pcs',
+      unit: 'pcs'
     },
-    { category: 'cable', description: '2-core copper cable 0.5 mm²', quantity: 23, unit: 'm' },
-    { category: 'cable', description: '2-core copper cable 1 mm²', quantity: 2, unit: 'm' },
+    {
+      category: 'cable',
+      description: '2-core copper cable 0.5 mm²',
+      quantity: 23,
+      unit: 'm'
+    },
+    {
+      category: 'cable',
+      description: '2-core copper cable 1 mm²',
+      quantity: 2,
+      unit: 'm'
+    },
+    {
+      category: 'cable',
+      description: '3-core sensor cable (supply, 0 V, signal) 0.5 mm², 2 runs',
+      quantity: 6,
+      unit: 'm'
+    }
   ],
   checks: [
     {
@@ -369,7 +488,7 @@ export const alderRowTownhouseResponse = {
       value: 14,
       limit: '1 or more',
       unit: 'treads',
-      reference: 'controller profile',
+      reference: 'controller profile'
     },
     {
       id: 'strip-fits-tread',
@@ -378,16 +497,16 @@ export const alderRowTownhouseResponse = {
       value: 850,
       limit: 860,
       unit: 'mm',
-      reference: 'strip cut only at its marked cut points (strip datasheet); end clearance 20 mm by default (common practice, no published source)',
+      reference: 'strip cut only at its marked cut points (strip datasheet); end clearance 20 mm by default (common practice, no published source)'
     },
     {
       id: 'output-count',
       status: 'pass',
-      message: '14 treads use 14 of the controller\'s 20 outputs.',
+      message: "14 treads use 14 of the controller's 20 outputs.",
       value: 14,
       limit: 20,
       unit: 'outputs',
-      reference: 'controller profile',
+      reference: 'controller profile'
     },
     {
       id: 'output-current',
@@ -396,7 +515,7 @@ export const alderRowTownhouseResponse = {
       value: 0.3542,
       limit: 1.5,
       unit: 'A',
-      reference: 'controller profile',
+      reference: 'controller profile'
     },
     {
       id: 'controller-input-current',
@@ -406,7 +525,7 @@ export const alderRowTownhouseResponse = {
       limit: null,
       unit: 'A',
       reference: 'controller profile',
-      suggestion: 'Confirm on the controller\'s datasheet that its input accepts 4.96 A, and add maxInputCurrentA to the profile.',
+      suggestion: "Confirm on the controller's datasheet that its input accepts 4.96 A, and add maxInputCurrentA to the profile."
     },
     {
       id: 'driver-loading',
@@ -415,7 +534,7 @@ export const alderRowTownhouseResponse = {
       value: 79.3333,
       limit: 80,
       unit: '%',
-      reference: 'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load',
+      reference: 'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load'
     },
     {
       id: 'selv-voltage',
@@ -424,16 +543,16 @@ export const alderRowTownhouseResponse = {
       value: 24,
       limit: 60,
       unit: 'V',
-      reference: 'IEC 61140 / IEC 60364-4-41: SELV ≤ 120 V ripple-free DC; IEC 60598-1 8.2.3: exposed live parts of Class III luminaires ≤ 60 V ripple-free DC',
+      reference: 'IEC 61140 / IEC 60364-4-41: SELV ≤ 120 V ripple-free DC; IEC 60598-1 8.2.3: exposed live parts of Class III luminaires ≤ 60 V ripple-free DC'
     },
     {
       id: 'circuit-protection',
       status: 'pass',
-      message: 'Every feeder is protected: fuses at the drivers 6.3 A; 1 of 1 feeders also carry their driver\'s full current limit.',
+      message: "Every feeder is protected: fuses at the drivers 6.3 A; 1 of 1 feeders also carry their driver's full current limit.",
       value: 10,
       limit: null,
       unit: 'A',
-      reference: 'IEC 60364-4-43 433.1: I_B ≤ I_n ≤ I_z (from memory); I_n ≥ 1.25 × I_B as NEC 210.20(A) asks for continuous loads; a fuse opens at about 2.1 × I_n (IEC 60127-2, from memory), so a driver limited below that never blows it and the cable must carry the driver’s limit',
+      reference: 'IEC 60364-4-43 433.1: I_B ≤ I_n ≤ I_z (from memory); I_n ≥ 1.25 × I_B as NEC 210.20(A) asks for continuous loads; a fuse opens at about 2.1 × I_n (IEC 60127-2, from memory), so a driver limited below that never blows it and the cable must carry the driver’s limit'
     },
     {
       id: 'cable-drop',
@@ -442,7 +561,7 @@ export const alderRowTownhouseResponse = {
       value: 2.399,
       limit: 5,
       unit: '%',
-      reference: 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1); series drop driver → feeder → lead → strip; limit: IEC 60364-7-715 / BS 7671 715.525: ≤ 5 % from the ELV converter (driver) to the farthest luminaire, end to end (from memory); IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply',
+      reference: 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1); series drop driver → feeder → lead → strip; limit: IEC 60364-7-715 / BS 7671 715.525: ≤ 5 % from the ELV converter (driver) to the farthest luminaire, end to end (from memory); IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply'
     },
     {
       id: 'cable-current',
@@ -451,7 +570,7 @@ export const alderRowTownhouseResponse = {
       value: 4.9583,
       limit: 10,
       unit: 'A',
-      reference: 'BS 7671 Appendix 4 Table 4F3A, from memory',
+      reference: 'BS 7671 Appendix 4 Table 4F3A, from memory'
     },
     {
       id: 'cable-run-length',
@@ -460,7 +579,7 @@ export const alderRowTownhouseResponse = {
       value: 2.677,
       limit: 10,
       unit: 'm',
-      reference: 'common practice, no published source: controller-to-tread runs of 10 m or less',
+      reference: 'common practice, no published source: controller-to-tread runs of 10 m or less'
     },
     {
       id: 'cable-min-size',
@@ -469,7 +588,7 @@ export const alderRowTownhouseResponse = {
       value: 0.5,
       limit: 0.5,
       unit: 'mm²',
-      reference: 'common practice, no published source: copper no thinner than 0.5 mm²',
+      reference: 'common practice, no published source: copper no thinner than 0.5 mm²'
     },
     {
       id: 'sensor-type',
@@ -478,7 +597,7 @@ export const alderRowTownhouseResponse = {
       value: 'pnp',
       limit: 'pnp',
       unit: '',
-      reference: 'PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2); stair-controller inputs are usually PNP (common practice, no published source)',
+      reference: 'PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2); stair-controller inputs are usually PNP (common practice, no published source)'
     },
     {
       id: 'sensor-current',
@@ -487,16 +606,16 @@ export const alderRowTownhouseResponse = {
       value: 8,
       limit: 12,
       unit: 'mA',
-      reference: 'controller profile',
+      reference: 'controller profile'
     },
     {
       id: 'sensor-supply',
       status: 'pass',
-      message: 'Sensors rated 5 V on the controller\'s 5 V sensor supply.',
+      message: "Sensors rated 5 V on the controller's 5 V sensor supply.",
       value: 5,
       limit: 5,
       unit: 'V',
-      reference: 'controller profile',
+      reference: 'controller profile'
     },
     {
       id: 'piece-fits-reel',
@@ -505,34 +624,43 @@ export const alderRowTownhouseResponse = {
       value: 850,
       limit: 5000,
       unit: 'mm',
-      reference: 'common practice, no published source',
+      reference: 'common practice, no published source'
     },
+    {
+      id: 'sensor-inputs',
+      status: 'pass',
+      message: '2 motion sensors on 2 sensor inputs.',
+      value: 2,
+      limit: 2,
+      unit: 'sensors',
+      reference: 'controller profile'
+    }
   ],
   cautions: [
     {
       code: 'mains-work',
-      message: 'Treadwise sizes the low-voltage side only. Connecting drivers to the mains is work for a licensed electrician, and the local wiring rules (NEC, IEC 60364 or the national rules) and the installer’s judgement take precedence over these figures.',
+      message: 'Treadwise sizes the low-voltage side only. Connecting drivers to the mains is work for a licensed electrician, and the local wiring rules (NEC, IEC 60364 or the national rules) and the installer’s judgement take precedence over these figures.'
     },
     {
       code: 'first-power-on',
-      message: 'Before the first power-on, check every run for short circuits and every strip and sensor lead for polarity; a reversed sensor lead is a common fault.',
+      message: 'Before the first power-on, check every run for short circuits and every strip and sensor lead for polarity; a reversed sensor lead is a common fault.'
     },
     {
       code: 'driver-heat',
-      message: 'Give drivers room to breathe: mount them where air moves and derate them as their datasheets ask when the space runs warm.',
+      message: 'Give drivers room to breathe: mount them where air moves and derate them as their datasheets ask when the space runs warm.'
     },
     {
       code: 'one-supply-per-circuit',
-      message: 'Each driver feeds only its own circuit: never connect driver outputs in parallel (unless the datasheet allows it), never join the + of two circuits, and fit each feeder’s fuse at its driver as the circuits list gives it.',
+      message: 'Each driver feeds only its own circuit: never connect driver outputs in parallel (unless the datasheet allows it), never join the + of two circuits, and fit each feeder’s fuse at its driver as the circuits list gives it.'
     },
     {
       code: 'not-emergency-lighting',
-      message: 'Motion-switched stair lights are orientation lighting, not emergency or escape-route lighting (EN 1838 and the building’s emergency lighting design cover that).',
+      message: 'Motion-switched stair lights are orientation lighting, not emergency or escape-route lighting (EN 1838 and the building’s emergency lighting design cover that).'
     },
     {
       code: 'nominal-data',
-      message: 'Every figure is an estimate from nominal data; confirm currents, cut pitches, feed lengths and cable ratings with the datasheets of the parts actually bought.',
-    },
+      message: 'Every figure is an estimate from nominal data; confirm currents, cut pitches, feed lengths and cable ratings with the datasheets of the parts actually bought.'
+    }
   ],
   standby: {
     controllerW: 0.5,
@@ -545,7 +673,13 @@ export const alderRowTownhouseResponse = {
     standbyKWhPerYear: 9.693,
     litKWhPerYear: 21.924,
     totalKWhPerYear: 31.616,
-    defaultsUsed: ['controllerW', 'driverNoLoadW', 'darkPixelMa', 'daylightSensorW', 'litMinutesPerDay'],
+    defaultsUsed: [
+      'controllerW',
+      'driverNoLoadW',
+      'darkPixelMa',
+      'daylightSensorW',
+      'litMinutesPerDay'
+    ]
   },
   trace: [
     {
@@ -554,23 +688,33 @@ export const alderRowTownhouseResponse = {
       unit: 'm',
       formula: 'not given; default used',
       inputs: {},
-      reference: 'driver mounted beside the controller (Treadwise assumption, no published source)',
+      reference: 'driver mounted beside the controller (Treadwise assumption, no published source)'
     },
     {
       quantity: 'stripLengthMm',
       value: 850,
       unit: 'mm',
       formula: 'floor((treadWidthMm − 2 × endClearanceMm) / cutPitchMm) × cutPitchMm; at least one pitch',
-      inputs: { treadWidthMm: 900, cutPitchMm: 50, endClearanceMm: 20, endClearanceDefaulted: true, fits: true },
-      reference: 'strip cut only at its marks; end clearance 20 mm by default (common practice, no published source)',
+      inputs: {
+        treadWidthMm: 900,
+        cutPitchMm: 50,
+        endClearanceMm: 20,
+        endClearanceDefaulted: true,
+        fits: true
+      },
+      reference: 'strip cut only at its marks; end clearance 20 mm by default (common practice, no published source)'
     },
     {
       quantity: 'treadStrips.totalLoadW',
       value: 119,
       unit: 'W',
       formula: 'Σ tread powers (every tread the same width)',
-      inputs: { treads: 14, litTreads: 14, treadPowerW: 8.5 },
-      reference: 'arithmetic',
+      inputs: {
+        treads: 14,
+        litTreads: 14,
+        treadPowerW: 8.5
+      },
+      reference: 'arithmetic'
     },
     {
       quantity: 'longestRunM',
@@ -583,17 +727,20 @@ export const alderRowTownhouseResponse = {
         serviceAllowanceM: 0.5,
         serviceAllowanceDefaulted: true,
         landings: 0,
-        practiceLimitM: 10,
+        practiceLimitM: 10
       },
-      reference: 'stair geometry; 10 m practice limit (common practice, no published source)',
+      reference: 'stair geometry; 10 m practice limit (common practice, no published source)'
     },
     {
       quantity: '24 V rail: requiredRatingW',
       value: 148.75,
       unit: 'W',
       formula: 'P_load / (maxLoadingPercent / 100)',
-      inputs: { loadW: 119, maxLoadingPercent: 80 },
-      reference: 'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load',
+      inputs: {
+        loadW: 119,
+        maxLoadingPercent: 80
+      },
+      reference: 'common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load'
     },
     {
       quantity: 'treads.reels',
@@ -606,9 +753,9 @@ export const alderRowTownhouseResponse = {
         reelLengthDefaulted: false,
         cutPitchMm: 50,
         usableReelLengthMm: 5000,
-        provenOptimal: true,
+        provenOptimal: true
       },
-      reference: 'one-dimensional cutting stock without joints; 5 m reel by default (common practice, no published source)',
+      reference: 'one-dimensional cutting stock without joints; 5 m reel by default (common practice, no published source)'
     },
     {
       quantity: 'worstDropPercent',
@@ -621,11 +768,11 @@ export const alderRowTownhouseResponse = {
         currentA: 4.9583,
         size: '1 mm²',
         resistanceOhmPerKm: 24.375,
-        dropV: 0.4834,
+        dropV: 0.4834
       },
-      reference: 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1)',
-    },
-  ],
+      reference: 'IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1)'
+    }
+  ]
 };
 
 /** Every example by name, for docs and tests. */

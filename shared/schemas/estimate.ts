@@ -43,10 +43,37 @@ export const staircaseSchema = z
     riserHeightMm: z.number().min(50).max(400).meta({ description: 'Riser height, mm.' }),
     goingMm: z.number().min(50).max(1000).meta({ description: 'Going (tread depth, front to back), mm.' }),
     flights: z.array(flightSchema).min(1).max(20).optional().meta({ description: 'Flights foot first; they must add up to `treads`. Default: one straight flight.' }),
+    treadWidthsMm: z
+      .array(z.number().min(100).max(5000))
+      .min(1)
+      .max(MAX_TREADS)
+      .optional()
+      .meta({
+        description:
+          'Added field: width of each tread where the strip goes, foot first, mm (winders, a bullnose first step: the length along the nosing). One per tread; default: every tread `treadWidthMm` wide.',
+        example: [1150, 900, 900, 900],
+      }),
+    litLandings: z
+      .array(z.int().min(1).max(19))
+      .max(19)
+      .optional()
+      .meta({
+        description:
+          'Added field: landings lit with a strip along their front edge, as wide as the stair (1 = the landing above flight 1). Each lights in the step sequence between its flights on a CV output of its own (tread-strip layouts).',
+      }),
   })
   .superRefine((stair, ctx) => {
     const issue = flightsMismatch(stair);
     if (issue) ctx.addIssue({ code: 'custom', path: ['flights'], message: issue });
+    const landings = (stair.flights?.length ?? 1) - 1;
+    stair.litLandings?.forEach((landing, i) => {
+      if (landing > landings) {
+        ctx.addIssue({ code: 'custom', path: ['litLandings', i], message: landings === 0 ? 'the stair has no landing between flights' : `must be a landing from 1 to ${landings}` });
+      }
+    });
+    if (stair.treadWidthsMm && stair.treadWidthsMm.length !== stair.treads) {
+      ctx.addIssue({ code: 'custom', path: ['treadWidthsMm'], message: `gives ${stair.treadWidthsMm.length} widths but the stair has ${stair.treads} treads` });
+    }
   })
   .meta({ id: 'Staircase', description: 'The stair as measured.', example: { treads: 14, treadWidthMm: 900, riserHeightMm: 185, goingMm: 250 } });
 
@@ -93,12 +120,63 @@ const pixelCommon = {
     .optional()
     .meta({ description: 'Longest strip the datasheet allows from one feed point, m. Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory).' }),
   sku: skuField,
+  // Added for issue 8 (pixel current defaults, brightness cap, clocked timing, data lines, feed points):
+  powerWPerM: z
+    .number()
+    .positive()
+    .max(200)
+    .optional()
+    .meta({
+      description:
+        'Added field: strip power per metre at full white, W/m (datasheet). Sets the current per pixel when currentPerPixelMa is not given. Default without either: 60 mA per 5 V RGB pixel, 80 mA per 5 V RGBW pixel, 14.4 W/m (× 4/3 RGBW) for 12 / 24 V strip (from memory), with a pixel-current warning.',
+    }),
+  sizeForFullWhite: z
+    .boolean()
+    .optional()
+    .meta({
+      description:
+        'Added field: with a brightness cap, size drivers and cables for full white (true) or for the cap (false, the default: the cap must then be enforced in the controller and the supply overload-protected, as the brightness-cap check says).',
+      default: false,
+    }),
+  clockHz: z
+    .number()
+    .min(1_000)
+    .max(50_000_000)
+    .optional()
+    .meta({ description: 'Added field: clock rate of a clocked (data + clock) strip, Hz. Default 1 MHz.', default: 1_000_000 }),
+  resetUs: z
+    .number()
+    .min(0)
+    .max(10_000)
+    .optional()
+    .meta({ description: 'Added field: latch time after each frame, µs: one-wire reset (default 280); clocked parts that latch on a pause (default 0).' }),
+  maxDataLinkM: z
+    .number()
+    .min(0.1)
+    .max(100)
+    .optional()
+    .meta({ description: 'Added field: longest unbuffered one-wire data gap from one pixel to the next (tread to tread), m. Default 2 (about 1–2 m, from memory).', default: 2 }),
+  maxFeedCurrentA: z
+    .number()
+    .min(0.1)
+    .max(100)
+    .optional()
+    .meta({ description: 'Added field: most current one feed point may push into the strip copper, A (strip datasheet). Default 5 A (common practice, from memory).', default: 5 }),
 };
 
 export const railPixelsSchema = z
   .object({
     lengthM: z.number().min(0.1).max(500).meta({ description: 'Length of the rail (handrail, skirting or corridor wall) run, m.' }),
     ...pixelCommon,
+    dataLeadM: z
+      .number()
+      .min(0)
+      .max(100)
+      .optional()
+      .meta({
+        description: 'Added field: data lead from the controller to the start of the rail, m. Default 0.5 (controller beside the rail’s start); each further data output’s lead runs on to the start of its stretch.',
+        default: 0.5,
+      }),
   })
   .meta({
     id: 'RailPixels',
@@ -308,7 +386,7 @@ const commonFields = {
 };
 
 type CrossCheckable = {
-  staircase?: { treads: number; flights?: { treads: number }[] | undefined } | undefined;
+  staircase?: { treads: number; flights?: { treads: number }[] | undefined; litLandings?: number[] | undefined } | undefined;
   controller: { position?: z.output<typeof controllerPositionSchema> | undefined };
   sensors?: { joinedLandings?: number[] | undefined } | undefined;
   reels?: { reelLengthMm?: number | undefined } | undefined;
@@ -327,6 +405,9 @@ function crossCheck(value: CrossCheckable, ctx: z.RefinementCtx): void {
   const pitch = value.treadStrip?.cutPitchMm ?? value.treadPixels?.cutPitchMm;
   if (reel !== undefined && pitch !== undefined && reel < pitch) {
     ctx.addIssue({ code: 'custom', path: ['reels', 'reelLengthMm'], message: `a reel must hold at least one ${pitch} mm cut pitch` });
+  }
+  if ((value.staircase?.litLandings?.length ?? 0) > 0 && value.treadStrip === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['staircase', 'litLandings'], message: 'lit landings are sized with tread strips (layouts tread-strips and treads-and-rail)' });
   }
   const landings = (value.staircase?.flights?.length ?? 1) - 1;
   value.sensors?.joinedLandings?.forEach((landing, i) => {
@@ -420,9 +501,19 @@ const quaysideRailRun = {
   fullWhiteCurrentA: 32.4,
   powerW: 162,
   brightnessPercent: 50,
+  currentPerPixelMa: 60,
+  currentPerPixelSource: 'default-5v-pixel',
+  uncappedCurrentA: 64.8,
+  uncappedPowerW: 324,
+  sizedForBrightnessPercent: 50,
   feedPoints: 8,
   injectionPoints: 7,
   maxFeedLengthM: 2.5,
+  maxFeedCurrentA: 5,
+  dataGaps: [
+    { kind: 'lead', controller: 1, output: 1, tread: null, lengthM: 0.5, limitM: 2, withinLimit: true },
+    { kind: 'lead', controller: 1, output: 2, tread: null, lengthM: 9.5, limitM: 2, withinLimit: false },
+  ],
 } as const;
 
 /** Stable check ids: other tools are built against them, so ids are added, never renamed. */
@@ -450,6 +541,13 @@ export const CHECK_IDS = [
   'piece-fits-reel',
   'circuit-protection',
   'feeder-derating',
+  'pixel-current',
+  'brightness-cap',
+  'data-line-length',
+  'data-logic-level',
+  'sensor-inputs',
+  'feed-point-current',
+  'rail-holds-pixels',
 ] as const;
 
 export type CheckId = (typeof CHECK_IDS)[number];
@@ -484,11 +582,31 @@ export const estimateTreadSchema = z
   })
   .meta({ id: 'EstimateTread', description: 'One row of the wiring schedule.', example: alderRowTownhouseResponse.treads[2] });
 
+export const estimateLandingSchema = z
+  .object({
+    landing: z.int().meta({ description: 'Landing number: 1 = the landing above flight 1.' }),
+    belowTread: z.int().meta({ description: 'The tread just below it; the landing lights after it.' }),
+    stripLengthMm: z.number().meta({ description: 'Strip cut for the landing’s front edge, mm; 0 when none fits.' }),
+    powerW: z.number(),
+    currentA: z.number(),
+    controller: z.int().nullable(),
+    output: z.int().nullable(),
+    cableLengthM: z.number().meta({ description: 'Lead from the controller to the landing, service allowance included, m.' }),
+    ...sizeFields,
+    dropPercent: z.number(),
+  })
+  .meta({
+    id: 'EstimateLanding',
+    description: 'One lit landing of the wiring schedule.',
+    example: { landing: 1, belowTread: 7, stripLengthMm: 850, powerW: 8.5, currentA: 0.3542, controller: 1, output: 8, cableLengthM: 0.811, crossSectionMm2: 0.5, dropPercent: 0.239 },
+  });
+
 const cvOutputSchema = z
   .object({
     controller: z.int(),
     output: z.int(),
     treads: z.array(z.int()).meta({ description: 'Treads on this output.' }),
+    landings: z.array(z.int()).optional().meta({ description: 'Added field: lit landings on this output (1 = the landing above flight 1).' }),
     currentA: z.number(),
     withinLimit: z.boolean().meta({ description: 'currentA ≤ maxCurrentPerOutputA.' }),
   })
@@ -644,10 +762,31 @@ export const estimatePixelRunSchema = z
     fullWhiteCurrentA: z.number(),
     powerW: z.number(),
     brightnessPercent: z.number(),
+    currentPerPixelMa: z.number().meta({ description: 'Added field: current of one pixel at full white used, mA.' }),
+    currentPerPixelSource: z
+      .enum(['given', 'strip-power', 'default-5v-pixel', 'default-segment', 'default-strip-power'])
+      .meta({ description: 'Added field: where that current came from: the request, its powerWPerM, or a default by channels and voltage.' }),
+    uncappedCurrentA: z.number().meta({ description: 'Added field: the run at full white with no brightness cap, A.' }),
+    uncappedPowerW: z.number().meta({ description: 'Added field: the run at full white with no brightness cap, W.' }),
+    sizedForBrightnessPercent: z.number().meta({ description: 'Added field: brightness the drivers and cables are sized for (100 with sizeForFullWhite).' }),
     feedPoints: z.int().meta({ description: 'Points where power is fed (the first plus injection points).' }),
     injectionPoints: z.int(),
     maxFeedLengthM: z.number(),
+    maxFeedCurrentA: z.number().meta({ description: 'Added field: most current one feed point may push into the strip, A (given or the 5 A default).' }),
     chainCableLengthM: z.number().optional().meta({ description: 'Chaining cable between treads in total, m (tread pixels).' }),
+    dataGaps: z
+      .array(
+        z.object({
+          kind: z.enum(['lead', 'link']).meta({ description: 'lead: data output → first pixel; link: last pixel of one tread → first of the next.' }),
+          controller: z.int().nullable(),
+          output: z.int().nullable(),
+          tread: z.int().nullable().meta({ description: 'Tread the gap leads into; null on a rail.' }),
+          lengthM: z.number(),
+          limitM: z.number().meta({ description: 'Longest unbuffered one-wire gap allowed, m.' }),
+          withinLimit: z.boolean(),
+        }),
+      )
+      .meta({ description: 'Added field: every data gap of the run, each checked on its own (each pixel regenerates the data).' }),
   })
   .meta({ id: 'EstimatePixelRun', description: 'An addressable run: data timing, power and feed points.', example: quaysideRailRun });
 
@@ -703,8 +842,10 @@ export const estimateSensorsResultSchema = z
         role: z.enum(['foot', 'head', 'landing', 'corridor-end', 'side-entrance']),
         flight: z.int().nullable(),
         tread: z.int().nullable(),
+        cableLengthM: z.number().optional().meta({ description: 'Added field: sensor cable from the controller to this sensor, m (from the geometry).' }),
       }),
     ),
+    sensorCableM: z.number().optional().meta({ description: 'Added field: sensor cable in total, m.' }),
     motion: z
       .object({ outputType: z.enum(['pnp', 'npn']), supplyV: z.number(), currentMa: z.number(), source: z.enum(['request', 'catalog']), sku: z.string().optional() })
       .nullable(),
@@ -723,7 +864,20 @@ export const estimateSensorsResultSchema = z
 export const bomLineSchema = z
   .object({
     sku: z.string().optional(),
-    category: z.enum(['strip', 'pixel-strip', 'aluminium-profile', 'end-caps', 'driver', 'fuse', 'controller', 'motion-sensor', 'daylight-sensor', 'cable']),
+    category: z.enum([
+      'strip',
+      'pixel-strip',
+      'aluminium-profile',
+      'end-caps',
+      'driver',
+      'fuse',
+      'controller',
+      'motion-sensor',
+      'daylight-sensor',
+      'cable',
+      // differential data links and level shifters of pixel data lines
+      'data-line',
+    ]),
     description: z.string(),
     quantity: z.int(),
     unit: z.enum(['reel', 'pcs', 'm', 'pair']),
@@ -810,6 +964,7 @@ export const estimateResponseSchema = z
     layout: z.enum(['tread-strips', 'rail-pixels', 'treads-and-rail', 'tread-pixels']),
     summary: estimateSummarySchema,
     treads: z.array(estimateTreadSchema).meta({ description: 'Wiring schedule, foot first; empty for a corridor.' }),
+    landings: z.array(estimateLandingSchema).optional().meta({ description: 'Added field: wiring schedule of the lit landings, when the stair has any.' }),
     outputs: estimateOutputsSchema,
     drivers: z.array(estimateRailSupplySchema),
     circuits: z.array(estimateCircuitSchema).meta({ description: 'Added field: one supply per circuit — each circuit’s driver, load, feeders and protection.' }),
@@ -835,6 +990,7 @@ export const estimateResponseSchema = z
 
 export type EstimateResult = z.output<typeof estimateResponseSchema>;
 export type EstimateTread = z.output<typeof estimateTreadSchema>;
+export type EstimateLanding = z.output<typeof estimateLandingSchema>;
 export type EstimateCheck = z.output<typeof estimateCheckSchema>;
 export type EstimateOutputs = z.output<typeof estimateOutputsSchema>;
 export type EstimateRailSupply = z.output<typeof estimateRailSupplySchema>;

@@ -19,7 +19,10 @@ export const pixelsRequestSchema = z
       .min(0)
       .max(10_000)
       .optional()
-      .meta({ description: 'One-wire latch (reset) time, µs. Ignored for clocked.', default: 280 }),
+      .meta({
+        description: 'Latch time after each frame, µs: the one-wire reset (default 280); for clocked parts that latch on a pause rather than on the end frame, the pause (default 0).',
+        default: 280,
+      }),
     clockHz: z
       .number()
       .min(1_000)
@@ -37,7 +40,11 @@ export const pixelsRequestSchema = z
       .min(0)
       .max(1_000)
       .optional()
-      .meta({ description: 'Current of one pixel at full white, mA.', default: 60 }),
+      .meta({
+        description:
+          'Current of one pixel at full white, mA. Default by channels and voltage: 60 for a 5 V RGB pixel, 80 for 5 V RGBW (32 bits), 60 / 80 per 12 V or 24 V segment (all from memory); a warning says when it was assumed.',
+        default: 60,
+      }),
     supplyVoltageV: z.number().positive().max(60).optional().meta({ description: 'Strip supply voltage, V.', default: 5 }),
     brightnessPercent: z
       .number()
@@ -62,6 +69,9 @@ export const pixelsResponseSchema = z
     pixelsPerOutput: z.int().meta({ description: 'Pixels on the busiest output after an even split.' }),
     fullWhiteCurrentA: z.number().meta({ description: 'Current of the whole run at full white and the brightness cap, A.' }),
     powerW: z.number().meta({ description: 'Power at the supply voltage, W.' }),
+    currentPerPixelMa: z.number().meta({ description: 'Added field: current of one pixel at full white used, mA (given or the default).' }),
+    uncappedCurrentA: z.number().meta({ description: 'Added field: current at full white with no brightness cap, A.' }),
+    uncappedPowerW: z.number().meta({ description: 'Added field: power at full white with no brightness cap, W: what the supply sees if the cap is not enforced.' }),
     warnings: z.array(warningSchema),
     engineVersion: engineVersionSchema,
     trace: z.array(traceEntrySchema),
@@ -77,6 +87,9 @@ export const pixelsResponseSchema = z
       pixelsPerOutput: 540,
       fullWhiteCurrentA: 32.4,
       powerW: 162,
+      currentPerPixelMa: 60,
+      uncappedCurrentA: 64.8,
+      uncappedPowerW: 324,
       warnings: [{ code: 'high_current', message: 'The run draws 32.4 A at full white; feed it at several points.' }],
       engineVersion: '1.0.0',
       trace: [

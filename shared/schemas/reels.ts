@@ -15,7 +15,7 @@ export const reelsRequestSchema = z
       .min(1)
       .max(1_000)
       .optional()
-      .meta({ description: 'Cut pitch, mm: pieces are lengthened to whole pitches and cut at the marks.' }),
+      .meta({ description: 'Cut pitch, mm: each piece is cut at the last mark within its length (shortened to whole pitches, never longer than the space measured).' }),
   })
   .superRefine((value, ctx) => {
     const reel = value.reelLengthMm ?? DEFAULT_REEL_LENGTH_MM;
@@ -25,7 +25,9 @@ export const reelsRequestSchema = z
     }
     const usable = usableReelMm(reel, value.cutPitchMm);
     value.piecesMm.forEach((piece, i) => {
-      if (cutLengthMm(piece, value.cutPitchMm) > usable) {
+      if (value.cutPitchMm !== undefined && cutLengthMm(piece, value.cutPitchMm) <= 0) {
+        ctx.addIssue({ code: 'custom', path: ['piecesMm', i], message: `A ${piece} mm piece is shorter than one ${value.cutPitchMm} mm cut pitch: no strip can be cut for it.` });
+      } else if (cutLengthMm(piece, value.cutPitchMm) > usable) {
         ctx.addIssue({
           code: 'custom',
           path: ['piecesMm', i],
@@ -44,7 +46,7 @@ export const reelsRequestSchema = z
 export const reelCutSchema = z
   .object({
     reel: z.int().meta({ description: 'Reel number, from 1.' }),
-    piecesMm: z.array(z.number()).meta({ description: 'Pieces cut from this reel, mm, as cut (whole pitches).' }),
+    piecesMm: z.array(z.number()).meta({ description: 'Pieces cut from this reel, mm, as cut (whole pitches within each measured length).' }),
     pieceIndexes: z.array(z.int()).meta({ description: 'Positions of these pieces in the request list, from 0.' }),
     wasteMm: z.number().meta({ description: 'Reel length left over, mm.' }),
   })

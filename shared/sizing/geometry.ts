@@ -21,6 +21,16 @@ export interface StairGeometry {
   /** Default landing length when a flight does not give one. */
   treadWidthMm?: number;
   flights?: Flight[];
+  /** Width of each tread where the strip goes (winders, bullnose), foot first; default: treadWidthMm. */
+  treadWidthsMm?: number[] | undefined;
+  /** Landings lit with a strip of their own (1 = the landing above flight 1). */
+  litLandings?: number[] | undefined;
+}
+
+/** Width of tread k (1 = foot): its own when the stair lists them, else the stair's width. */
+export function treadWidthsOf(stair: StairGeometry): number[] {
+  if (stair.treadWidthsMm && stair.treadWidthsMm.length === stair.treads) return stair.treadWidthsMm;
+  return new Array(stair.treads).fill(stair.treadWidthMm ?? 0);
 }
 
 export interface CableRuns {

@@ -13,6 +13,8 @@ export interface OutputLoad {
   controller: number;
   output: number;
   treads: number[];
+  /** Lit landings on this output (1 = the landing above flight 1), when the stair has any. */
+  landings?: number[];
   currentA: number;
   withinLimit: boolean;
 }

@@ -1,5 +1,5 @@
 import type { PixelsInput, PixelsResult } from '../schemas/pixels.js';
-import { DEFAULT_CURRENT_PER_PIXEL_MA, pixelCurrentA, pixelCurrentTrace } from './strip.js';
+import { DEFAULT_CURRENT_PER_PIXEL_MA, pixelCurrentA, pixelCurrentBasis, pixelCurrentTrace, type PixelCurrentBasis } from './strip.js';
 import { round, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
 
@@ -23,7 +23,7 @@ const DEFAULT_REFERENCES: Record<keyof typeof PIXEL_DEFAULTS, string> = {
   bitsPerPixel: '24 bits per RGB pixel — WS2812B datasheet',
   resetUs: 'reset ≥ 280 µs on newer parts — WS2812B and WS2812B-2020 datasheets',
   clockHz: '1 MHz clock, a conservative rate for two-wire parts (common practice, no published source)',
-  currentPerPixelMa: '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory)',
+  currentPerPixelMa: '60 mA per 5 V RGB pixel at full white (common practice, from memory)',
   supplyVoltageV: '5 V pixel strip (common practice, no published source)',
   brightnessPercent: 'no brightness cap',
 };
@@ -42,8 +42,10 @@ export function pixelData(input: PixelsInput): PixelsResult {
   const bitsPerPixel = input.bitsPerPixel ?? PIXEL_DEFAULTS.bitsPerPixel;
   const resetUs = input.resetUs ?? PIXEL_DEFAULTS.resetUs;
   const clockHz = input.clockHz ?? PIXEL_DEFAULTS.clockHz;
-  const currentPerPixelMa = input.currentPerPixelMa ?? PIXEL_DEFAULTS.currentPerPixelMa;
   const supplyVoltageV = input.supplyVoltageV ?? PIXEL_DEFAULTS.supplyVoltageV;
+  // 60 mA for a 5 V RGB pixel as documented; 80 mA RGBW; per segment above 5 V (no density here).
+  const current = pixelCurrentBasis({ currentPerPixelMa: input.currentPerPixelMa, voltageV: supplyVoltageV, bitsPerPixel: input.bitsPerPixel, protocol: input.protocol });
+  const currentPerPixelMa = current.currentPerPixelMa;
   const brightnessPercent = input.brightnessPercent ?? PIXEL_DEFAULTS.brightnessPercent;
 
   const outputsNeeded = input.maxPixelsPerOutput ? Math.ceil(input.pixels / input.maxPixelsPerOutput) : 1;
@@ -55,13 +57,15 @@ export function pixelData(input: PixelsInput): PixelsResult {
   const trace: TraceEntry[] = [];
   if (input.protocol === 'clocked') {
     bitsPerFrame = clockedFrameBits(pixelsPerOutput);
-    frameTimeUs = (bitsPerFrame / clockHz) * 1e6;
+    // The end frame latches; parts that latch on a pause instead get resetUs added (none by default).
+    const latchUs = input.resetUs ?? 0;
+    frameTimeUs = (bitsPerFrame / clockHz) * 1e6 + latchUs;
     trace.push({
       quantity: 'frameTimeUs',
       value: round(frameTimeUs, 3),
       unit: 'µs',
-      formula: '(32 + 32 × pixels + max(32, ⌈pixels / 16⌉ × 8)) / clockHz',
-      inputs: { pixels: pixelsPerOutput, clockHz, bitsPerFrame },
+      formula: '(32 + 32 × pixels + max(32, ⌈pixels / 16⌉ × 8)) / clockHz + latch pause (resetUs, 0 by default)',
+      inputs: { pixels: pixelsPerOutput, clockHz, bitsPerFrame, latchUs },
       reference: 'APA102C datasheet; "Understanding the APA102 superled", cpldcpu 2014',
     });
   } else {
@@ -80,9 +84,13 @@ export function pixelData(input: PixelsInput): PixelsResult {
           : 'WS2812B datasheet: 1.25 µs per bit at 800 kbit/s; reset as given or 280 µs',
     });
   }
-  const maxRefreshHz = 1e6 / frameTimeUs;
+  // An empty run with no latch time (estimates only: the calculation needs a pixel) sends nothing.
+  const rate = 1e6 / frameTimeUs;
+  const maxRefreshHz = Number.isFinite(rate) ? rate : 0;
   const fullWhiteCurrentA = pixelCurrentA(input.pixels, currentPerPixelMa, brightnessPercent);
   const powerW = fullWhiteCurrentA * supplyVoltageV;
+  // The load with no cap: what the supply sees if the cap is not enforced.
+  const uncappedCurrentA = pixelCurrentA(input.pixels, currentPerPixelMa, 100);
 
   trace.push(
     {
@@ -101,7 +109,7 @@ export function pixelData(input: PixelsInput): PixelsResult {
       inputs: { pixels: input.pixels, maxPixelsPerOutput: input.maxPixelsPerOutput ?? null, pixelsPerOutput },
       reference: 'controller profile',
     },
-    pixelCurrentTrace(input.pixels, input.currentPerPixelMa, input.brightnessPercent),
+    pixelCurrentTrace(input.pixels, input.currentPerPixelMa, input.brightnessPercent, 'fullWhiteCurrentA', current),
     {
       quantity: 'powerW',
       value: round(powerW),
@@ -114,11 +122,11 @@ export function pixelData(input: PixelsInput): PixelsResult {
   for (const key of usedDefaults(input)) {
     trace.push({
       quantity: `default ${key}`,
-      value: PIXEL_DEFAULTS[key],
+      value: key === 'currentPerPixelMa' ? currentPerPixelMa : PIXEL_DEFAULTS[key],
       unit: '',
       formula: 'not given; default used',
       inputs: {},
-      reference: DEFAULT_REFERENCES[key],
+      reference: key === 'currentPerPixelMa' ? current.reference : DEFAULT_REFERENCES[key],
     });
   }
 
@@ -130,7 +138,10 @@ export function pixelData(input: PixelsInput): PixelsResult {
     pixelsPerOutput,
     fullWhiteCurrentA: round(fullWhiteCurrentA),
     powerW: round(powerW),
-    warnings: pixelWarnings(input, maxRefreshHz, fullWhiteCurrentA),
+    currentPerPixelMa: round(currentPerPixelMa, 4),
+    uncappedCurrentA: round(uncappedCurrentA),
+    uncappedPowerW: round(uncappedCurrentA * supplyVoltageV),
+    warnings: pixelWarnings(input, maxRefreshHz, fullWhiteCurrentA, current, uncappedCurrentA * supplyVoltageV),
     engineVersion: ENGINE_VERSION,
     trace,
   };
@@ -144,7 +155,7 @@ function usedDefaults(input: PixelsInput): (keyof typeof PIXEL_DEFAULTS)[] {
   return relevant.filter((key) => input[key] === undefined);
 }
 
-function pixelWarnings(input: PixelsInput, refreshHz: number, currentA: number): Warning[] {
+function pixelWarnings(input: PixelsInput, refreshHz: number, currentA: number, current: PixelCurrentBasis, uncappedPowerW: number): Warning[] {
   const warnings: Warning[] = [];
   if (refreshHz < SMOOTH_REFRESH_HZ) {
     warnings.push({
@@ -158,15 +169,22 @@ function pixelWarnings(input: PixelsInput, refreshHz: number, currentA: number):
       message: `The run draws ${round(currentA, 2)} A at full white; feed it at several points, fuse each branch, or cap the brightness.`,
     });
   }
-  if (input.currentPerPixelMa === undefined && ((input.supplyVoltageV ?? 5) !== 5 || input.bitsPerPixel === 32)) {
+  if (current.defaulted) {
     warnings.push({
       code: 'current_per_pixel_assumed',
-      message: 'The 60 mA default is for a 5 V RGB pixel; give currentPerPixelMa from the strip datasheet.',
+      message: `No currentPerPixelMa given: ${round(current.currentPerPixelMa, 2)} mA assumed (${current.reference}); give it from the strip datasheet.`,
+    });
+  }
+  const brightness = input.brightnessPercent ?? 100;
+  if (brightness < 100) {
+    warnings.push({
+      code: 'brightness_cap_enforced',
+      message: `Sized for the ${brightness} % brightness cap; at full white the run draws ${round(uncappedPowerW, 2)} W. Enforce the cap in the controller and use an overload-protected supply, or size for full white.`,
     });
   }
   const ignored =
     input.protocol === 'clocked'
-      ? (['bitsPerPixel', 'resetUs'] as const).filter((k) => input[k] !== undefined)
+      ? (['bitsPerPixel'] as const).filter((k) => input[k] !== undefined)
       : (['clockHz'] as const).filter((k) => input[k] !== undefined);
   if (ignored.length > 0) {
     warnings.push({ code: 'field_ignored', message: `${ignored.join(', ')} do not apply to ${input.protocol} and were ignored.` });
@@ -233,14 +251,21 @@ export interface InjectionInput {
   /** Current of the whole strip, spread evenly along it; needed with the trace resistance. */
   currentA?: number;
   maxDropPercent?: number;
+  /** Most current one feed point may push into the strip copper, A; needs currentA. */
+  maxFeedCurrentA?: number | undefined;
 }
+
+/** Current one feed point may push into the strip copper when the datasheet gives none (common practice, from memory). */
+export const DEFAULT_MAX_FEED_CURRENT_A = 5;
 
 export interface InjectionPlan {
   /** Extra feed points besides the first. */
   injectionPoints: number;
   segmentLengthM: number;
   maxFeedLengthM: number;
-  maxFeedLengthSource: 'given' | 'default' | 'voltage-drop';
+  maxFeedLengthSource: 'given' | 'default' | 'voltage-drop' | 'current';
+  /** Current each segment draws from its feed point (spread evenly), A; null without a current. */
+  feedCurrentA: number | null;
   /** Drop along one segment fed from one end; null without a trace resistance and current. */
   dropV: number | null;
   dropPercent: number | null;
@@ -270,6 +295,15 @@ export function injectionPoints(input: InjectionInput): InjectionPlan {
   } else if (rPerM !== undefined) {
     warnings.push({ code: 'current_missing', message: 'A trace resistance needs the strip current; the feed length default was used.' });
   }
+  // Density and current set the spacing too: a feed point pushes its whole segment's current
+  // through the strip copper next to it, so a segment is no longer than maxFeedCurrentA / (A per m).
+  if (input.maxFeedCurrentA !== undefined && currentPerM !== undefined && currentPerM > 0) {
+    const byCurrent = input.maxFeedCurrentA / currentPerM;
+    if (byCurrent < maxFeedLengthM) {
+      maxFeedLengthM = byCurrent;
+      source = 'current';
+    }
+  }
   if (source === 'default') {
     warnings.push({
       code: 'feed_length_assumed',
@@ -285,6 +319,7 @@ export function injectionPoints(input: InjectionInput): InjectionPlan {
     segmentLengthM,
     maxFeedLengthM,
     maxFeedLengthSource: source,
+    feedCurrentA: currentPerM === undefined ? null : currentPerM * segmentLengthM,
     dropV,
     dropPercent: dropV === null ? null : (dropV / input.voltageV) * 100,
     warnings,
@@ -298,9 +333,17 @@ export function injectionTrace(input: InjectionInput, plan: InjectionPlan): Trac
       value: plan.injectionPoints,
       unit: 'points',
       formula: 'ceil(lengthM / maxFeedLengthM) − 1',
-      inputs: { lengthM: input.lengthM, maxFeedLengthM: Number.isFinite(plan.maxFeedLengthM) ? round(plan.maxFeedLengthM) : 'unlimited', source: plan.maxFeedLengthSource },
+      inputs: {
+        lengthM: input.lengthM,
+        maxFeedLengthM: Number.isFinite(plan.maxFeedLengthM) ? round(plan.maxFeedLengthM) : 'unlimited',
+        source: plan.maxFeedLengthSource,
+        maxFeedCurrentA: input.maxFeedCurrentA ?? null,
+        feedCurrentA: plan.feedCurrentA === null ? null : round(plan.feedCurrentA),
+      },
       reference:
-        plan.maxFeedLengthSource === 'default'
+        plan.maxFeedLengthSource === 'current'
+          ? 'segment ≤ maxFeedCurrentA / (current per metre): each feed point pushes its segment’s current through the strip copper (5 A default: common practice, from memory)'
+          : plan.maxFeedLengthSource === 'default'
           ? 'about 2.5 m for 5 V pixel strip, 5 m for 12 V / 24 V strip (common practice, from memory)'
           : plan.maxFeedLengthSource === 'given'
             ? 'strip datasheet, as given'

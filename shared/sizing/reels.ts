@@ -26,7 +26,7 @@ export interface ReelPlan {
   provenOptimal: boolean;
   method: ReelMethod;
   usableReelLengthMm: number;
-  /** Pieces lengthened to whole cut pitches. */
+  /** Pieces shortened to whole cut pitches. */
   roundedPieces: number;
   /** Pieces longer than a reel: they need a joint and are left out of the plan. */
   unplaceableIndexes: number[];
@@ -36,11 +36,15 @@ export interface ReelPlan {
 const UM_PER_MM = 1000;
 const toUm = (mm: number) => Math.round(mm * UM_PER_MM);
 
-/** A piece can only be cut at a mark, so it is lengthened to whole pitches to give at least the length asked. */
+/**
+ * A piece can only be cut at a mark, and it must fit the space measured for it, so it is
+ * shortened to the whole pitches that fit (rounding up would cut a piece longer than its space).
+ * 0 when not even one pitch fits.
+ */
 export function cutLengthMm(pieceMm: number, cutPitchMm?: number): number {
   if (cutPitchMm === undefined) return toUm(pieceMm) / UM_PER_MM;
   const pitchUm = toUm(cutPitchMm);
-  return (Math.ceil(toUm(pieceMm) / pitchUm) * pitchUm) / UM_PER_MM;
+  return (Math.floor(toUm(pieceMm) / pitchUm) * pitchUm) / UM_PER_MM;
 }
 
 /** Pieces cut from the reel's start at whole pitches cannot use a tail shorter than one pitch. */
@@ -246,8 +250,8 @@ export function planReels(input: ReelsInput): ReelsResult {
   const warnings: Warning[] = [];
   if (result.roundedPieces > 0) {
     warnings.push({
-      code: 'pieces_rounded_up',
-      message: `${result.roundedPieces} piece(s) lengthened to whole ${input.cutPitchMm} mm cut pitches.`,
+      code: 'pieces_rounded_down',
+      message: `${result.roundedPieces} piece(s) shortened to the whole ${input.cutPitchMm} mm cut pitches that fit the length measured.`,
     });
   }
   if (result.unplaceableIndexes.length > 0) {
@@ -311,7 +315,7 @@ export function reelsTrace(input: ReelsInput, result: ReelPlan): TraceEntry[] {
       reference:
         input.cutPitchMm === undefined
           ? 'arithmetic'
-          : 'pieces lengthened to whole cut pitches; the reel tail shorter than a pitch counts as waste',
+          : 'pieces shortened to the whole cut pitches that fit their space; the reel tail shorter than a pitch counts as waste',
     },
   ];
 }

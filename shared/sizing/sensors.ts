@@ -100,19 +100,26 @@ export function sensorPlan(input: SensorPlanInput): SensorPlan {
   };
 }
 
-/** One sensor at the foot and one at the head of every flight, plus joined landings (common practice). */
+/**
+ * One sensor at the foot and one at the head of the whole stair — an L or U stair with a plain
+ * landing still has two — and one on each landing where people enter or leave (team handbook,
+ * "Rules of thumb"; common practice, no published source). Landings are listed after the head.
+ */
 function stairPlacements(flights: SensorFlight[]): SensorPlacement[] {
-  const placements: SensorPlacement[] = [];
-  let firstTread = 1;
+  if (flights.length === 0) return [];
+  const treads = flights.reduce((sum, f) => sum + f.treads, 0);
+  const placements: SensorPlacement[] = [
+    { role: 'foot', flight: 1, tread: 1 },
+    { role: 'head', flight: flights.length, tread: treads },
+  ];
   flights.forEach((flight, i) => {
-    const lastTread = firstTread + flight.treads - 1;
-    placements.push({ role: 'foot', flight: i + 1, tread: firstTread });
-    placements.push({ role: 'head', flight: i + 1, tread: lastTread });
     if (flight.joinedLandingAbove && i < flights.length - 1) placements.push({ role: 'landing', flight: i + 1, tread: null });
-    firstTread = lastTread + 1;
   });
   return placements;
 }
+
+/** Most sensors one controller reads when the profile does not say: foot and head (common practice, from memory). */
+export const DEFAULT_SENSOR_INPUTS = 2;
 
 function corridorPlacements(sideEntrances: number): SensorPlacement[] {
   const end: SensorPlacement = { role: 'corridor-end', flight: null, tread: null };
@@ -127,11 +134,11 @@ export function sensorTrace(input: SensorPlanInput, plan: SensorPlan): TraceEntr
       quantity: 'motionSensors',
       value: plan.motionSensors,
       unit: 'sensors',
-      formula: input.corridor ? '2 corridor ends + side entrances' : '2 × flights + landings where people join',
+      formula: input.corridor ? '2 corridor ends + side entrances' : '2 (foot and head of the whole stair) + landings where people enter',
       inputs: input.corridor
         ? { sideEntrances: input.corridor.sideEntrances ?? 0 }
         : { flights: input.flights?.length ?? 0, joinedLandings: joined },
-      reference: 'one sensor at the foot and one at the head of every flight (common practice, no published source)',
+      reference: 'one sensor at the foot and one at the head of the whole stair, one per landing where people enter (common practice, no published source)',
     },
     {
       quantity: 'sensorCurrentLimitMa',

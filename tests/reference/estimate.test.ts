@@ -187,12 +187,13 @@ describe('Harbor Lane checkout: the Alder Row stair priced from the shop catalog
 describe('Alder Row corner unit: 7 + 8 treads turning at a 900 mm landing', () => {
   const result = run(alderRowCornerUnit);
 
-  it('needs a sensor at the foot and head of both flights', () => {
-    // common practice, no published source: 2 per flight × 2 flights
-    expect(result.sensors.motionSensors).toBe(4);
-    // a landing where people join gets its own (common practice, no published source)
+  it('needs a sensor at the foot and head of the whole stair, and one on an entered landing', () => {
+    // team handbook, rules of thumb (common practice, no published source): an L stair with a plain
+    // landing still has two sensors (issue 8: the old rule of two per flight gave 4)
+    expect(result.sensors.motionSensors).toBe(2);
+    // a landing where people join gets its own (common practice, no published source): 3
     const joined = run({ ...alderRowCornerUnit, sensors: { ...alderRowCornerUnit.sensors, joinedLandings: [1] } });
-    expect(joined.sensors.motionSensors).toBe(5);
+    expect(joined.sensors.motionSensors).toBe(3);
   });
 
   it('loads 127.5 W on one 200 W driver', () => {
@@ -432,7 +433,7 @@ describe('designs that break a limit still get a full answer', () => {
 
   it('an NPN sensor on a PNP input fails and asks for an interface', () => {
     const result = run({ ...alderRowTownhouse, sensors: { motion: { outputType: 'npn', supplyV: 5, currentMa: 8 } } });
-    // IEC 60947-5-2 three-wire DC outputs: NPN sinks, PNP sources — they do not interchange
+    // three-wire DC sensor outputs (IEC 60947-5-2): NPN sinks, PNP sources — they do not interchange
     expect(check(result, 'sensor-type')?.status).toBe('fail');
     expect(check(result, 'sensor-type')?.suggestion).toMatch(/NPN-to-PNP interface for each of the 2 sensors/);
   });

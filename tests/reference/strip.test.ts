@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cvLoad, fitStrip, pixelCurrentA, pixelPiece } from '../../shared/sizing/strip.js';
+import { cvLoad, fitPixelStrip, fitStrip, pixelCurrentA, pixelPiece } from '../../shared/sizing/strip.js';
 
 describe('strip on a tread', () => {
   it('fits 850 mm on a 900 mm tread with a 50 mm pitch', () => {
@@ -24,6 +24,19 @@ describe('strip on a tread', () => {
     expect(piece.lengthMm).toBeCloseTo(850, 6);
   });
 
+  it('fits 28 pixels of 30 pixels/m strip on a 1000 mm tread (issue 8, item 7)', () => {
+    // hand arithmetic: 1000 − 2 × 20 = 960 mm; 960 × 30 / 1000 = 28.8 → 28 pixels = 28 × 33.33… = 933.33 mm
+    // (the old float rounding cut 933.333333 mm back to 27 pixels)
+    const { fit, piece } = fitPixelStrip(1000, 30);
+    expect(piece.pixels).toBe(28);
+    expect(fit.stripLengthMm).toBeCloseTo(933.333, 3);
+    // hand arithmetic: 144 pixels/m on 900 mm: 860 × 144 / 1000 = 123.84 → 123 pixels
+    expect(fitPixelStrip(900, 144).piece.pixels).toBe(123);
+    // hand arithmetic: a 33.3 mm cut pitch at 30 pixels/m holds one pixel (0.999 rounds to the pixel it cuts around);
+    // 960 / 33.3 = 28.8 → 28 pitches, 28 pixels
+    expect(fitPixelStrip(1000, 30, 33.3).piece.pixels).toBe(28);
+  });
+
   it('counts pixels per cut pitch', () => {
     // hand arithmetic: 20 pixels/m cut every 50 mm (one pixel per cut) on 850 mm → 17 pixels
     expect(pixelPiece(850, 20, 50).pixels).toBe(17);
@@ -41,7 +54,7 @@ describe('loads', () => {
   });
 
   it('14.4 W/m is 20 segments × 0.06 A at 12 V', () => {
-    // 5050 60 LED/m at 12 V (common practice, from memory), 20 segments/m × 0.06 A = 1.2 A/m
+    // team handbook (common practice, from memory): 5050 60 LED/m at 12 V, 20 segments/m × 0.06 A = 1.2 A/m
     expect(cvLoad(1000, 14.4, 12).currentA).toBeCloseTo(20 * 0.06, 9);
   });
 

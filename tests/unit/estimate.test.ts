@@ -28,6 +28,8 @@ const staircase = fc.integer({ min: 1, max: 200 }).chain((treads) =>
       riserHeightMm: dbl(50, 400),
       goingMm: dbl(50, 1000),
       flights: flightsOf(treads),
+      treadWidthsMm: fc.array(dbl(100, 5000), { minLength: treads, maxLength: treads }),
+      litLandings: fc.uniqueArray(fc.integer({ min: 1, max: 3 }), { maxLength: 3 }),
     },
     { requiredKeys: ['treads', 'treadWidthMm', 'riserHeightMm', 'goingMm'] },
   ),
@@ -44,6 +46,9 @@ const profile = fc
       maxTreads: fc.integer({ min: 10, max: 512 }),
       maxInputCurrentA: dbl(0.5, 100),
       sensorInput: fc.record({ type: fc.constantFrom('pnp', 'npn'), supplyV: dbl(1, 24), maxCurrentMa: dbl(1, 100) }),
+      dataLogicV: fc.constantFrom(3.3, 5),
+      maxDataLeadM: dbl(0.1, 1000),
+      sensorInputs: fc.integer({ min: 0, max: 64 }),
     },
     { requiredKeys: ['outputs', 'maxCurrentPerOutputA'] },
   );
@@ -57,6 +62,12 @@ const pixelFields = {
   currentPerPixelMa: dbl(0, 1000),
   brightnessPercent: dbl(1, 100),
   maxFeedLengthM: dbl(0.1, 100),
+  powerWPerM: dbl(0.01, 200),
+  sizeForFullWhite: fc.boolean(),
+  clockHz: dbl(1_000, 50_000_000),
+  resetUs: dbl(0, 10_000),
+  maxDataLinkM: dbl(0.1, 100),
+  maxFeedCurrentA: dbl(0.1, 100),
 };
 const optionalPixel = ['pixelsPerM', 'voltageV', 'protocol'] as const;
 
@@ -64,7 +75,7 @@ const treadStrip = fc.record(
   { voltageV: dbl(1, 400), powerWPerM: dbl(0.01, 200), cutPitchMm: dbl(1, 1000), endClearanceMm: dbl(0, 500), sku: fc.constantFrom('HL-S24-10', 'NOT-STOCKED') },
   { requiredKeys: ['voltageV', 'powerWPerM', 'cutPitchMm'] },
 );
-const railPixels = fc.record({ lengthM: dbl(0.1, 500), ...pixelFields }, { requiredKeys: ['lengthM', ...optionalPixel] });
+const railPixels = fc.record({ lengthM: dbl(0.1, 500), dataLeadM: dbl(0, 100), ...pixelFields }, { requiredKeys: ['lengthM', ...optionalPixel] });
 const treadPixels = fc.record(
   { ...pixelFields, cutPitchMm: dbl(1, 1000), endClearanceMm: dbl(0, 500) },
   { requiredKeys: [...optionalPixel] },
@@ -215,12 +226,15 @@ describe('estimate: any request in the schema’s range', () => {
           const result = estimateOrDocumentedError(input as EstimateInput);
           if (!result) return;
           // Rows are rounded to 4 decimals each: allow half a unit per row.
-          const rowsW = result.treads.reduce((sum, t) => sum + t.powerW, 0);
+          // Lit landings (issue 8) are loads of the tread rail too, with rows of their own.
+          const landingRows = result.landings ?? [];
+          const rowsW = result.treads.reduce((sum, t) => sum + t.powerW, 0) + landingRows.reduce((sum, l) => sum + l.powerW, 0);
           const treadLoadW = result.pixels.treads?.powerW ?? rowsW;
-          expect(Math.abs(rowsW - treadLoadW)).toBeLessThanOrEqual(5e-5 * result.treads.length + 1e-6 * treadLoadW + 1e-9);
+          const rowCount = result.treads.length + landingRows.length;
+          expect(Math.abs(rowsW - treadLoadW)).toBeLessThanOrEqual(5e-5 * rowCount + 1e-6 * treadLoadW + 1e-9);
           const railW = result.pixels.rail?.powerW ?? 0;
           const totalW = result.drivers.reduce((sum, r) => sum + r.loadW, 0);
-          expect(Math.abs(totalW - (treadLoadW + railW))).toBeLessThanOrEqual(5e-5 * (result.treads.length + 2) + 1e-6 * totalW);
+          expect(Math.abs(totalW - (treadLoadW + railW))).toBeLessThanOrEqual(5e-5 * (rowCount + 2) + 1e-6 * totalW);
           const maxLoading = input?.drivers?.maxLoadingPercent ?? 80;
           for (const rail of result.drivers) {
             // One supply per circuit (domain.md "Driver"): the sum only covers the rail when every circuit has its driver.

@@ -104,11 +104,19 @@ describe('reel plan', () => {
     expect(cutReels(list, REEL).reels).toBe(2);
   });
 
-  it('lengthens pieces to whole cut pitches', () => {
+  it('shortens pieces to the whole cut pitches that fit their measured length (issue 8, item 12)', () => {
     const result = planReels(reelsRequestSchema.parse({ piecesMm: [860, 850], cutPitchMm: 50 }));
-    // hand arithmetic: 860 mm → 18 pitches of 50 mm = 900 mm; 850 stays
-    expect(result.plan[0]?.piecesMm).toEqual([900, 850]);
-    expect(result.warnings.map((w) => w.code)).toContain('pieces_rounded_up');
+    // domain rule "rounded down to a whole number of cut pitches": 860 mm → 17 × 50 = 850 mm
+    // (it was rounded up to 900 mm, 40 mm past the space measured); 850 stays
+    expect(result.plan[0]?.piecesMm).toEqual([850, 850]);
+    expect(result.plan.flatMap((r) => r.piecesMm).every((p, i) => p <= [860, 850][i]!)).toBe(true);
+    expect(result.warnings.map((w) => w.code)).toContain('pieces_rounded_down');
+  });
+
+  it('a piece shorter than one cut pitch is a 400 at its own path', () => {
+    const parsed = reelsRequestSchema.safeParse({ piecesMm: [850, 40], cutPitchMm: 50 });
+    // arithmetic: 40 mm < one 50 mm pitch → no whole pitch fits
+    expect(parsed.error?.issues.map((i) => i.path.join('.'))).toEqual(['piecesMm.1']);
   });
 
   it('rejects a piece longer than a reel at its own path', () => {
@@ -116,10 +124,11 @@ describe('reel plan', () => {
     expect(parsed.success).toBe(false);
     // default reel 5 000 mm (domain default) < 5 200 mm
     expect(parsed.error?.issues.map((i) => i.path.join('.'))).toEqual(['piecesMm.1']);
-    // 4 990 mm rounds up to 5 000 mm at a 50 mm pitch: still fits a 5 000 mm reel (arithmetic)
+    // 4 990 mm is cut at 4 950 mm at a 50 mm pitch: fits a 5 000 mm reel (arithmetic)
     expect(reelsRequestSchema.safeParse({ piecesMm: [4990], cutPitchMm: 50 }).success).toBe(true);
-    // arithmetic: at a 300 mm pitch 4 990 mm becomes 17 × 300 = 5 100 mm; the reel gives 16 × 300 = 4 800 mm
-    expect(reelsRequestSchema.safeParse({ piecesMm: [4990], cutPitchMm: 300 }).success).toBe(false);
+    // arithmetic: at a 300 mm pitch 4 990 mm is cut at 16 × 300 = 4 800 mm, which the reel's 16 × 300 = 4 800 mm holds
+    // (rounding up gave 5 100 mm and a 400; issue 8 stopped pieces growing past their space)
+    expect(reelsRequestSchema.safeParse({ piecesMm: [4990], cutPitchMm: 300 }).success).toBe(true);
   });
 
   it('no request the schema accepts throws, and every response matches its schema', () => {

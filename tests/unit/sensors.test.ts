@@ -19,14 +19,26 @@ describe('sensor plan', () => {
     expect(plan.needsInterface).toBe(false);
   });
 
-  it('counts two per flight plus every joined landing', () => {
+  it('counts two for the whole stair plus every landing where people enter', () => {
     fc.assert(
       fc.property(fc.array(fc.record({ treads: fc.integer({ min: 1, max: 20 }), joinedLandingAbove: fc.boolean() }), { minLength: 1, maxLength: 5 }), (flights) => {
         const joined = flights.slice(0, -1).filter((f) => f.joinedLandingAbove).length;
-        // common practice, no published source: 2 per flight + 1 per landing where people join
-        expect(sensorPlan({ flights }).motionSensors).toBe(2 * flights.length + joined);
+        // team handbook, rules of thumb (common practice, no published source): foot and head of the
+        // whole stair — an L or U stair with a plain landing still has two — + 1 per entered landing.
+        // (Issue 8 changed this from two per flight.)
+        const plan = sensorPlan({ flights });
+        expect(plan.motionSensors).toBe(2 + joined);
+        expect(plan.placements.filter((p) => p.role === 'foot' || p.role === 'head')).toHaveLength(2);
       }),
     );
+  });
+
+  it('a U stair of three flights: foot of flight 1, head of flight 3', () => {
+    // common practice, no published source: one sensor at the foot and one at the head of the whole stair
+    expect(sensorPlan({ flights: [{ treads: 5 }, { treads: 4 }, { treads: 6 }] }).placements).toEqual([
+      { role: 'foot', flight: 1, tread: 1 },
+      { role: 'head', flight: 3, tread: 15 },
+    ]);
   });
 
   it('an NPN sensor on a PNP input needs an interface', () => {

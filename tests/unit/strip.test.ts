@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { cvLoad, fitStrip, pixelCurrentA, pixelPiece } from '../../shared/sizing/strip.js';
+import { cvLoad, fitPixelStrip, fitStrip, pixelCurrentA, pixelPiece } from '../../shared/sizing/strip.js';
 
 const lengthsMm = fc.array(fc.double({ min: 1, max: 5000, noNaN: true }), { minLength: 1, maxLength: 40 });
 
@@ -51,6 +51,48 @@ describe('strip fit', () => {
         expect(piece.lengthMm).toBeLessThanOrEqual(length + 1e-6);
         expect(piece.pixels).toBeLessThanOrEqual((perM * length) / 1000 + 1e-6);
         expect((perM * length) / 1000 - piece.pixels).toBeLessThan(1 + 1e-6);
+      }),
+    );
+  });
+
+  // Common pixel densities (pixels/m) of one-wire strip (common practice, no published source).
+  const densities = fc.constantFrom(20, 30, 32, 48, 60, 72, 74, 96, 144);
+
+  it('pixel fit: the pixels fit the space and no whole extra pixel pitch would (exact integer check)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 100, max: 5000 }), densities, fc.integer({ min: 0, max: 40 }), (width, perM, clearance) => {
+        const { fit, piece } = fitPixelStrip(width, perM, undefined, clearance);
+        const spaceMm = width - 2 * clearance;
+        // arithmetic on whole numbers (mm × pixels/m): n pixels take n × 1000 / perM mm, so
+        // n fit when n × 1000 ≤ space × perM, and n + 1 do not when (n + 1) × 1000 > space × perM
+        expect(piece.pixels * 1000).toBeLessThanOrEqual(spaceMm * perM);
+        expect((piece.pixels + 1) * 1000).toBeGreaterThan(spaceMm * perM);
+        expect(fit.fits).toBe(piece.pixels >= 1);
+        expect(piece.lengthMm).toBeCloseTo((piece.pixels * 1000) / perM, 5);
+      }),
+    );
+  });
+
+  it('pixel pieces: no whole extra pixel would still fit the length', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 20_000 }), densities, (lengthMm, perM) => {
+        const piece = pixelPiece(lengthMm, perM);
+        // same whole-number criterion as above, on a rail or piece length
+        expect(piece.pixels * 1000).toBeLessThanOrEqual(lengthMm * perM);
+        expect((piece.pixels + 1) * 1000).toBeGreaterThan(lengthMm * perM);
+      }),
+    );
+  });
+
+  it('CV fit: no whole extra cut pitch would still fit (pitches given to the micrometre)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 100_000, max: 3_000_000 }), fc.integer({ min: 1_000, max: 200_000 }), fc.integer({ min: 0, max: 40_000 }), (widthUm, pitchUm, clearanceUm) => {
+        const fit = fitStrip(widthUm / 1000, pitchUm / 1000, clearanceUm / 1000);
+        const spaceUm = widthUm - 2 * clearanceUm;
+        // domain rule (round down to whole pitches), checked on whole micrometres
+        expect(fit.pitches * pitchUm).toBeLessThanOrEqual(Math.max(0, spaceUm));
+        expect((fit.pitches + 1) * pitchUm).toBeGreaterThan(spaceUm);
+        expect(Math.round(fit.stripLengthMm * 1000)).toBe(fit.pitches * pitchUm);
       }),
     );
   });

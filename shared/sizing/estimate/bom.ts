@@ -48,6 +48,16 @@ export interface BomInput {
   controllers: number;
   sensors: SensorPart;
   cables: EstimateCableLine[];
+  /** Parts the pixel data lines and sensors add (differential links, level shifters, sensor cable); none by default. */
+  extraLines?: ExtraBomLine[];
+}
+
+/** A line that is not matched against the catalog (its kinds hold no such part). */
+export interface ExtraBomLine {
+  category: BomLine['category'];
+  description: string;
+  quantity: number;
+  unit: BomLine['unit'];
 }
 
 export interface Bom {
@@ -213,6 +223,7 @@ function drafts(input: BomInput): LineDraft[] {
     });
   }
   out.push(...cableDrafts(input.cables, catalog));
+  for (const extra of input.extraLines ?? []) if (extra.quantity > 0) out.push({ ...extra });
   return out;
 }
 

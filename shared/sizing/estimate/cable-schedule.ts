@@ -19,6 +19,8 @@ export interface CableUse {
   powered: boolean;
   /** Tread the run ends at (tread leads, chain leads), or the first of a feed group. */
   tread: number | null;
+  /** Lit landing a tread lead runs to instead of a tread (issue 8). */
+  landing?: number;
   lastTread: number | null;
   /** Feeder target, for messages. */
   feederTo: 'controller' | 'pixel feed point' | null;
@@ -33,7 +35,7 @@ export interface CableUse {
 export function describeUse(use: CableUse): string {
   switch (use.use) {
     case 'tread leads':
-      return `the lead to tread ${use.tread}`;
+      return use.landing !== undefined ? `the lead to landing ${use.landing}` : `the lead to tread ${use.tread}`;
     case 'chain leads':
       return `the data lead to tread ${use.tread}`;
     case 'data links':
@@ -94,6 +96,11 @@ export function cableUsesOf(
       // A tread where no strip fits gets no lead: nothing is ordered for it.
       if (run.currentA <= 0) return;
       uses.push({ use: 'tread leads', cores: 2, run, laidLengthM: run.lengthM, powered: true, tread: k + 1, lastTread: null, feederTo: null, controller: null, count: 1 });
+    });
+    // Lit landings (issue 8): a lead each, like a tread's.
+    treadStrips.landingLeads.forEach((run, j) => {
+      const landing = treadStrips.landingRows[j]?.landing as number;
+      uses.push({ use: 'tread leads', cores: 2, run, laidLengthM: run.lengthM, powered: true, tread: null, landing, lastTread: null, feederTo: null, controller: null, count: 1 });
     });
   }
   if (treadPixels) {

@@ -3,16 +3,17 @@ import { describeSize } from '../conductors.js';
 import type { StairGeometry } from '../geometry.js';
 import { round, type TraceEntry } from '../trace.js';
 import { ENGINE_VERSION } from '../version.js';
-import { buildBom } from './bom.js';
+import { buildBom, type ExtraBomLine } from './bom.js';
 import { isControllerLead } from './cable-checks.js';
 import { cableSchedule, cableUsesOf, describeUse, type CableUse } from './cable-schedule.js';
 import { indexCatalog } from './catalog.js';
 import { cautionsFor } from './cautions.js';
+import { dataLineBomLines } from './data-lines.js';
 import type { Design } from './checks.js';
 import { sizeRailPixels, type RailPart } from './rail-pixels.js';
 import { outputsOf, pixelsOf } from './result-shapes.js';
 import { runChecks } from './run-checks.js';
-import { planSensors } from './sensor-layout.js';
+import { controllerSites, planSensors, sensorCableLine, sensorWiring } from './sensor-layout.js';
 import { standbyOf } from './standby.js';
 import { endClearanceDefault, pixelDefaults, resolveSettings, type Settings } from './settings.js';
 import type { TreadBlock } from './stair.js';
@@ -80,6 +81,7 @@ export function estimate(input: EstimateInput): EstimateResult {
   const supplies = sizeSupplies(loadsOf(treadStrips, rail, treadPixels, settings, stair), settings, catalog, trace);
   applyResizedLeads(treadStrips, supplies.feeders, settings);
   const sensors = planSensors(input, settings, catalog, controllers, trace);
+  sensors.wiring = sensorWiring(sensors, controllerSites(stair, treadStrips, treadPixels, rail), settings, trace);
 
   const { treadReels, railReels, strips } = planReels(treadStrips, treadPixels, rail, settings, catalog, trace);
 
@@ -90,7 +92,11 @@ export function estimate(input: EstimateInput): EstimateResult {
   const checks = runChecks(design);
 
   const litPieces = litPiecesMm(treadStrips, treadPixels);
-  const bom = buildBom({ settings, catalog, strips, profilePiecesMm: litPieces, supplies, controllers, sensors, cables }, trace);
+  // Issue 8 (pixels): parts the data lines need, and the sensor cable from the geometry.
+  const extraLines: ExtraBomLine[] = dataLineBomLines(rail?.dataLines ?? treadPixels?.dataLines);
+  const sensorCable = sensors.wiring ? sensorCableLine(sensors, sensors.wiring, settings) : null;
+  if (sensorCable) extraLines.push(sensorCable);
+  const bom = buildBom({ settings, catalog, strips, profilePiecesMm: litPieces, supplies, controllers, sensors, cables, extraLines }, trace);
 
   let totalLoadW = 0;
   let driverCount = 0;
@@ -162,6 +168,7 @@ export function estimate(input: EstimateInput): EstimateResult {
     standby: standbyOf({ input, controllers, driverCount, sensors, rail, treadPixels, litLoadW: totalLoadW }, trace),
     trace: settings.defaultsUsed.length > 0 ? settings.defaultsUsed.concat(trace) : trace,
   };
+  if (treadStrips && treadStrips.landingRows.length > 0) result.landings = treadStrips.landingRows;
   if (bom.total !== undefined) result.bomTotal = bom.total;
   if (bom.complete !== undefined) result.bomTotalComplete = bom.complete;
   if (bom.currency !== undefined) result.currency = bom.currency;
@@ -198,8 +205,9 @@ function noteBlockDefaults(input: EstimateInput, settings: Settings): void {
 }
 
 function litPiecesMm(treadStrips: TreadStripPart | null, treadPixels: TreadPixelPart | null): number[] {
-  if (treadStrips && treadStrips.litTreads > 0) return new Array(treadStrips.litTreads).fill(treadStrips.fit.stripLengthMm);
-  if (treadPixels && treadPixels.litTreads > 0) return new Array(treadPixels.litTreads).fill(treadPixels.piece.lengthMm);
+  // Each lit tread's own piece (treads may differ in width).
+  if (treadStrips && treadStrips.litTreads > 0) return treadStrips.litPiecesMm;
+  if (treadPixels && treadPixels.litTreads > 0) return treadPixels.litPiecesMm;
   return [];
 }
 

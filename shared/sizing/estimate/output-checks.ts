@@ -21,14 +21,17 @@ export function outputCountCheck(d: Design): EstimateCheck | null {
       `Choose a controller with at least ${needed} CV outputs, one per tread.`,
     );
   }
+  // Lit landings take an output each, in the sequence between their flights.
+  const lit = part.landingRows.length;
+  const what = lit > 0 ? `${needed - lit} treads and ${lit} lit landing${lit === 1 ? '' : 's'}` : `${needed} treads`;
   if (part.allocation.outputCountOk) {
-    return passed('output-count', `${needed} treads use ${needed} of the controller's ${profile.outputs} outputs.`, needed, profile.outputs, 'outputs', PROFILE);
+    return passed('output-count', `${what} use ${needed} of the controller's ${profile.outputs} outputs.`, needed, profile.outputs, 'outputs', PROFILE);
   }
   const blocks = part.allocation.controllers;
   return flagged(
     'output-count',
     'warn',
-    `${needed} treads need ${needed} outputs; one controller has ${profile.outputs}, so ${blocks.length} controllers share the treads (${treadsText(blocks)}).`,
+    `${what} need ${needed} outputs; one controller has ${profile.outputs}, so ${blocks.length} controllers share the treads (${treadsText(blocks)}).`,
     needed,
     profile.outputs,
     'outputs',
@@ -47,7 +50,8 @@ export function outputCurrentCheck(d: Design): EstimateCheck | null {
   if (part.allocation.outputCurrentOk) {
     return passed('output-current', `The busiest output carries ${fmt(currentA, 3)} A of the ${limit} A allowed.`, value, limit, 'A', PROFILE);
   }
-  const { strip, fit } = part;
+  // The tread that draws most (treads may differ in width).
+  const { strip, largestFit: fit } = part;
   const lengthM = fit.stripLengthMm / 1000;
   // Strip power at which one tread's piece stays within the output limit.
   const maxWPerM = Math.floor(((limit * strip.voltageV) / lengthM) * 10) / 10;

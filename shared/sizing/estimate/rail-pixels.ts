@@ -2,9 +2,10 @@ import type { PixelsResult } from '../../schemas/pixels.js';
 import type { ControllerProfile } from '../../schemas/controller.js';
 import type { RailPixelsBlock } from '../../schemas/estimate.js';
 import { blockSizes } from '../outputs.js';
-import { injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
-import { pixelCurrentA, pixelPiece } from '../strip.js';
+import { DEFAULT_MAX_FEED_CURRENT_A, injectionPoints, injectionTrace, pixelData, railGrouping, railGroupingTrace, type InjectionPlan, type RailGrouping } from '../pixels.js';
+import { pixelCurrentA, pixelCurrentBasis, pixelPiece, type PixelCurrentBasis } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
+import { DEFAULT_RAIL_DATA_LEAD_M, dataLines, dataLinesTrace, gap, maxDataLeadM, type DataGap, type DataLines } from './data-lines.js';
 
 export interface DataOutputUse {
   controller: number;
@@ -29,8 +30,18 @@ export interface RailPart {
   dataOutputs: DataOutputUse[];
   currentA: number;
   powerW: number;
+  /** Current of one pixel at full white and how it was found. */
+  current: PixelCurrentBasis;
+  /** Brightness the loads are sized for: the cap, or 100 with sizeForFullWhite. */
+  sizingBrightnessPercent: number;
+  /** Whole run at full white with no cap, A. */
+  uncappedCurrentA: number;
   injection: InjectionPlan;
   feedPoints: number;
+  /** Current limit per feed point used, A (given or the 5 A default). */
+  maxFeedCurrentA: number;
+  /** Data leads from each controller to the start of each of its outputs' stretch of rail. */
+  dataLines: DataLines;
 }
 
 const TIMING_QUANTITIES = new Set(['frameTimeUs', 'maxRefreshHz', 'outputsNeeded']);
@@ -52,17 +63,22 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
   const grouping = treadsInStep === null ? null : railGrouping(treadsInStep, pixelsOnRail);
   const pixels = grouping && grouping.fits ? grouping.pixelsToFit : pixelsOnRail;
 
+  const current = pixelCurrentBasis(rail);
+  // Sized for the cap unless the caller asks for full white (the brightness-cap check says which).
+  const sizingBrightnessPercent = rail.sizeForFullWhite ? 100 : (rail.brightnessPercent ?? 100);
   const data = pixelData({
     pixels,
     protocol: rail.protocol,
     bitsPerPixel: rail.bitsPerPixel,
+    resetUs: rail.resetUs,
+    clockHz: rail.clockHz,
     // pixelData splits N pixels over ceil(N / limit) outputs; with no pixel there is nothing to split.
     maxPixelsPerOutput: pixels > 0 ? profile.maxPixelsPerOutput : undefined,
-    currentPerPixelMa: rail.currentPerPixelMa,
+    currentPerPixelMa: current.currentPerPixelMa,
     supplyVoltageV: rail.voltageV,
-    brightnessPercent: rail.brightnessPercent,
+    brightnessPercent: sizingBrightnessPercent,
   });
-  const currentA = pixelCurrentA(pixels, rail.currentPerPixelMa, rail.brightnessPercent);
+  const currentA = pixelCurrentA(pixels, current.currentPerPixelMa, sizingBrightnessPercent);
   const powerW = currentA * rail.voltageV;
 
   const perController = profile.dataOutputs ?? 0;
@@ -75,7 +91,24 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
     });
   }
 
-  const injectionInput = { lengthM: rail.lengthM, voltageV: rail.voltageV, maxFeedLengthM: rail.maxFeedLengthM, currentA };
+  // A controller sits dataLeadM before the first stretch it drives; each output's lead runs on to
+  // the first pixel of its own stretch (outputs take consecutive stretches of the rail).
+  const gaps: DataGap[] = [];
+  const leadM = rail.dataLeadM ?? DEFAULT_RAIL_DATA_LEAD_M;
+  let startPixel = 0;
+  let controllerStartPixel = 0;
+  // A rail without a pixel has no data line (rail-holds-pixels fails instead).
+  for (const o of pixels > 0 ? dataOutputs : []) {
+    if (o.output === 1) controllerStartPixel = startPixel;
+    gaps.push(gap('lead', 'rail', leadM + (startPixel - controllerStartPixel) / rail.pixelsPerM, maxDataLeadM(profile), { controller: o.controller, output: o.output }));
+    startPixel += o.pixels;
+  }
+  if (dataOutputs.length === 0 && pixels > 0) gaps.push(gap('lead', 'rail', leadM, maxDataLeadM(profile), {}));
+  const lines = dataLines(gaps, rail.protocol, rail.voltageV, profile, dataOutputs.length);
+  trace.push(dataLinesTrace('rail', lines, profile, undefined));
+
+  const maxFeedCurrentA = rail.maxFeedCurrentA ?? DEFAULT_MAX_FEED_CURRENT_A;
+  const injectionInput = { lengthM: rail.lengthM, voltageV: rail.voltageV, maxFeedLengthM: rail.maxFeedLengthM, currentA, maxFeedCurrentA };
   const injection = injectionPoints(injectionInput);
 
   timingTrace('rail', data, trace);
@@ -93,11 +126,14 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
       value: round(powerW),
       unit: 'W',
       formula: 'pixels × currentPerPixelMa / 1000 × brightnessPercent / 100 × voltageV',
-      inputs: { pixels, currentPerPixelMa: rail.currentPerPixelMa ?? 60, brightnessPercent: rail.brightnessPercent ?? 100, voltageV: rail.voltageV },
-      reference:
-        rail.currentPerPixelMa === undefined
-          ? '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory); P = V·I'
-          : 'current per pixel as given; P = V·I',
+      inputs: {
+        pixels,
+        currentPerPixelMa: round(current.currentPerPixelMa, 4),
+        currentPerPixelSource: current.source,
+        brightnessPercent: sizingBrightnessPercent,
+        voltageV: rail.voltageV,
+      },
+      reference: `${current.reference}; P = V·I`,
     },
     ...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `rail.${e.quantity}` })),
   );
@@ -114,7 +150,12 @@ export function sizeRailPixels(rail: RailPixelsBlock, profile: ControllerProfile
     dataOutputs,
     currentA,
     powerW,
+    current,
+    sizingBrightnessPercent,
+    uncappedCurrentA: pixelCurrentA(pixels, current.currentPerPixelMa, 100),
     injection,
     feedPoints: injection.injectionPoints + 1,
+    maxFeedCurrentA,
+    dataLines: lines,
   };
 }

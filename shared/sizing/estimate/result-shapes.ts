@@ -1,4 +1,6 @@
 import type { EstimateOutputs, EstimateResult } from '../../schemas/estimate.js';
+import type { PixelCurrentBasis } from '../strip.js';
+import type { DataLines } from './data-lines.js';
 import { round } from '../trace.js';
 import type { DataOutputUse, RailPart } from './rail-pixels.js';
 import type { Settings } from './settings.js';
@@ -38,6 +40,7 @@ export function outputsOf(
       controller: o.controller,
       output: o.output,
       treads: o.treads,
+      ...(o.landings ? { landings: o.landings } : {}),
       currentA: round(o.currentA),
       withinLimit: o.withinLimit,
     })),
@@ -65,16 +68,19 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           fullWhiteCurrentA: round(rail.currentA),
           powerW: round(rail.powerW),
           brightnessPercent: rail.rail.brightnessPercent ?? 100,
+          ...currentFields(rail.current, rail.uncappedCurrentA, rail.rail.voltageV, rail.sizingBrightnessPercent),
           feedPoints: rail.feedPoints,
           injectionPoints: rail.injection.injectionPoints,
           maxFeedLengthM: round(rail.injection.maxFeedLengthM, 3),
+          maxFeedCurrentA: rail.maxFeedCurrentA,
+          dataGaps: gapsOf(rail.dataLines),
         }
       : null,
     treads: treadPixels
       ? {
           run: 'treads',
           pixels: treadPixels.totalPixels,
-          lengthM: round((treadPixels.litTreads * treadPixels.piece.lengthMm) / 1000, 3),
+          lengthM: round(treadPixels.litPiecesMm.reduce((sum, mm) => sum + mm, 0) / 1000, 3),
           pixelsPerM: treadPixels.block.pixelsPerM,
           voltageV: treadPixels.block.voltageV,
           protocol: treadPixels.block.protocol,
@@ -86,12 +92,30 @@ export function pixelsOf(rail: RailPart | null, treadPixels: TreadPixelPart | nu
           fullWhiteCurrentA: round(treadPixels.totalCurrentA),
           powerW: round(treadPixels.totalLoadW),
           brightnessPercent: treadPixels.block.brightnessPercent ?? 100,
+          ...currentFields(treadPixels.current, treadPixels.uncappedCurrentA, treadPixels.block.voltageV, treadPixels.sizingBrightnessPercent),
           feedPoints: treadPixels.feedGroups.length,
           injectionPoints: treadPixels.feedGroups.length - treadPixels.chains.length,
           maxFeedLengthM: round(treadPixels.injection.maxFeedLengthM, 3),
+          maxFeedCurrentA: treadPixels.maxFeedCurrentA,
           chainCableLengthM: round(treadPixels.chainCableLengthM, 3),
+          dataGaps: gapsOf(treadPixels.dataLines),
         }
       : null,
     railGrouping: rail?.grouping ?? null,
   };
+}
+
+/** The current per pixel behind a run's load, and its load with no brightness cap. */
+function currentFields(current: PixelCurrentBasis, uncappedCurrentA: number, voltageV: number, sizedForBrightnessPercent: number) {
+  return {
+    currentPerPixelMa: round(current.currentPerPixelMa, 4),
+    currentPerPixelSource: current.source,
+    uncappedCurrentA: round(uncappedCurrentA),
+    uncappedPowerW: round(uncappedCurrentA * voltageV),
+    sizedForBrightnessPercent,
+  };
+}
+
+function gapsOf(lines: DataLines) {
+  return lines.gaps.map((g) => ({ kind: g.kind, controller: g.controller, output: g.output, tread: g.tread, lengthM: round(g.lengthM, 3), limitM: g.limitM, withinLimit: g.withinLimit }));
 }

@@ -2,8 +2,19 @@ import type { EstimateCheck } from '../../schemas/estimate.js';
 import { cableCurrentCheck, cableDropCheck, cableMinSizeCheck, cableRunLengthCheck } from './cable-checks.js';
 import type { Design } from './checks.js';
 import { controllerInputCheck, outputCountCheck, outputCurrentCheck } from './output-checks.js';
-import { pixelsPerOutputCheck, pixelsTotalCheck, railGroupingCheck, refreshRateCheck } from './pixel-checks.js';
-import { sensorCurrentCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
+import {
+  brightnessCapCheck,
+  dataLineLengthCheck,
+  dataLogicLevelCheck,
+  feedPointCurrentCheck,
+  pixelCurrentCheck,
+  pixelsPerOutputCheck,
+  pixelsTotalCheck,
+  railGroupingCheck,
+  railHoldsPixelsCheck,
+  refreshRateCheck,
+} from './pixel-checks.js';
+import { sensorCurrentCheck, sensorInputsCheck, sensorSupplyCheck, sensorTypeCheck } from './sensor-checks.js';
 import { pieceFitsReelCheck, stripFitsCheck, treadCountCheck } from './stair-checks.js';
 import { circuitProtectionCheck, class2Check, driverLoadingCheck, feederDeratingCheck, selvCheck } from './supply-checks.js';
 
@@ -31,6 +42,14 @@ const CHECKS: readonly ((d: Design) => EstimateCheck | null)[] = [
   sensorCurrentCheck,
   sensorSupplyCheck,
   pieceFitsReelCheck,
+  // Added for issue 8 (pixels, data lines, sensors):
+  pixelCurrentCheck,
+  brightnessCapCheck,
+  dataLineLengthCheck,
+  dataLogicLevelCheck,
+  sensorInputsCheck,
+  feedPointCurrentCheck,
+  railHoldsPixelsCheck,
 ];
 
 export function runChecks(d: Design): EstimateCheck[] {

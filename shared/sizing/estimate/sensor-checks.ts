@@ -101,3 +101,28 @@ export function sensorSupplyCheck(d: Design): EstimateCheck | null {
   }
   return passed('sensor-supply', `Sensors rated ${motion.supplyV} V on the controller's ${controllerInput.supplyV} V sensor supply.`, motion.supplyV, controllerInput.supplyV, 'V', inputReference(d));
 }
+
+/** A controller reads a fixed number of sensors (often two): foot, head and entered landings must fit (issue 8). */
+export function sensorInputsCheck(d: Design): EstimateCheck | null {
+  const w = d.sensors.wiring;
+  if (!w || d.sensors.plan.motionSensors === 0) return null;
+  const reference = w.sensorInputsDefaulted ? 'two sensor inputs per controller, foot and head (common practice, from memory)' : 'controller profile';
+  const on = d.controllers > 1 ? ` on controller ${w.busiestController}` : '';
+  if (w.mostOnOneController <= w.sensorInputs) {
+    const text = `${w.mostOnOneController} motion sensor${w.mostOnOneController === 1 ? '' : 's'}${on} on ${w.sensorInputs} sensor inputs`;
+    if (w.sensorInputsDefaulted) {
+      return flagged('sensor-inputs', 'warn', `${text} (the profile does not say how many; 2 assumed).`, w.mostOnOneController, w.sensorInputs, 'sensors', reference, 'Confirm the number of sensor inputs on the controller’s datasheet and add sensorInputs to the profile.');
+    }
+    return passed('sensor-inputs', `${text}.`, w.mostOnOneController, w.sensorInputs, 'sensors', reference);
+  }
+  return flagged(
+    'sensor-inputs',
+    'fail',
+    `${w.mostOnOneController} motion sensors${on} but the controller has ${w.sensorInputs} sensor input${w.sensorInputs === 1 ? '' : 's'}.`,
+    w.mostOnOneController,
+    w.sensorInputs,
+    'sensors',
+    reference,
+    `Choose a controller with at least ${w.mostOnOneController} sensor inputs, or join the landing sensor to the nearest foot or head input through an OR interface (e.g. diodes on PNP outputs; check the controller's datasheet allows it).`,
+  );
+}

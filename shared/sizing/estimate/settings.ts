@@ -6,6 +6,8 @@ import { DEFAULT_CURRENT_LIMIT_PERCENT, DEFAULT_DRIVER_RATINGS_W, DEFAULT_MAINS_
 import { SizingInputError } from '../errors.js';
 import { DEFAULT_SERVICE_ALLOWANCE_M, type ControllerPosition } from '../geometry.js';
 import { DEFAULT_DAYLIGHT_CUTOFF_LUX } from '../sensors.js';
+import { pixelCurrentBasis, pixelCurrentDefaultEntry, type PixelCurrentInput } from '../strip.js';
+import { pixelBlockDefaults } from './data-lines.js';
 import { CONDUCTOR_TABLES, type ConductorTableId, type SizeSystem } from '../tables/conductors.js';
 import type { TraceEntry } from '../trace.js';
 import { DEFAULT_MAX_DROP_PERCENT, DROP_LIMIT_REFERENCE } from '../voltage-drop.js';
@@ -97,7 +99,6 @@ const DEFAULTS = {
     'below a lit hallway (~80 lx) and EN 12464-1:2021 corridors 100 lx / stairs 150 lx, so the lights help only when general light is off (common practice, no published source)',
   ),
   useDaylightCutoff: defaultEntry('sensors.useDaylightCutoff', true, '', 'Treadwise default: orientation lights are wanted only after dark'),
-  currentPerPixelMa: defaultEntry('currentPerPixelMa', 60, 'mA', '60 mA per 5 V RGB pixel at full white, 20 mA per colour (common practice, from memory)'),
   bitsPerPixel: defaultEntry('bitsPerPixel', 24, 'bits', '24 bits per RGB pixel — WS2812B datasheet'),
   brightnessPercent: defaultEntry('brightnessPercent', 100, '%', 'no brightness cap'),
 } as const;
@@ -126,13 +127,16 @@ const FEED_LENGTH_DEFAULTS = {
 
 /** Defaults of the pixel block a layout uses; lists what the request left out. */
 export function pixelDefaults(
-  block: { currentPerPixelMa?: number | undefined; bitsPerPixel?: number | undefined; brightnessPercent?: number | undefined; maxFeedLengthM?: number | undefined; voltageV: number; protocol: string },
+  block: PixelCurrentInput & { bitsPerPixel?: number | undefined; brightnessPercent?: number | undefined; maxFeedLengthM?: number | undefined; voltageV: number; protocol: string },
   into: TraceEntry[],
 ): void {
-  if (block.currentPerPixelMa === undefined) into.push(DEFAULTS.currentPerPixelMa);
+  // The default current depends on channels and voltage (issue 8): the entry says which one.
+  const current = pixelCurrentBasis(block);
+  if (current.defaulted) into.push(pixelCurrentDefaultEntry(current));
   if (block.bitsPerPixel === undefined && block.protocol !== 'clocked') into.push(DEFAULTS.bitsPerPixel);
   if (block.brightnessPercent === undefined) into.push(DEFAULTS.brightnessPercent);
   if (block.maxFeedLengthM === undefined) into.push(block.voltageV <= 5 ? FEED_LENGTH_DEFAULTS.low : FEED_LENGTH_DEFAULTS.high);
+  into.push(...pixelBlockDefaults(block));
 }
 
 export function endClearanceDefault(into: TraceEntry[]): void {

@@ -52,20 +52,24 @@ export function treadCountCheck(d: Design): EstimateCheck | null {
 
 /** The strip (or pixel segment) must hold at least one cut pitch between the end clearances. */
 export function stripFitsCheck(d: Design): EstimateCheck | null {
-  const width = d.stair?.treadWidthMm;
-  if (width === undefined) return null;
+  const stairWidth = d.stair?.treadWidthMm;
+  if (stairWidth === undefined) return null;
+  let width: number = stairWidth;
   let fit: StripFit;
   let pitchMm: number;
   let pixels: number | null = null;
   let pixelsPerM = 0;
   if (d.treadStrips) {
+    // The narrowest tread fails first when the stair lists each tread's width.
     fit = d.treadStrips.fit;
+    width = d.treadStrips.narrowestWidthMm;
     pitchMm = d.treadStrips.strip.cutPitchMm;
   } else if (d.treadPixels) {
     fit = d.treadPixels.fit;
+    width = d.treadPixels.narrowestWidthMm;
     pixelsPerM = d.treadPixels.block.pixelsPerM;
     pitchMm = d.treadPixels.block.cutPitchMm ?? 1000 / pixelsPerM;
-    pixels = d.treadPixels.pixelsPerTread;
+    pixels = d.treadPixels.narrowestPixels;
   } else {
     return null;
   }
@@ -113,7 +117,8 @@ export function stripFitsCheck(d: Design): EstimateCheck | null {
 export function pieceFitsReelCheck(d: Design): EstimateCheck | null {
   const reels = d.treadReels;
   if (!reels) return null;
-  const pieceMm = (d.treadStrips ? d.treadStrips.fit.stripLengthMm : d.treadPixels?.piece.lengthMm) ?? 0;
+  let pieceMm = 0;
+  for (const piece of d.treadStrips?.litPiecesMm ?? d.treadPixels?.litPiecesMm ?? []) pieceMm = Math.max(pieceMm, piece);
   const usable = reels.plan.usableReelLengthMm;
   const pieceText = Math.round(pieceMm * 1000) / 1000;
   if (reels.plan.unplaceableIndexes.length === 0) {

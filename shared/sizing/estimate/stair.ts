@@ -6,7 +6,8 @@ import { cableRuns, cableRunsTrace, PRACTICE_MAX_RUN_M, type CableRuns, type Con
 export function subStair(stair: StairGeometry, first: number, last: number): StairGeometry {
   if (first === 1 && last === stair.treads) return stair;
   const treads = last - first + 1;
-  if (!stair.flights || stair.flights.length <= 1) return { ...stair, treads, flights: undefined };
+  const treadWidthsMm = stair.treadWidthsMm?.slice(first - 1, last);
+  if (!stair.flights || stair.flights.length <= 1) return { ...stair, treads, flights: undefined, treadWidthsMm };
   const flights: Flight[] = [];
   let start = 1;
   for (const flight of stair.flights) {
@@ -20,7 +21,7 @@ export function subStair(stair: StairGeometry, first: number, last: number): Sta
     }
     start = end + 1;
   }
-  return { ...stair, treads, flights };
+  return { ...stair, treads, flights, treadWidthsMm };
 }
 
 /**

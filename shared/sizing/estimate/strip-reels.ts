@@ -49,20 +49,26 @@ function nothingFits(pieces: number): ReelPlan {
 
 /** Tread pieces cut from reels without a joint inside a piece (the reels module's cutting plan). */
 export function planTreadReels(
-  pieceMm: number,
-  treads: number,
+  piecesMm: readonly number[],
+  pieceTreads: readonly number[],
   cutPitchMm: number | undefined,
   reelLengthMm: number,
   sku: string | undefined,
   trace: TraceEntry[],
 ): TreadReels | null {
-  if (pieceMm <= 0) return null;
-  const piecesMm: number[] = new Array(treads).fill(pieceMm);
+  if (piecesMm.length === 0) return null;
   // A catalog reel shorter than one cut pitch yields no piece at all; every piece needs joints.
-  const plan = usableReelMm(reelLengthMm, cutPitchMm) > 0 ? cutReels(piecesMm, reelLengthMm, cutPitchMm) : nothingFits(treads);
+  const cut = usableReelMm(reelLengthMm, cutPitchMm) > 0 ? cutReels(piecesMm, reelLengthMm, cutPitchMm) : nothingFits(piecesMm.length);
+  // The plan counts pieces from 0; the response names treads (unlit treads have no piece).
+  const treadIndex = (i: number) => (pieceTreads[i] as number) - 1;
+  const plan: ReelPlan = {
+    ...cut,
+    plan: cut.plan.map((r) => ({ ...r, pieceIndexes: r.pieceIndexes.map(treadIndex) })),
+    unplaceableIndexes: cut.unplaceableIndexes.map(treadIndex),
+  };
   let jointReels = 0;
-  for (const i of plan.unplaceableIndexes) jointReels += Math.ceil((piecesMm[i] as number) / reelLengthMm);
-  for (const entry of reelsTrace({ piecesMm, reelLengthMm, cutPitchMm }, plan)) trace.push({ ...entry, quantity: `treads.${entry.quantity}` });
+  for (const i of cut.unplaceableIndexes) jointReels += Math.ceil((piecesMm[i] as number) / reelLengthMm);
+  for (const entry of reelsTrace({ piecesMm: [...piecesMm], reelLengthMm, cutPitchMm }, plan)) trace.push({ ...entry, quantity: `treads.${entry.quantity}` });
   const response: TreadReels['response'] = {
     reels: plan.reels + jointReels,
     reelLengthMm,
@@ -132,7 +138,7 @@ export function planReels(
     const s = treadStrips.strip;
     const item = catalog ? findStrip(catalog, s.sku, s.voltageV, s.powerWPerM, s.cutPitchMm) : undefined;
     const reelMm = reelLength(settings.reelLengthMm, item?.reelLengthMm, settings.defaultsUsed);
-    treadReels = planTreadReels(treadStrips.fit.stripLengthMm, treadStrips.rows.length, s.cutPitchMm, reelMm, item?.sku ?? s.sku, trace);
+    treadReels = planTreadReels(treadStrips.litPiecesMm, treadStrips.litPieceTreads, s.cutPitchMm, reelMm, item?.sku ?? s.sku, trace);
     if (treadReels) {
       const description = `CV strip ${s.voltageV} V ${s.powerWPerM} W/m, cut pitch ${s.cutPitchMm} mm, ${reelMm / 1000} m reel`;
       const differs = item !== undefined && (item.voltageV !== s.voltageV || item.powerWPerM !== s.powerWPerM);
@@ -143,14 +149,15 @@ export function planReels(
     const b = treadPixels.block;
     const item = catalog ? findPixelStrip(catalog, b.sku, b.voltageV, b.pixelsPerM, b.protocol) : undefined;
     const reelMm = reelLength(settings.reelLengthMm, item?.reelLengthMm, settings.defaultsUsed);
-    treadReels = planTreadReels(treadPixels.piece.lengthMm, treadPixels.rows.length, b.cutPitchMm, reelMm, item?.sku ?? b.sku, trace);
+    treadReels = planTreadReels(treadPixels.litPiecesMm, treadPixels.litPieceTreads, b.cutPitchMm, reelMm, item?.sku ?? b.sku, trace);
     if (treadReels) {
       const description = `Pixel strip ${b.voltageV} V ${b.pixelsPerM} pixels/m, ${b.protocol}, ${reelMm / 1000} m reel`;
       const differs = item !== undefined && (item.voltageV !== b.voltageV || item.pixelsPerM !== b.pixelsPerM);
       strips.push(stripLine('pixel-strip', description, treadReels.response.reels, reelMm, b.sku, item, differs));
     }
   }
-  if (rail) {
+  // A rail that holds no whole pixel gets no reel (the rail-holds-pixels check fails instead).
+  if (rail && rail.pixels > 0) {
     const r = rail.rail;
     const item = catalog ? findPixelStrip(catalog, r.sku, r.voltageV, r.pixelsPerM, r.protocol) : undefined;
     const reelMm = reelLength(settings.reelLengthMm, item?.reelLengthMm, settings.defaultsUsed);

@@ -1,12 +1,13 @@
 import type { ControllerProfile } from '../../schemas/controller.js';
 import type { EstimateTread, TreadPixelsBlock } from '../../schemas/estimate.js';
 import type { PixelsResult } from '../../schemas/pixels.js';
-import { bestControllerTread, treadPositionsM, type ControllerPosition, type StairGeometry } from '../geometry.js';
+import { bestControllerTread, treadPositionsM, treadWidthsOf, type ControllerPosition, type StairGeometry } from '../geometry.js';
 import { blockSizes } from '../outputs.js';
-import { injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
-import { fitStrip, pixelCurrentA, pixelCurrentTrace, pixelPiece, stripFitTrace, type PixelPiece, type StripFit } from '../strip.js';
+import { DEFAULT_MAX_FEED_CURRENT_A, injectionPoints, injectionTrace, pixelData, type InjectionPlan } from '../pixels.js';
+import { fitPixelStrip, pixelCurrentA, pixelCurrentBasis, pixelCurrentTrace, stripFitTrace, type PixelCurrentBasis, type PixelPiece, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { dropPercentOf, loopDropV } from '../voltage-drop.js';
+import { DEFAULT_MAX_UNBUFFERED_DATA_M, dataLines, dataLinesTrace, gap, maxDataLeadM, type DataGap, type DataLines } from './data-lines.js';
 import { timingTrace, type DataOutputUse } from './rail-pixels.js';
 import { setSize, sizeRun, type RunCable } from './run-cable.js';
 import type { Settings } from './settings.js';
@@ -33,8 +34,20 @@ export interface TreadPixelPart {
   block: TreadPixelsBlock;
   fit: StripFit;
   piece: PixelPiece;
+  /** Current of one pixel at full white and how it was found. */
+  current: PixelCurrentBasis;
+  /** Brightness the loads are sized for: the cap, or 100 with sizeForFullWhite. */
+  sizingBrightnessPercent: number;
+  /** Whole run at full white with no cap, A. */
+  uncappedCurrentA: number;
   pixelsPerTread: number;
   litTreads: number;
+  /** Strip cut for each lit tread, mm, and the tread it is for. */
+  litPiecesMm: number[];
+  litPieceTreads: number[];
+  /** Width and pixels of the narrowest tread (strip-fits-tread judges it); `fit` is its fit. */
+  narrowestWidthMm: number;
+  narrowestPixels: number;
   treadCurrentA: number;
   totalPixels: number;
   totalCurrentA: number;
@@ -54,7 +67,11 @@ export interface TreadPixelPart {
   feedGroups: FeedGroup[];
   chainCableLengthM: number;
   injection: InjectionPlan;
+  /** Current limit per feed point used, A (given or the 5 A default). */
+  maxFeedCurrentA: number;
   rows: EstimateTread[];
+  /** Data gaps: controller → first tread of each chain, and tread to tread. */
+  dataLines: DataLines;
 }
 
 const NO_PIECE: PixelPiece = Object.freeze({ lengthMm: 0, pixels: 0 });
@@ -74,8 +91,9 @@ function planChains(n: number, pixelsPerTread: number, profile: ControllerProfil
 }
 
 /**
- * Feed groups along one chain: as many as the strip's feed length asks, more while a group's
- * links cannot keep the drop within the limit (up to one per tread).
+ * Feed groups along one chain: as many as the strip's feed length and the current per feed point
+ * ask, more while a group's links cannot keep the drop within the limit or a group draws more
+ * than one feed point may push (up to one per tread).
  */
 function feedGroups(
   chain: TreadBlock,
@@ -84,6 +102,7 @@ function feedGroups(
   block: TreadPixelsBlock,
   settings: Settings,
   startFeeds: number,
+  maxFeedCurrentA: number,
 ): FeedGroup[] {
   const treads = chain.lastTread - chain.firstTread + 1;
   for (let feeds = Math.min(treads, startFeeds); ; feeds++) {
@@ -92,7 +111,8 @@ function feedGroups(
     let ok = true;
     for (const size of blockSizes(treads, feeds)) {
       const group = sizeGroup(first, first + size - 1, treadCurrentA, positions, block.voltageV, settings);
-      if (group.cable?.failure) ok = false;
+      // Whole treads per group: more feed points while a group draws more than one feed point may push.
+      if (group.cable?.failure || group.currentA > maxFeedCurrentA + 1e-9) ok = false;
       groups.push(group);
       first += size;
     }
@@ -147,11 +167,42 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   const n = stair.treads;
   const { profile } = settings;
   const pitchMm = block.cutPitchMm ?? 1000 / block.pixelsPerM;
-  const fit = fitStrip(stair.treadWidthMm as number, pitchMm, block.endClearanceMm);
-  const cut = fit.fits ? pixelPiece(fit.stripLengthMm, block.pixelsPerM, block.cutPitchMm) : NO_PIECE;
-  const piece = cut.pixels > 0 ? cut : NO_PIECE;
+  // Each tread's own width (winders, a bullnose step) or the stair's; equal widths share one fit.
+  // Chains, feed groups and timing are sized as if every tread held the widest tread's pixels
+  // (conservative); rows, totals and reels use each tread's own piece.
+  const widths = treadWidthsOf(stair);
+  const byWidth = new Map<number, { fit: StripFit; piece: PixelPiece }>();
+  const treadPieces: PixelPiece[] = new Array(n);
+  let narrowest = 0;
+  let widest = 0;
+  for (let k = 0; k < n; k++) {
+    const width = widths[k] as number;
+    let one = byWidth.get(width);
+    if (!one) {
+      // Whole pixels counted in integers: 30 pixels/m on 960 mm of space is 28 pixels (933.33 mm).
+      const f = fitPixelStrip(width, block.pixelsPerM, block.cutPitchMm, block.endClearanceMm);
+      one = { fit: f.fit, piece: f.fit.fits && f.piece.pixels > 0 ? f.piece : NO_PIECE };
+      byWidth.set(width, one);
+    }
+    treadPieces[k] = one.piece;
+    if (width < (widths[narrowest] as number)) narrowest = k;
+    if (one.piece.pixels > (treadPieces[widest] as PixelPiece).pixels) widest = k;
+  }
+  const fit = (byWidth.get(widths[narrowest] as number) as { fit: StripFit }).fit;
+  const piece = treadPieces[widest] as PixelPiece;
   const p = piece.pixels;
-  const treadCurrentA = pixelCurrentA(p, block.currentPerPixelMa, block.brightnessPercent);
+  const litPiecesMm: number[] = [];
+  const litPieceTreads: number[] = [];
+  treadPieces.forEach((tp, k) => {
+    if (tp.pixels > 0) {
+      litPiecesMm.push(tp.lengthMm);
+      litPieceTreads.push(k + 1);
+    }
+  });
+  const current = pixelCurrentBasis(block);
+  // Sized for the cap unless the caller asks for full white (the brightness-cap check says which).
+  const sizingBrightnessPercent = block.sizeForFullWhite ? 100 : (block.brightnessPercent ?? 100);
+  const treadCurrentA = pixelCurrentA(p, current.currentPerPixelMa, sizingBrightnessPercent);
   const treadPowerW = treadCurrentA * block.voltageV;
 
   const plan = planChains(n, p, profile);
@@ -183,11 +234,13 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   let longest: TreadBlock = chainBlocks[0] as TreadBlock;
   for (const c of chainBlocks) if (c.lastTread - c.firstTread > longest.lastTread - longest.firstTread) longest = c;
   const chainLengthM = (c: TreadBlock) => ((c.lastTread - c.firstTread + 1) * piece.lengthMm) / 1000;
+  const maxFeedCurrentA = block.maxFeedCurrentA ?? DEFAULT_MAX_FEED_CURRENT_A;
   const injectionInput = {
     lengthM: chainLengthM(longest),
     voltageV: block.voltageV,
     maxFeedLengthM: block.maxFeedLengthM,
     currentA: (longest.lastTread - longest.firstTread + 1) * treadCurrentA,
+    maxFeedCurrentA,
   };
   const injection = injectionPoints(injectionInput);
 
@@ -198,11 +251,18 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   let chainCableLengthM = 0;
   // Without data outputs no chain has an output to go on (the pixels-total check fails).
   const hasDataOutputs = (profile.dataOutputs ?? 0) > 0;
+  // Every data gap on its own: each pixel regenerates the signal (handbook, "Data lines").
+  const gaps: DataGap[] = [];
+  const leadLimitM = maxDataLeadM(profile);
+  const linkLimitM = block.maxDataLinkM ?? DEFAULT_MAX_UNBUFFERED_DATA_M;
+  const uniform = byWidth.size === 1;
+  const ownCurrentA = (k: number) => pixelCurrentA((treadPieces[k - 1] as PixelPiece).pixels, current.currentPerPixelMa, sizingBrightnessPercent);
   const rowPowerW = round(treadPowerW);
   const rowCurrentA = round(treadCurrentA);
   for (const c of chainBlocks) {
-    const startFeeds = injectionPoints({ ...injectionInput, lengthM: chainLengthM(c) }).injectionPoints + 1;
-    const groups = feedGroups(c, treadCurrentA, positions, block, settings, startFeeds);
+    const chainTreads = c.lastTread - c.firstTread + 1;
+    const startFeeds = injectionPoints({ ...injectionInput, lengthM: chainLengthM(c), currentA: chainTreads * treadCurrentA }).injectionPoints + 1;
+    const groups = feedGroups(c, treadCurrentA, positions, block, settings, startFeeds, maxFeedCurrentA);
     const lead = sizeRun(block.voltageV, 0, runs.runsM[c.firstTread - 1] as number, settings.cable);
     dataCables.push({ kind: 'chain leads', tread: c.firstTread, cable: lead });
     chains.push({ ...c, pixels: (c.lastTread - c.firstTread + 1) * p, lead, groups });
@@ -218,6 +278,7 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
           kind = 'chain-lead';
           cable = lead;
           lengthM = lead.lengthM;
+          gaps.push(gap('lead', 'treads', lengthM, leadLimitM, { controller: c.controller, output: hasDataOutputs ? c.output : null, tread: k }));
         } else if (k === g.firstTread) {
           kind = 'data-link';
           lengthM = linkLengthM(positions, k, settings);
@@ -232,12 +293,13 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
           dropPercent = dropPercentOf(cumulativeDropV, block.voltageV);
           chainCableLengthM += lengthM;
         }
+        if (k !== c.firstTread) gaps.push(gap('link', 'treads', lengthM, linkLimitM, { controller: c.controller, output: hasDataOutputs ? c.output : null, tread: k }));
         const row: EstimateTread = {
           index: k,
-          stripLengthMm: piece.lengthMm,
-          pixels: p,
-          powerW: rowPowerW,
-          currentA: rowCurrentA,
+          stripLengthMm: (treadPieces[k - 1] as PixelPiece).lengthMm,
+          pixels: (treadPieces[k - 1] as PixelPiece).pixels,
+          powerW: uniform ? rowPowerW : round(ownCurrentA(k) * block.voltageV),
+          currentA: uniform ? rowCurrentA : round(ownCurrentA(k)),
           controller: c.controller,
           output: hasDataOutputs ? c.output : null,
           cableKind: kind,
@@ -256,12 +318,15 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     pixels: busiestChainPixels,
     protocol: block.protocol,
     bitsPerPixel: block.bitsPerPixel,
-    currentPerPixelMa: block.currentPerPixelMa,
+    resetUs: block.resetUs,
+    clockHz: block.clockHz,
+    currentPerPixelMa: current.currentPerPixelMa,
     supplyVoltageV: block.voltageV,
-    brightnessPercent: block.brightnessPercent,
+    brightnessPercent: sizingBrightnessPercent,
   });
-  const totalPixels = n * p;
-  const totalCurrentA = n * treadCurrentA;
+  let totalPixels = 0;
+  for (const tp of treadPieces) totalPixels += tp.pixels;
+  const totalCurrentA = pixelCurrentA(totalPixels, current.currentPerPixelMa, sizingBrightnessPercent);
   const dataOutputs: DataOutputUse[] = (hasDataOutputs ? chains : []).map((c) => ({
     controller: c.controller,
     output: c.output,
@@ -271,16 +336,16 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
   }));
 
   trace.push(
-    stripFitTrace(stair.treadWidthMm as number, pitchMm, block.endClearanceMm, fit),
+    stripFitTrace(widths[narrowest] as number, pitchMm, block.endClearanceMm, fit),
     {
       quantity: 'treads.pixelsPerTread',
       value: p,
       unit: 'pixels',
-      formula: block.cutPitchMm === undefined ? 'floor(stripLengthMm × pixelsPerM / 1000)' : 'whole cut pitches, then floor(lengthMm × pixelsPerM / 1000)',
+      formula: block.cutPitchMm === undefined ? 'floor(spaceUm × pixelsPerKm / 10⁹), in integers' : 'whole cut pitches (in µm), then the whole pixels each pitch holds',
       inputs: { stripLengthMm: fit.stripLengthMm, pixelsPerM: block.pixelsPerM, cutPitchMm: block.cutPitchMm ?? null },
       reference: 'arithmetic: whole pixels only',
     },
-    pixelCurrentTrace(p, block.currentPerPixelMa, block.brightnessPercent, 'tread.currentA'),
+    pixelCurrentTrace(p, block.currentPerPixelMa, sizingBrightnessPercent, 'tread.currentA', current),
     {
       quantity: 'treads.totalPixels',
       value: totalPixels,
@@ -327,7 +392,10 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
       reference: 'DC distributor theory, loads tapped along a run (any circuits text); IEC 60364-5-52 Annex G loop drop',
     },
   );
+  // No pixel on any tread: no data line to judge (strip-fits-tread fails instead).
+  const lines = dataLines(p > 0 ? gaps : [], block.protocol, block.voltageV, profile, hasDataOutputs ? chains.length : 0);
   timingTrace('treads', data, trace);
+  trace.push(dataLinesTrace('treads', lines, profile, block.maxDataLinkM));
   trace.push(...injectionTrace(injectionInput, injection).map((e) => ({ ...e, quantity: `treads.${e.quantity}` })));
   trace.push(...runsTrace(stair, runs, settings.position, settings.cable.serviceAllowanceGiven));
 
@@ -335,8 +403,15 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     block,
     fit,
     piece,
+    current,
+    sizingBrightnessPercent,
+    uncappedCurrentA: pixelCurrentA(totalPixels, current.currentPerPixelMa, 100),
     pixelsPerTread: p,
-    litTreads: p > 0 ? n : 0,
+    litTreads: litPiecesMm.length,
+    litPiecesMm,
+    litPieceTreads,
+    narrowestWidthMm: widths[narrowest] as number,
+    narrowestPixels: (treadPieces[narrowest] as PixelPiece).pixels,
     treadCurrentA,
     totalPixels,
     totalCurrentA,
@@ -353,6 +428,8 @@ export function sizeTreadPixels(stair: StairGeometry, block: TreadPixelsBlock, s
     feedGroups: allGroups,
     chainCableLengthM,
     injection,
+    maxFeedCurrentA,
     rows,
+    dataLines: lines,
   };
 }

@@ -1,17 +1,32 @@
-import type { EstimateTread, TreadStripInput } from '../../schemas/estimate.js';
-import type { StairGeometry } from '../geometry.js';
+import type { EstimateLanding, EstimateTread, TreadStripInput } from '../../schemas/estimate.js';
+import { treadPositionsM, treadWidthsOf, type StairGeometry } from '../geometry.js';
+import { allocationInTreads, lightingSequence, litLandingsOf } from './lit-landings.js';
 import { allocateOutputs, outputsTrace, type OutputAllocation } from '../outputs.js';
 import { cvLoad, cvLoadTrace, fitStrip, stripFitTrace, type CvLoad, type StripFit } from '../strip.js';
 import { round, type TraceEntry } from '../trace.js';
 import { setSize, sizeRun, type RunCable } from './run-cable.js';
 import type { Settings } from './settings.js';
-import { runsTrace, stairRuns, type StairRuns } from './stair.js';
+import { runsTrace, stairRuns, type BlockRuns, type StairRuns } from './stair.js';
 
 export interface TreadStripPart {
   strip: TreadStripInput;
+  /** Fit of the narrowest tread (the one that fails first); every tread's is in `fits`. */
   fit: StripFit;
-  /** Load of one lit tread (every tread has the stair's width, so every piece is the same). */
+  /** Width of that narrowest tread, mm. */
+  narrowestWidthMm: number;
+  /** Load of the tread that draws most (every tread alike unless the stair lists its widths). */
   load: CvLoad;
+  /** Fit of that tread. */
+  largestFit: StripFit;
+  /** Fit and load of every tread, foot first. */
+  fits: StripFit[];
+  loads: CvLoad[];
+  /** Strip cut for each lit tread, mm, and the tread it is for. */
+  litPiecesMm: number[];
+  litPieceTreads: number[];
+  /** Lit landings: their leads and schedule rows (empty without lit landings). */
+  landingLeads: RunCable[];
+  landingRows: EstimateLanding[];
   litTreads: number;
   allocation: OutputAllocation;
   runs: StairRuns;
@@ -28,11 +43,46 @@ const NO_LOAD: CvLoad = Object.freeze({ powerW: 0, currentA: 0 });
 /** tread-strips: a CV strip per tread, one tread per output, a lead from the controller to each tread. */
 export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, settings: Settings, trace: TraceEntry[]): TreadStripPart {
   const n = stair.treads;
-  const fit = fitStrip(stair.treadWidthMm as number, strip.cutPitchMm, strip.endClearanceMm);
-  const load = fit.fits ? cvLoad(fit.stripLengthMm, strip.powerWPerM, strip.voltageV) : NO_LOAD;
-  const treadCurrentsA: number[] = new Array(n).fill(load.currentA);
-  const allocationInput = { treadCurrentsA, profile: settings.profile };
+  // Each tread's own width (winders, a bullnose step) or the stair's: equal widths share one fit.
+  const widths = treadWidthsOf(stair);
+  const byWidth = new Map<number, { fit: StripFit; load: CvLoad }>();
+  const fits: StripFit[] = new Array(n);
+  const loads: CvLoad[] = new Array(n);
+  const litPiecesMm: number[] = [];
+  const litPieceTreads: number[] = [];
+  let narrowest = 0;
+  let largest = 0;
+  for (let k = 0; k < n; k++) {
+    const width = widths[k] as number;
+    let one = byWidth.get(width);
+    if (!one) {
+      const f = fitStrip(width, strip.cutPitchMm, strip.endClearanceMm);
+      one = { fit: f, load: f.fits ? cvLoad(f.stripLengthMm, strip.powerWPerM, strip.voltageV) : NO_LOAD };
+      byWidth.set(width, one);
+    }
+    fits[k] = one.fit;
+    loads[k] = one.load;
+    if (one.fit.fits) {
+      litPiecesMm.push(one.fit.stripLengthMm);
+      litPieceTreads.push(k + 1);
+    }
+    if (width < (widths[narrowest] as number)) narrowest = k;
+    if (one.load.currentA > (loads[largest] as CvLoad).currentA) largest = k;
+  }
+  const fit = fits[narrowest] as StripFit;
+  const load = loads[largest] as CvLoad;
+  const treadCurrentsA: number[] = loads.map((l) => l.currentA);
+  // Lit landings light in the sequence between their flights, each on an output of its own.
+  const landings = litLandingsOf(stair, stair.litLandings);
+  const landingFit = fitStrip(stair.treadWidthMm as number, strip.cutPitchMm, strip.endClearanceMm);
+  const landingLoad = landingFit.fits ? cvLoad(landingFit.stripLengthMm, strip.powerWPerM, strip.voltageV) : NO_LOAD;
+  const sequence = lightingSequence(n, landings);
+  const allocationInput = {
+    treadCurrentsA: landings.length > 0 ? sequence.map((i) => (i.tread !== undefined ? (treadCurrentsA[i.tread - 1] as number) : landingLoad.currentA)) : treadCurrentsA,
+    profile: settings.profile,
+  };
   const allocation = allocateOutputs(allocationInput);
+  if (landings.length > 0) allocationInTreads(allocation, sequence);
 
   // Without CV outputs no controller can take a tread; the runs are still measured from one.
   const blocks = allocation.controllers.length > 0 ? allocation.controllers : [{ firstTread: 1, lastTread: n }];
@@ -51,18 +101,17 @@ export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, se
   const rows: EstimateTread[] = new Array(n);
   let totalLoadW = 0;
   let totalCurrentA = 0;
-  const treadPowerW = round(load.powerW);
-  const treadCurrentA = round(load.currentA);
   for (let k = 0; k < n; k++) {
-    const lead = sizeRun(strip.voltageV, load.currentA, runs.runsM[k] as number, settings.cable);
+    const treadLoad = loads[k] as CvLoad;
+    const lead = sizeRun(strip.voltageV, treadLoad.currentA, runs.runsM[k] as number, settings.cable);
     leads[k] = lead;
-    totalLoadW += load.powerW;
-    totalCurrentA += load.currentA;
+    totalLoadW += treadLoad.powerW;
+    totalCurrentA += treadLoad.currentA;
     const row: EstimateTread = {
       index: k + 1,
-      stripLengthMm: fit.stripLengthMm,
-      powerW: treadPowerW,
-      currentA: treadCurrentA,
+      stripLengthMm: (fits[k] as StripFit).stripLengthMm,
+      powerW: round(treadLoad.powerW),
+      currentA: round(treadLoad.currentA),
       controller: controllerOf[k] || null,
       output: outputOf[k] || null,
       cableKind: 'tread-lead',
@@ -74,15 +123,47 @@ export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, se
   }
   const controllerCurrentsA = allocation.controllers.map((c) => c.currentA);
 
+  // Each lit landing: a lead from the controller whose block holds the tread below it.
+  const positions = landings.length > 0 ? treadPositionsM(stair) : null;
+  const landingLeads: RunCable[] = [];
+  const landingRows: EstimateLanding[] = [];
+  landings.forEach((l, j) => {
+    const block = runs.blocks.find((b) => l.belowTread >= b.firstTread && l.belowTread <= b.lastTread) ?? (runs.blocks[0] as BlockRuns);
+    const lengthM = Math.abs(l.positionM - ((positions as Float64Array)[block.atTread - 1] as number)) + settings.cable.serviceAllowanceM;
+    const lead = sizeRun(strip.voltageV, landingLoad.currentA, lengthM, settings.cable);
+    landingLeads.push(lead);
+    const out = allocation.outputs.find((o) => o.landings?.includes(l.landing));
+    const row: EstimateLanding = {
+      landing: l.landing,
+      belowTread: l.belowTread,
+      stripLengthMm: landingFit.stripLengthMm,
+      powerW: round(landingLoad.powerW),
+      currentA: round(landingLoad.currentA),
+      controller: out?.controller ?? null,
+      output: out?.output ?? null,
+      cableLengthM: round(lead.lengthM, 3),
+      dropPercent: round(lead.dropPercent, 3),
+    };
+    setSize(row, settings.cable, lead);
+    landingRows.push(row);
+    totalLoadW += landingLoad.powerW;
+    totalCurrentA += landingLoad.currentA;
+    if (landingFit.fits) {
+      litPiecesMm.push(landingFit.stripLengthMm);
+      // Reel plans count pieces from 0 by tread; lit landings follow the treads (n + 1, n + 2, …).
+      litPieceTreads.push(n + j + 1);
+    }
+  });
+
   trace.push(
-    stripFitTrace(stair.treadWidthMm as number, strip.cutPitchMm, strip.endClearanceMm, fit),
-    ...cvLoadTrace(fit.stripLengthMm, strip.powerWPerM, strip.voltageV, load, 'tread.powerW'),
+    stripFitTrace(widths[narrowest] as number, strip.cutPitchMm, strip.endClearanceMm, fit),
+    ...cvLoadTrace((fits[largest] as StripFit).stripLengthMm, strip.powerWPerM, strip.voltageV, load, 'tread.powerW'),
     {
       quantity: 'treadStrips.totalLoadW',
       value: round(totalLoadW),
       unit: 'W',
-      formula: 'Σ tread powers (every tread the same width)',
-      inputs: { treads: n, litTreads: fit.fits ? n : 0, treadPowerW: round(load.powerW) },
+      formula: byWidth.size > 1 ? 'Σ tread powers (each tread its own width)' : 'Σ tread powers (every tread the same width)',
+      inputs: { treads: n, litTreads: litPiecesMm.length, treadPowerW: round(load.powerW) },
       reference: 'arithmetic',
     },
     {
@@ -100,8 +181,16 @@ export function sizeTreadStrips(stair: StairGeometry, strip: TreadStripInput, se
   return {
     strip,
     fit,
+    narrowestWidthMm: widths[narrowest] as number,
     load,
-    litTreads: fit.fits ? n : 0,
+    largestFit: fits[largest] as StripFit,
+    fits,
+    loads,
+    litPiecesMm,
+    litPieceTreads,
+    litTreads: litPiecesMm.length - (landingFit.fits ? landings.length : 0),
+    landingLeads,
+    landingRows,
     allocation,
     runs,
     leads,
