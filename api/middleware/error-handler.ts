@@ -1,5 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
-import { SizingInputError } from '../../shared/sizing/errors.js';
+import { SizingInputError } from '../../shared/tables/errors.js';
 import { HttpProblem, problems, problemType } from '../problem.js';
 
 interface BodyParserError {

@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import { CONDUCTOR_TABLE_IDS } from '../sizing/tables/conductors.js';
-import { defaultTableFor, findConductor, type ConductorSize } from '../sizing/conductors.js';
-import { SizingInputError } from '../sizing/errors.js';
+import { CONDUCTOR_TABLE_IDS } from '../tables/conductors.js';
+import { defaultTableFor, findConductor, type ConductorSize } from '../tables/conductors.js';
+import { SizingInputError } from '../tables/errors.js';
 
 /** Pieces the voltage-drop and cable schemas share. */
 

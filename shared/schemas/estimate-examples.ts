@@ -2,16 +2,8 @@
  * Estimate requests from the demo scenario (invented customers, invented SKUs). The API docs,
  * the tests and the benchmark all start from these, so they stay one set of numbers.
  */
-import type { z } from 'zod';
-import type { catalogSchema } from './catalog.js';
-import type { railPixelsRequestSchema, treadPixelsRequestSchema, treadsAndRailRequestSchema, treadStripsRequestSchema } from './estimate.js';
-
-// Typed by layout: the union schema's own examples come from here.
-type TreadStripsBody = z.input<typeof treadStripsRequestSchema>;
-type RailPixelsBody = z.input<typeof railPixelsRequestSchema>;
-type TreadsAndRailBody = z.input<typeof treadsAndRailRequestSchema>;
-type TreadPixelsBody = z.input<typeof treadPixelsRequestSchema>;
-type CatalogBody = z.input<typeof catalogSchema>;
+// Plain data, imported by the estimate schema for its examples: nothing here imports the schema
+// back. tests/unit/estimate-examples.test.ts checks each against its schema's type and parse.
 
 /** HL-K20: 20 CV outputs at 1.5 A, one data output of 800 pixels, PNP inputs at 5 V / 12 mA. */
 export const hlK20Profile = {
@@ -41,7 +33,7 @@ export const alderRowTownhouse = {
   treadStrip: hlS2410Strip,
   controller: { profile: hlK20Profile },
   sensors: { motion: hlM05Motion },
-} satisfies TreadStripsBody;
+} as const;
 
 /** Alder Row corner unit: the stair turns at a 900 mm landing, 7 + 8 treads. */
 export const alderRowCornerUnit = {
@@ -50,7 +42,7 @@ export const alderRowCornerUnit = {
   treadStrip: hlS2410Strip,
   controller: { profile: hlK20Profile },
   sensors: { motion: hlM05Motion },
-} satisfies TreadStripsBody;
+} as const;
 
 /** Quayside Studio: 18 m office corridor, handrail pixel run, lights off above 80 lx of daylight. */
 export const quaysideCorridor = {
@@ -58,7 +50,7 @@ export const quaysideCorridor = {
   railPixels: { lengthM: 18, pixelsPerM: 60, voltageV: 5, protocol: 'one-wire-800k', brightnessPercent: 50, sku: 'HL-P05-60' },
   controller: { profile: hlK36Profile },
   sensors: { motion: hlM05Motion, daylightCutoffLux: 80 },
-} satisfies RailPixelsBody;
+} as const;
 
 /** Harbor Lane Lighting's catalog (EUR). Prices the scenario does not give are left out. */
 export const harborLaneCatalog = {
@@ -85,7 +77,7 @@ export const harborLaneCatalog = {
     { sku: 'HL-A100', kind: 'aluminium-profile', description: 'Aluminium profile with diffuser, 1 m', unitPrice: 8.5, lengthMm: 1000 },
     { sku: 'HL-E02', kind: 'end-caps', description: 'End caps, pair', unitPrice: 0.9 },
   ],
-} satisfies CatalogBody;
+} as const;
 
 /** Harbor Lane's product page: the Alder Row stair priced from the shop's own catalog. */
 export const harborLaneCheckout = {
@@ -95,7 +87,7 @@ export const harborLaneCheckout = {
   controller: { profileId: 'HL-K20' },
   sensors: { motion: hlM05Motion },
   catalog: harborLaneCatalog,
-} satisfies TreadStripsBody;
+} as const;
 
 /** Alder Row with a 24 V handrail pixel run that moves with the treads. */
 export const alderRowWithRail = {
@@ -105,7 +97,7 @@ export const alderRowWithRail = {
   railPixels: { lengthM: 4.5, pixelsPerM: 20, voltageV: 24, protocol: 'one-wire-800k', currentPerPixelMa: 12, sku: 'HL-P24-20' },
   controller: { profile: hlK20Profile },
   sensors: { motion: hlM05Motion },
-} satisfies TreadsAndRailBody;
+} as const;
 
 /** A pixel segment on every Alder Row tread, chained tread to tread. */
 export const alderRowTreadPixels = {
@@ -114,7 +106,7 @@ export const alderRowTreadPixels = {
   treadPixels: { pixelsPerM: 20, voltageV: 24, protocol: 'one-wire-800k', currentPerPixelMa: 12, cutPitchMm: 50, sku: 'HL-P24-20' },
   controller: { profile: hlK20Profile },
   sensors: { motion: hlM05Motion },
-} satisfies TreadPixelsBody;
+} as const;
 
 /**
  * The response to `alderRowTownhouse`, shortened for the API docs: three of the fourteen tread

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { flightsMismatch } from '../sizing/geometry.js';
+import { flightsMismatch } from '../tables/stair-flights.js';
 import { catalogSchema } from './catalog.js';
 import { engineVersionSchema, traceEntrySchema } from './common.js';
 import { conductorTableSchema, maxDropPercentSchema, temperatureSchema } from './conductor.js';

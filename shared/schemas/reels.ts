@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { cutLengthMm, DEFAULT_REEL_LENGTH_MM, usableReelMm } from '../sizing/reels.js';
+import { cutLengthMm, DEFAULT_REEL_LENGTH_MM, usableReelMm } from '../tables/cut-lengths.js';
 import { engineVersionSchema, traceEntrySchema, warningSchema } from './common.js';
 
 export const reelsRequestSchema = z

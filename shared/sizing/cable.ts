@@ -1,6 +1,6 @@
 import type { CableAlternative, CableInput, CableResult } from '../schemas/cable.js';
 import { conductorTable, correctForTemperature, DEFAULT_METRIC_TABLE, describeSize, sizeOfRow, type ConductorSize } from './conductors.js';
-import type { ConductorRow, ConductorTableId } from './tables/conductors.js';
+import type { ConductorRow, ConductorTableId } from '../tables/conductors.js';
 import { round, settingEntry, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
 import {

@@ -1,6 +1,6 @@
 import type { DriverGroup, DriverInput, DriverResult } from '../schemas/driver.js';
 import { splitIntoCircuits } from './driver-mix.js';
-import { SizingInputError } from './errors.js';
+import { SizingInputError } from '../tables/errors.js';
 import { round, settingEntry, type TraceEntry, type Warning } from './trace.js';
 import { ENGINE_VERSION } from './version.js';
 

@@ -1,4 +1,7 @@
-import { SizingInputError } from './errors.js';
+import { SizingInputError } from '../tables/errors.js';
+import { flightsMismatch } from '../tables/stair-flights.js';
+
+export { flightsMismatch };
 import { round, type TraceEntry } from './trace.js';
 
 /** Drop from the stringer to the strip's feed end, added to every run (domain default). */
@@ -48,12 +51,6 @@ export function stepLengthM(riserHeightMm: number, goingMm: number): number {
   return Math.hypot(riserHeightMm, goingMm) / 1000;
 }
 
-/** Message when the flights do not add up to the stair's treads, else null (for schema refines). */
-export function flightsMismatch(stair: Pick<StairGeometry, 'treads' | 'flights'>): string | null {
-  if (!stair.flights || stair.flights.length === 0) return null;
-  const total = stair.flights.reduce((sum, f) => sum + f.treads, 0);
-  return total === stair.treads ? null : `flights hold ${total} treads but the stair has ${stair.treads}`;
-}
 
 /**
  * Distance of each tread from tread 1 along the cable route, in metres.

@@ -1,7 +1,7 @@
 import { unit, type Unit } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { copperAlphaAt, correctForTemperature, resistanceOhmPerKm } from '../../shared/sizing/conductors.js';
-import { CONDUCTOR_TABLES, awgAreaMm2, awgDiameterMm } from '../../shared/sizing/tables/conductors.js';
+import { CONDUCTOR_TABLES, awgAreaMm2, awgDiameterMm } from '../../shared/tables/conductors.js';
 
 const M_PER_FT = 0.3048; // exact by definition (international foot, 1959)
 const toOhmPerKft = (ohmPerKm: number) => ohmPerKm * M_PER_FT;

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import type { CableAlternative } from '../../shared/schemas/cable.js';
 import { chooseCable, sizeFeeder, smallestSuitableConductor } from '../../shared/sizing/cable.js';
 import { resistanceOhmPerKm } from '../../shared/sizing/conductors.js';
-import { CONDUCTOR_TABLE_IDS } from '../../shared/sizing/tables/conductors.js';
+import { CONDUCTOR_TABLE_IDS } from '../../shared/tables/conductors.js';
 import { loopDropV } from '../../shared/sizing/voltage-drop.js';
 
 // Within the cable request schema's ranges, skewed to stair-sized runs so that every branch is hit.

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { awgCrossSectionMm2, findConductor, resistanceOhmPerKm, standardSizes } from '../../shared/sizing/conductors.js';
-import { SizingInputError } from '../../shared/sizing/errors.js';
-import { CONDUCTOR_TABLES, CONDUCTOR_TABLE_IDS } from '../../shared/sizing/tables/conductors.js';
+import { SizingInputError } from '../../shared/tables/errors.js';
+import { CONDUCTOR_TABLES, CONDUCTOR_TABLE_IDS } from '../../shared/tables/conductors.js';
 
 function thrown(f: () => unknown): SizingInputError {
   try {

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { splitIntoCircuits } from '../../shared/sizing/driver-mix.js';
 import { chooseDrivers, class2MaxVA, requiredRatingW } from '../../shared/sizing/drivers.js';
-import { SizingInputError } from '../../shared/sizing/errors.js';
+import { SizingInputError } from '../../shared/tables/errors.js';
 
 /**
  * Independent oracle for one supply per circuit: try 1, 2, 3 … equal circuits until some single

@@ -6,8 +6,8 @@ import { driverRequestSchema, driverResponseSchema } from '../../shared/schemas/
 import { voltageDropRequestSchema, voltageDropResponseSchema } from '../../shared/schemas/voltage-drop.js';
 import { chooseCable } from '../../shared/sizing/cable.js';
 import { chooseDrivers } from '../../shared/sizing/drivers.js';
-import { SizingInputError } from '../../shared/sizing/errors.js';
-import { CONDUCTOR_TABLES, CONDUCTOR_TABLE_IDS } from '../../shared/sizing/tables/conductors.js';
+import { SizingInputError } from '../../shared/tables/errors.js';
+import { CONDUCTOR_TABLES, CONDUCTOR_TABLE_IDS } from '../../shared/tables/conductors.js';
 import { voltageDrop } from '../../shared/sizing/voltage-drop.js';
 
 type Bounded = { minValue: number | null; maxValue: number | null };

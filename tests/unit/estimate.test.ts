@@ -1,9 +1,9 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { CONDUCTOR_TABLE_IDS } from '../../shared/sizing/tables/conductors.js';
+import { CONDUCTOR_TABLE_IDS } from '../../shared/tables/conductors.js';
 import { CHECK_IDS, estimateRequestSchema, estimateResponseSchema, type EstimateInput, type EstimateResult } from '../../shared/schemas/estimate.js';
 import { alderRowTownhouse, estimateExamples, harborLaneCatalog, hlK20Profile } from '../../shared/schemas/estimate-examples.js';
-import { SizingInputError } from '../../shared/sizing/errors.js';
+import { SizingInputError } from '../../shared/tables/errors.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
 
 // ---- generators: any request within the schema's ranges ------------------------------------

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { SizingInputError } from '../../shared/sizing/errors.js';
+import { SizingInputError } from '../../shared/tables/errors.js';
 import { bestControllerTread, cableRuns, flightsMismatch, type StairGeometry } from '../../shared/sizing/geometry.js';
 
 const stairs: fc.Arbitrary<StairGeometry> = fc

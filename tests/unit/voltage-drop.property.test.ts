@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { resistanceOhmPerKm, standardSizes } from '../../shared/sizing/conductors.js';
-import { CONDUCTOR_TABLE_IDS } from '../../shared/sizing/tables/conductors.js';
+import { CONDUCTOR_TABLE_IDS } from '../../shared/tables/conductors.js';
 import { loopDropV, voltageDrop } from '../../shared/sizing/voltage-drop.js';
 
 // Ranges of the voltage-drop request schema (currentA, lengthM: > 0 and ≤ 1000).

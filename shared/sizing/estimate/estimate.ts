@@ -22,7 +22,7 @@ import { applyResizedLeads, loadsOf, sizeSupplies } from './supply.js';
 import { sizeTreadPixels, type TreadPixelPart } from './tread-pixels.js';
 import { sizeTreadStrips, type TreadStripPart } from './tread-strips.js';
 
-export { SizingInputError } from '../errors.js';
+export { SizingInputError } from '../../tables/errors.js';
 
 /**
  * POST /v1/estimates: the whole stair (or corridor) sized on input the request schema has

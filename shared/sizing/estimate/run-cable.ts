@@ -1,6 +1,6 @@
 import { runResistanceOhmPerKm, smallestSuitableConductor } from '../cable.js';
 import { conductorTable, describeSize, sizeOfRow, type ConductorSize } from '../conductors.js';
-import type { ConductorRow } from '../tables/conductors.js';
+import type { ConductorRow } from '../../tables/conductors.js';
 import { dropPercentOf, loopDropV } from '../voltage-drop.js';
 import type { CableSettings } from './settings.js';
 

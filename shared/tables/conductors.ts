@@ -1,3 +1,4 @@
+import { SizingInputError } from './errors.js';
 /**
  * Copper conductor data the cable sizing reads: DC resistance at each table's reference
  * temperature and a current rating per size. Values are data, not code, so each row carries
@@ -206,3 +207,58 @@ export const CONDUCTOR_TABLES: Readonly<Record<ConductorTableId, ConductorTable>
     rows: necStrandedRows(),
   },
 };
+
+// ---- lookups shared by the request schemas and the engine ------------------------------------
+
+/** A conductor size as the API names it. */
+export type ConductorSize = { crossSectionMm2: number } | { awg: number };
+
+export const DEFAULT_METRIC_TABLE: ConductorTableId = 'iec60228-class5';
+export const DEFAULT_AWG_TABLE: ConductorTableId = 'awg-solid';
+
+
+export function isAwgSize(size: ConductorSize): size is { awg: number } {
+  return 'awg' in size;
+}
+
+/** The contract's default: IEC 60228 class 5 for a mm² size, ASTM solid for a gauge. */
+export function defaultTableFor(size: ConductorSize): ConductorTableId {
+  return isAwgSize(size) ? DEFAULT_AWG_TABLE : DEFAULT_METRIC_TABLE;
+}
+
+
+export function describeSize(size: ConductorSize): string {
+  if (!isAwgSize(size)) return `${size.crossSectionMm2} mm²`;
+  return size.awg === 0 ? '1/0 AWG' : `${size.awg} AWG`;
+}
+
+
+/**
+ * The row of `size` in the table, or a SizingInputError naming the field: `conductorTable` when
+ * the size system does not match the table, `<path>.crossSectionMm2` / `<path>.awg` when the table
+ * lacks the size.
+ */
+export function findConductor(tableId: ConductorTableId, size: ConductorSize, path: string[] = ['conductor']): ConductorRow {
+  const table = CONDUCTOR_TABLES[tableId];
+  const awg = isAwgSize(size);
+  if (awg !== (table.system === 'awg')) {
+    throw new SizingInputError(
+      ['conductorTable'],
+      `conductorTable "${tableId}" lists ${table.system === 'awg' ? 'AWG gauges' : 'mm² sizes'}; ` +
+        `give the conductor as ${table.system === 'awg' ? '{ awg }' : '{ crossSectionMm2 }'} or choose a ` +
+        `${awg ? 'AWG' : 'metric'} table`,
+      'conductor_table_mismatch',
+    );
+  }
+  const wanted = awg ? size.awg : size.crossSectionMm2;
+  const row = table.rows.find((r) => Math.abs(r.size - wanted) < 1e-9);
+  if (!row) {
+    const listed = table.rows.map((r) => r.size).join(', ');
+    throw new SizingInputError(
+      [...path, awg ? 'awg' : 'crossSectionMm2'],
+      `${describeSize(size)} is not in conductorTable "${tableId}" (sizes: ${listed})`,
+      'conductor_size_not_in_table',
+    );
+  }
+  return row;
+}
