@@ -25,7 +25,7 @@ async function usageWritten(server: ServerProcess): Promise<void> {
 describe('metering across a crash', () => {
   it('keeps the calls written before a SIGKILL: a crash costs fewer than USAGE_FLUSH_AFTER_CALLS', async () => {
     const first = await startServerProcess({ DATA_DIR: dataDir, LOG_LEVEL: 'debug', ...METER });
-    const key = /harbor-lane\s+secret\s+(tw_sec_\S+)/.exec(first.stdout())![1];
+    const key = /harbor-lane\s+server\s+(tw_server_\S+)/.exec(first.stdout())![1];
     for (let i = 0; i < 7; i++) expect((await sizeWith(first.url, key)).status).toBe(200);
     await usageWritten(first); // the write the fifth call started
     expect(await first.kill('SIGKILL')).toBe('SIGKILL');

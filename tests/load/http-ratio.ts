@@ -39,7 +39,7 @@ export async function measureHttp(): Promise<HttpFigures> {
       let text = '';
       server.stdout!.on('data', (d) => {
         text += d;
-        if (/running at/.test(text) && /harbor-lane\s+secret/.test(text)) resolve(text);
+        if (/running at/.test(text) && /harbor-lane\s+server/.test(text)) resolve(text);
       });
       server.once('exit', (code) => reject(new Error(`server exited with ${code}`)));
     });
