@@ -48,7 +48,7 @@ export async function measureHttp(): Promise<HttpFigures> {
     const password = /Demo password for every demo account: (\S+)/.exec(out)![1];
     const session = await json(`${base}/v1/auth/sign-in`, { method: 'POST', body: JSON.stringify({ email: 'ops@treadwise.test', password }) });
     const orgs = await json(`${base}/v1/organizations?limit=100`, { headers: { authorization: `Bearer ${session.accessToken}` } });
-    const harbor = orgs.data.find((o: { slug: string }) => o.slug === 'harbor-lane');
+    const harbor = orgs.items.find((o: { slug: string }) => o.slug === 'harbor-lane');
     await json(`${base}/v1/organizations/${harbor.id}`, { method: 'PATCH', headers: { authorization: `Bearer ${session.accessToken}` }, body: JSON.stringify({ planId: 'platform' }) });
 
     const drop = { method: 'POST' as const, body: VOLTAGE_DROP_BODY, headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` } };
