@@ -300,7 +300,7 @@ describe('embed keys in the browser', () => {
 });
 
 describe('isolation between organisations', () => {
-  it('never shows, rolls or revokes another organisation’s key (404)', async () => {
+  it('never shows, rotates or revokes another organisation’s key (404)', async () => {
     const { key } = await newSecretKey();
     await as(managerB).get(`/v1/keys/${key.id}`).expect(404);
     await as(managerB).post(`/v1/keys/${key.id}/rotate`, {}).expect(404);

@@ -6,7 +6,7 @@ import { createTestApp, type TestApp } from '../support/test-app.js';
 
 // The "done when", end to end through the API only: a shop admin is invited, signs in,
 // creates a embed key for the shop's origin and a secret key, sizes a stair with each,
-// sees the calls counted, hits the rate limit, and rolls and revokes keys.
+// sees the calls counted, hits the rate limit, and rotates and revokes keys.
 let now = new Date('2026-12-01T09:00:00Z');
 let t: TestApp;
 beforeAll(async () => {
