@@ -658,16 +658,19 @@ const cvOutputSchema = z
 const dataOutputSchema = z
   .object({
     controller: z.int(),
-    output: z.int(),
+    output: z.int().meta({ description: 'The data output of this controller (the first of the row’s range).' }),
+    lastOutput: z.int().meta({ description: 'Added field: the last output of the row’s range; equal to `output` for a row of one.' }),
+    count: z.int().meta({ description: 'Added field: identical outputs in this row (lastOutput − output + 1), each driving `pixels` pixels.' }),
     run: z.enum(['rail', 'treads']),
-    pixels: z.int(),
+    pixels: z.int().meta({ description: 'Pixels on each output of the row.' }),
     firstTread: z.int().nullable(),
     lastTread: z.int().nullable(),
   })
   .meta({
     id: 'EstimateDataOutput',
-    description: 'One pixel data output.',
-    example: { controller: 1, output: 1, run: 'rail', pixels: 540, firstTread: null, lastTread: null },
+    description:
+      'Pixel data outputs: one row per range of consecutive outputs of one controller that drive the same number of rail pixels (a tread output, which names its treads, is a row of its own). The rows of a controller add up to its outputs in use.',
+    example: { controller: 1, output: 1, lastOutput: 2, count: 2, run: 'rail', pixels: 540, firstTread: null, lastTread: null },
   });
 
 export const estimateOutputsSchema = z
@@ -681,7 +684,7 @@ export const estimateOutputsSchema = z
     maxOutputCurrentA: z.number().meta({ description: 'Current of the busiest CV output, A.' }),
     cv: z.array(cvOutputSchema),
     dataOutputsPerController: z.int(),
-    data: z.array(dataOutputSchema),
+    data: z.array(dataOutputSchema).meta({ description: 'Data outputs in use, identical neighbours summarised in one row (see EstimateDataOutput).' }),
   })
   .meta({ id: 'EstimateOutputs', description: 'Controllers and their outputs.', example: alderRowTownhouseResponse.outputs });
 
