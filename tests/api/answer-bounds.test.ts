@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { problemSchema } from '../../shared/schemas/problem.js';
 import { estimateExamples } from '../../shared/schemas/estimate-examples.js';
 import {
+  MAX_ANSWER_BYTES,
   MAX_CURRENT_PER_PIXEL_MA,
   MAX_PIXELS_PER_M,
   MAX_PIXELS_PER_RUN,
@@ -90,5 +91,30 @@ describe('every dimension that multiplies the answer is bounded (issue 9, item 2
     const railDoc = doc.components.schemas.RailPixels.properties;
     expect(railDoc.lengthM.maximum).toBe(MAX_RAIL_LENGTH_M);
     expect(railDoc.pixelsPerM.description).toContain(String(MAX_PIXELS_PER_RUN));
+  });
+});
+
+describe('an answer over the ceiling is a 422 answer_too_large (issue 9, item 2)', () => {
+  // The largest run the limits allow, fed at 1 A per feed point: 20 000 pixels × 300 mA = 6 000 A,
+  // so 6 000 feed points, each a feeder row (arithmetic) — a valid design, but megabytes of answer.
+  const hugeButValid = {
+    layout: 'rail-pixels',
+    railPixels: { lengthM: MAX_RAIL_LENGTH_M, pixelsPerM: 100, voltageV: 5, protocol: 'one-wire-800k', currentPerPixelMa: MAX_CURRENT_PER_PIXEL_MA, maxFeedCurrentA: MIN_FEED_CURRENT_A, maxFeedLengthM: 1 },
+    controller: { profile: { outputs: 0, maxCurrentPerOutputA: 1, dataOutputs: 8, maxPixelsPerOutput: 1000 } },
+  };
+
+  it('is a 422 problem naming the size and the ceiling, with the request id', async () => {
+    const res = await post('/v1/estimates', hugeButValid).expect(422);
+    expect(res.headers['content-type']).toContain('application/problem+json');
+    const problem = problemSchema.parse(res.body);
+    expect(problem.code).toBe('answer_too_large');
+    expect(problem.detail).toContain(String(MAX_ANSWER_BYTES));
+    expect(problem.requestId).toBe(res.headers['x-request-id']);
+  });
+
+  it('a design that merely fails checks stays a 200', async () => {
+    const res = await post('/v1/estimates', rail({ maxFeedCurrentA: MIN_FEED_CURRENT_A })).expect(200);
+    expect((res.body.checks as { status: string }[]).some((c) => c.status === 'fail')).toBe(true);
+    expect(res.headers['content-type']).toMatch(/^application\/json; charset=utf-8/);
   });
 });
