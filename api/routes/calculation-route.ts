@@ -1,5 +1,5 @@
 import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi';
-import type { Router } from 'express';
+import type { RequestHandler, Router } from 'express';
 import type { z } from 'zod';
 import { MAX_ANSWER_BYTES } from '../../shared/tables/limits.js';
 import { validateBody } from '../middleware/validate.js';
@@ -16,6 +16,8 @@ export interface Calculation<Req extends z.ZodType, Res extends z.ZodType> {
   request: Req;
   response: Res;
   compute(input: z.output<Req>): z.output<Res>;
+  /** Work units the call costs against the per-key cost budget, from the validated body. Default 1. */
+  cost?(input: z.output<Req>): number;
   /** Replaces the standard closing paragraph of the description. */
   notes?: string;
 }
@@ -49,9 +51,14 @@ export function serializeAnswer(answer: unknown): string {
   return body;
 }
 
-/** Mounts `POST <path>` on the router: parse → compute → answer. */
-export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation): void {
-  router.post(calc.path.slice(basePath.length) || '/', validateBody(calc.request), (_req, res) => {
+/** Charges a call's cost to the caller's budget before the engine runs (api/middleware/cost-budget.ts). */
+export type CostCharger = (costOf: (body: never) => number) => RequestHandler;
+
+const ONE_UNIT = () => 1;
+
+/** Mounts `POST <path>` on the router: parse → charge its cost → compute → answer. */
+export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation, charge: CostCharger): void {
+  router.post(calc.path.slice(basePath.length) || '/', validateBody(calc.request), charge(calc.cost ?? ONE_UNIT), (_req, res) => {
     res.type('application/json').send(serializeAnswer(calc.compute(res.locals.body)));
   });
 }
@@ -72,7 +79,10 @@ export function documentCalculation(registry: OpenAPIRegistry, calc: AnyCalculat
       401: problemResponse('No or invalid credentials.'),
       403: problemResponse('The key lacks sizing:run, its origin is not allowed, or the user is not an estimator.'),
       422: problemResponse(`A valid design whose answer would pass the ${MAX_ANSWER_BYTES}-byte ceiling (\`answer_too_large\`): size it in parts.`),
-      429: problemResponse('Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After.'),
+      429: problemResponse(
+        'Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. ' +
+          'The cost budget counts work units per key and minute: 1 per call, plus 1 per tread or lit landing, per 10 pixels, per 10 catalog items and per reel piece sized (the "cost" entry of RateLimit-Policy).',
+      ),
     },
   });
 }
