@@ -1,3 +1,4 @@
+import compression from 'compression';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
@@ -7,6 +8,7 @@ import type { AppDeps } from './deps.js';
 import { createServices, type Services } from './services/container.js';
 import { cors } from './middleware/cors.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
+import { COMPRESS_ABOVE_BYTES } from './middleware/compress.js';
 import { jsonBodyOnly } from './middleware/json-body.js';
 import { trafficMiddleware } from './middleware/rate-limit.js';
 import { requestId } from './middleware/request-id.js';
@@ -40,6 +42,9 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   // The demo serves plain HTTP on localhost; don't ask browsers to upgrade to HTTPS.
   app.use(helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
   app.use(docsRouter(deps.config)); // after helmet: /docs replaces the CSP with its own
+  // API answers over 1 kB go gzip/deflate/br to clients that accept it (an estimate shrinks ~10×);
+  // problem+json too. The body a client decodes is unchanged, so idempotent replays stay identical.
+  app.use('/v1', compression({ threshold: COMPRESS_ABOVE_BYTES }));
   app.use('/v1', jsonBodyOnly); // 415 for other types and encodings, before the parser runs
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 

@@ -32,6 +32,11 @@ export const plans = pgTable('plans', {
   ratePerMinute: integer('rate_per_minute').notNull(),
   /** Active (not revoked, not expired) API keys an organisation on this plan may hold. */
   maxApiKeys: integer('max_api_keys').notNull().default(5),
+  /**
+   * Sizing work units one key may spend per minute (the cost budget beside ratePerMinute): a call
+   * costs 1 plus the treads, landings, reel pieces and tenths of pixels it sizes (api/middleware/cost-budget.ts).
+   */
+  costPerMinute: integer('cost_per_minute').notNull().default(5000),
   createdAt: createdAt(),
 });
 

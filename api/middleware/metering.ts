@@ -10,7 +10,7 @@ import type { QuotaTicket } from '../services/quotas.js';
 interface TrafficLocals {
   trafficAt?: Date;
   /** Set by a limiter that refused the call: metered, not billed. */
-  limitedBy?: 'rate_limited' | 'quota_exceeded';
+  limitedBy?: 'rate_limited' | 'quota_exceeded' | 'cost_budget_exceeded';
   quotaTicket?: QuotaTicket;
   metered?: boolean;
 }

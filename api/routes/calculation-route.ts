@@ -1,7 +1,9 @@
 import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi';
-import type { Router } from 'express';
+import type { RequestHandler, Router } from 'express';
 import type { z } from 'zod';
+import { MAX_ANSWER_BYTES } from '../../shared/tables/limits.js';
 import { validateBody } from '../middleware/validate.js';
+import { HttpProblem } from '../problem.js';
 import { problemResponse } from '../openapi/document.js';
 
 /** One stateless sizing endpoint: a request schema, a pure engine function, a response schema. */
@@ -14,6 +16,8 @@ export interface Calculation<Req extends z.ZodType, Res extends z.ZodType> {
   request: Req;
   response: Res;
   compute(input: z.output<Req>): z.output<Res>;
+  /** Work units the call costs against the per-key cost budget, from the validated body. Default 1. */
+  cost?(input: z.output<Req>): number;
   /** Replaces the standard closing paragraph of the description. */
   notes?: string;
 }
@@ -29,10 +33,33 @@ const CALCULATION_NOTES =
   'Only malformed or impossible input is a 400, with `errors[].path` naming each field. ' +
   'Every response carries `engineVersion` and a `trace` of how each headline number was derived.';
 
-/** Mounts `POST <path>` on the router: parse → compute → answer. */
-export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation): void {
-  router.post(calc.path.slice(basePath.length) || '/', validateBody(calc.request), (_req, res) => {
-    res.json(calc.compute(res.locals.body));
+/**
+ * The answer serialized once, measured where it is built: a valid design whose answer would pass
+ * MAX_ANSWER_BYTES is a 422 rather than megabytes on the wire (a design that fails checks is a 200).
+ */
+export function serializeAnswer(answer: unknown): string {
+  const body = JSON.stringify(answer);
+  const bytes = Buffer.byteLength(body);
+  if (bytes > MAX_ANSWER_BYTES) {
+    throw new HttpProblem(
+      422,
+      'answer_too_large',
+      'Answer too large',
+      `The answer would be ${bytes} bytes, over the ${MAX_ANSWER_BYTES}-byte ceiling. Size the run in parts (fewer pixels or treads per request), or use longer feed lengths or higher feed currents.`,
+    );
+  }
+  return body;
+}
+
+/** Charges a call's cost to the caller's budget before the engine runs (api/middleware/cost-budget.ts). */
+export type CostCharger = (costOf: (body: never) => number) => RequestHandler;
+
+const ONE_UNIT = () => 1;
+
+/** Mounts `POST <path>` on the router: parse → charge its cost → compute → answer. */
+export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation, charge: CostCharger): void {
+  router.post(calc.path.slice(basePath.length) || '/', validateBody(calc.request), charge(calc.cost ?? ONE_UNIT), (_req, res) => {
+    res.type('application/json').send(serializeAnswer(calc.compute(res.locals.body)));
   });
 }
 
@@ -51,7 +78,11 @@ export function documentCalculation(registry: OpenAPIRegistry, calc: AnyCalculat
       400: problemResponse('Malformed JSON or input outside the schema (`code: validation_failed`, with `errors[].path`).'),
       401: problemResponse('No or invalid credentials.'),
       403: problemResponse('The key lacks sizing:run, its origin is not allowed, or the user is not an estimator.'),
-      429: problemResponse('Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After.'),
+      422: problemResponse(`A valid design whose answer would pass the ${MAX_ANSWER_BYTES}-byte ceiling (\`answer_too_large\`): size it in parts.`),
+      429: problemResponse(
+        'Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. ' +
+          'The cost budget counts work units per key and minute: 1 per call, plus 1 per tread or lit landing, per 10 pixels, per 10 catalog items and per reel piece sized (the "cost" entry of RateLimit-Policy).',
+      ),
     },
   });
 }

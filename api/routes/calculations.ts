@@ -10,6 +10,8 @@ import { pixelData } from '../../shared/sizing/pixels.js';
 import { planReels } from '../../shared/sizing/reels.js';
 import { voltageDrop } from '../../shared/sizing/voltage-drop.js';
 import { defineCalculation, documentCalculation, mountCalculation } from './calculation-route.js';
+import { reelsCost } from './sizing-costs.js';
+import { costBudget } from '../middleware/cost-budget.js';
 import type { RouteModule } from './route-module.js';
 
 const BASE = '/v1/calculations';
@@ -75,14 +77,16 @@ const calculations = [
     request: reelsRequestSchema,
     response: reelsResponseSchema,
     compute: planReels,
+    cost: reelsCost,
   }),
 ];
 
 export const calculationRoutes: RouteModule = {
   basePath: BASE,
-  router() {
+  router(deps, services) {
     const router = Router();
-    for (const calc of calculations) mountCalculation(router, BASE, calc);
+    const charge = costBudget(services, deps.logger);
+    for (const calc of calculations) mountCalculation(router, BASE, calc, charge);
     return router;
   },
   docs(registry) {

@@ -2,6 +2,8 @@ import { Router } from 'express';
 import { estimateRequestSchema, estimateResponseSchema } from '../../shared/schemas/estimate.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
 import { defineCalculation, documentCalculation, mountCalculation } from './calculation-route.js';
+import { estimateCost } from './sizing-costs.js';
+import { costBudget } from '../middleware/cost-budget.js';
 import type { RouteModule } from './route-module.js';
 
 const BASE = '/v1/estimates';
@@ -25,13 +27,15 @@ const estimateCalculation = defineCalculation({
   request: estimateRequestSchema,
   response: estimateResponseSchema,
   compute: estimate,
+  cost: estimateCost,
 });
 
 export const estimateRoutes: RouteModule = {
   basePath: BASE,
-  router() {
+  router(deps, services) {
     const router = Router();
-    mountCalculation(router, BASE, estimateCalculation);
+    const charge = costBudget(services, deps.logger);
+    mountCalculation(router, BASE, estimateCalculation, charge);
     return router;
   },
   docs(registry) {

@@ -8,6 +8,8 @@ export interface Plan {
   monthlyQuota: number;
   ratePerMinute: number;
   maxApiKeys: number;
+  /** Sizing work units one key may spend per minute (the cost budget). */
+  costPerMinute: number;
 }
 
 interface Entry {
@@ -25,7 +27,7 @@ export function createPlanService({ db, clock, ttlMs = 60_000 }: { db: Db; clock
 
   const load = async (organizationId: string): Promise<Plan> => {
     const [row] = await db
-      .select({ id: plans.id, name: plans.name, monthlyQuota: plans.monthlyQuota, ratePerMinute: plans.ratePerMinute, maxApiKeys: plans.maxApiKeys })
+      .select({ id: plans.id, name: plans.name, monthlyQuota: plans.monthlyQuota, ratePerMinute: plans.ratePerMinute, maxApiKeys: plans.maxApiKeys, costPerMinute: plans.costPerMinute })
       .from(organizations)
       .innerJoin(plans, eq(plans.id, organizations.planId))
       .where(eq(organizations.id, organizationId));

@@ -85,7 +85,7 @@ export const cableResponseSchema = z
         { crossSectionMm2: 0.75, areaMm2: 0.75, dropV: 0.0493, dropPercent: 0.2056, currentRatingA: 6, withinLimit: true, carriesCurrent: true, meetsMinimum: true },
       ],
       warnings: [],
-      engineVersion: '2.0.0',
+      engineVersion: '2.1.0',
       trace: [
         {
           quantity: 'recommended',

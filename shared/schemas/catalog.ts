@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { MAX_CATALOG_ITEMS, MAX_PIXELS_PER_M } from '../tables/limits.js';
 import { controllerProfileSchema } from './controller.js';
 import { pixelProtocolSchema } from './pixels.js';
 
@@ -67,7 +68,7 @@ export const catalogPixelStripSchema = z
     ...base,
     kind: z.literal('pixel-strip'),
     voltageV: z.number().positive().max(1000).meta({ description: 'Strip voltage, V DC.' }),
-    pixelsPerM: z.number().positive().max(1000).meta({ description: 'Pixels (driver ICs) per metre.' }),
+    pixelsPerM: z.number().positive().max(MAX_PIXELS_PER_M).meta({ description: `Pixels (driver ICs) per metre (at most ${MAX_PIXELS_PER_M}).` }),
     protocol: pixelProtocolSchema.optional(),
     reelLengthMm,
   })
@@ -171,7 +172,7 @@ export const catalogSchema = z
       .string()
       .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
       .meta({ description: 'ISO 4217 currency of every unitPrice.', example: 'EUR' }),
-    items: z.array(catalogItemSchema).min(1).max(1000),
+    items: z.array(catalogItemSchema).min(1).max(MAX_CATALOG_ITEMS).meta({ description: `The catalog's items, at most ${MAX_CATALOG_ITEMS}.` }),
   })
   .superRefine((catalog, ctx) => {
     const digits = minorUnitDigits(catalog.currency);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { MAX_CV_OUTPUTS_PER_CONTROLLER, MAX_DATA_OUTPUTS_PER_CONTROLLER, MAX_PIXELS_PER_DATA_OUTPUT, MAX_TREADS, MIN_PIXELS_PER_DATA_OUTPUT } from '../tables/limits.js';
 
 export const sensorInputSchema = z
   .object({
@@ -16,12 +17,17 @@ export const sensorInputSchema = z
 
 export const controllerProfileSchema = z
   .object({
-    outputs: z.int().min(0).max(512).meta({ description: 'Constant-voltage outputs (channels), one tread each by default.' }),
+    outputs: z.int().min(0).max(MAX_CV_OUTPUTS_PER_CONTROLLER).meta({ description: `Constant-voltage outputs (channels), one tread each by default (at most ${MAX_CV_OUTPUTS_PER_CONTROLLER}).` }),
     maxCurrentPerOutputA: z.number().positive().max(100).meta({ description: 'Largest current one CV output may carry, A.' }),
-    dataOutputs: z.int().min(0).max(64).optional().meta({ description: 'Pixel data outputs.' }),
-    maxPixelsPerOutput: z.int().min(1).max(100_000).optional().meta({ description: 'Most pixels one data output can drive.' }),
-    minTreads: z.int().min(1).max(512).optional().meta({ description: 'Fewest treads the controller supports.' }),
-    maxTreads: z.int().min(1).max(512).optional().meta({ description: 'Most treads the controller supports.' }),
+    dataOutputs: z.int().min(0).max(MAX_DATA_OUTPUTS_PER_CONTROLLER).optional().meta({ description: `Pixel data outputs (at most ${MAX_DATA_OUTPUTS_PER_CONTROLLER}).` }),
+    maxPixelsPerOutput: z
+      .int()
+      .min(MIN_PIXELS_PER_DATA_OUTPUT)
+      .max(MAX_PIXELS_PER_DATA_OUTPUT)
+      .optional()
+      .meta({ description: `Most pixels one data output can drive (${MIN_PIXELS_PER_DATA_OUTPUT} to ${MAX_PIXELS_PER_DATA_OUTPUT}).` }),
+    minTreads: z.int().min(1).max(MAX_TREADS).optional().meta({ description: 'Fewest treads the controller supports.' }),
+    maxTreads: z.int().min(1).max(MAX_TREADS).optional().meta({ description: 'Most treads the controller supports.' }),
     maxInputCurrentA: z.number().positive().max(1000).optional().meta({ description: 'Largest total current into the controller, A.' }),
     sensorInput: sensorInputSchema.optional(),
     // Added for issue 8 (data lines, sensors):

@@ -92,7 +92,7 @@ export const driverResponseSchema = z
       maxSupplyW: null,
       unusableRatingsW: [],
       warnings: [],
-      engineVersion: '2.0.0',
+      engineVersion: '2.1.0',
       trace: [
         {
           quantity: 'requiredRatingW',

@@ -113,7 +113,7 @@ export const alderRowTreadPixels = {
  * rows, two of the CV outputs and a few trace entries. A unit test keeps it in step with the engine.
  */
 export const alderRowTownhouseResponse = {
-  engineVersion: '2.0.0',
+  engineVersion: '2.1.0',
   layout: 'tread-strips',
   summary: {
     treads: 14,

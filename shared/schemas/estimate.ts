@@ -1,5 +1,15 @@
 import { z } from 'zod';
 import { flightsMismatch } from '../tables/stair-flights.js';
+import {
+  MAX_CURRENT_PER_PIXEL_MA,
+  MAX_FLIGHTS,
+  MAX_PIXELS_PER_M,
+  MAX_PIXELS_PER_RUN,
+  MAX_RAIL_LENGTH_M,
+  MAX_TREADS,
+  MIN_FEED_CURRENT_A,
+  MIN_FEED_LENGTH_M,
+} from '../tables/limits.js';
 import { catalogSchema } from './catalog.js';
 import { engineVersionSchema, traceEntrySchema } from './common.js';
 import { conductorTableSchema, maxDropPercentSchema, temperatureSchema } from './conductor.js';
@@ -22,7 +32,7 @@ import {
 // Request: POST /v1/estimates
 // ---------------------------------------------------------------------------------------------
 
-export const MAX_TREADS = 200;
+export { MAX_TREADS };
 
 const flightSchema = z
   .object({
@@ -38,11 +48,11 @@ const flightSchema = z
 
 export const staircaseSchema = z
   .object({
-    treads: z.int().min(1).max(MAX_TREADS).meta({ description: 'Treads in the whole stair, numbered from 1 at the foot.' }),
+    treads: z.int().min(1).max(MAX_TREADS).meta({ description: `Treads in the whole stair, numbered from 1 at the foot (at most ${MAX_TREADS}).` }),
     treadWidthMm: z.number().min(100).max(5000).meta({ description: 'Tread width, side to side, mm.' }),
     riserHeightMm: z.number().min(50).max(400).meta({ description: 'Riser height, mm.' }),
     goingMm: z.number().min(50).max(1000).meta({ description: 'Going (tread depth, front to back), mm.' }),
-    flights: z.array(flightSchema).min(1).max(20).optional().meta({ description: 'Flights foot first; they must add up to `treads`. Default: one straight flight.' }),
+    flights: z.array(flightSchema).min(1).max(MAX_FLIGHTS).optional().meta({ description: `Flights foot first; they must add up to \`treads\`. Default: one straight flight. At most ${MAX_FLIGHTS}.` }),
     treadWidthsMm: z
       .array(z.number().min(100).max(5000))
       .min(1)
@@ -97,16 +107,20 @@ export const treadStripSchema = z
   .meta({ id: 'TreadStrip', description: 'The constant-voltage strip fitted on each tread.', example: { voltageV: 24, powerWPerM: 10, cutPitchMm: 50, sku: 'HL-S24-10' } });
 
 const pixelCommon = {
-  pixelsPerM: z.number().min(1).max(500).meta({ description: 'Pixels (driver ICs) per metre; on 12 V / 24 V strip one pixel often drives 3 or 6 LEDs.' }),
+  pixelsPerM: z
+    .number()
+    .min(1)
+    .max(MAX_PIXELS_PER_M)
+    .meta({ description: `Pixels (driver ICs) per metre; on 12 V / 24 V strip one pixel often drives 3 or 6 LEDs. At most ${MAX_PIXELS_PER_M}; the whole run holds at most ${MAX_PIXELS_PER_RUN} pixels.` }),
   voltageV: z.number().min(1).max(60).meta({ description: 'Strip voltage, V DC.' }),
   protocol: pixelProtocolSchema,
   bitsPerPixel: z.literal([24, 32]).optional().meta({ description: 'One-wire bits per pixel: 24 RGB, 32 RGBW.', default: 24 }),
   currentPerPixelMa: z
     .number()
     .min(0)
-    .max(1000)
+    .max(MAX_CURRENT_PER_PIXEL_MA)
     .optional()
-    .meta({ description: 'Current of one pixel at full white, mA. Default 60 (a 5 V RGB pixel).', default: 60 }),
+    .meta({ description: `Current of one pixel at full white, mA (at most ${MAX_CURRENT_PER_PIXEL_MA}). Default 60 (a 5 V RGB pixel).`, default: 60 }),
   brightnessPercent: z
     .number()
     .min(1)
@@ -115,10 +129,10 @@ const pixelCommon = {
     .meta({ description: 'Added field: brightness cap the controller enforces; current scales linearly. Default 100.', default: 100 }),
   maxFeedLengthM: z
     .number()
-    .min(0.1)
+    .min(MIN_FEED_LENGTH_M)
     .max(100)
     .optional()
-    .meta({ description: 'Longest strip the datasheet allows from one feed point, m. Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory).' }),
+    .meta({ description: `Longest strip the datasheet allows from one feed point, m (at least ${MIN_FEED_LENGTH_M}). Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory).` }),
   sku: skuField,
   // Added for issue 8 (pixel current defaults, brightness cap, clocked timing, data lines, feed points):
   powerWPerM: z
@@ -158,15 +172,19 @@ const pixelCommon = {
     .meta({ description: 'Added field: longest unbuffered one-wire data gap from one pixel to the next (tread to tread), m. Default 2 (about 1–2 m, from memory).', default: 2 }),
   maxFeedCurrentA: z
     .number()
-    .min(0.1)
+    .min(MIN_FEED_CURRENT_A)
     .max(100)
     .optional()
-    .meta({ description: 'Added field: most current one feed point may push into the strip copper, A (strip datasheet). Default 5 A (common practice, from memory).', default: 5 }),
+    .meta({ description: `Added field: most current one feed point may push into the strip copper, A (strip datasheet; at least ${MIN_FEED_CURRENT_A}). Default 5 A (common practice, from memory).`, default: 5 }),
 };
 
 export const railPixelsSchema = z
   .object({
-    lengthM: z.number().min(0.1).max(500).meta({ description: 'Length of the rail (handrail, skirting or corridor wall) run, m.' }),
+    lengthM: z
+      .number()
+      .min(0.1)
+      .max(MAX_RAIL_LENGTH_M)
+      .meta({ description: `Length of the rail (handrail, skirting or corridor wall) run, m (at most ${MAX_RAIL_LENGTH_M}).` }),
     ...pixelCommon,
     dataLeadM: z
       .number()
@@ -391,11 +409,36 @@ type CrossCheckable = {
   sensors?: { joinedLandings?: number[] | undefined } | undefined;
   reels?: { reelLengthMm?: number | undefined } | undefined;
   treadStrip?: { cutPitchMm: number } | undefined;
-  treadPixels?: { cutPitchMm?: number | undefined } | undefined;
+  treadPixels?: { cutPitchMm?: number | undefined; pixelsPerM: number } | undefined;
+  railPixels?: { lengthM: number; pixelsPerM: number } | undefined;
 };
+
+/** Pixels a run of this length and density holds, before any grouping (the engine's floor(lengthM × pixelsPerM)). */
+const pixelsIn = (lengthM: number, pixelsPerM: number) => Math.floor(lengthM * pixelsPerM + 1e-9);
+
+/** Every pixel run within MAX_PIXELS_PER_RUN: the answer and the work grow with the pixels. */
+function pixelBounds(value: CrossCheckable & { staircase?: { treads: number; treadWidthMm?: number; treadWidthsMm?: number[] | undefined } | undefined }, ctx: z.RefinementCtx): void {
+  const rail = value.railPixels;
+  if (rail && pixelsIn(rail.lengthM, rail.pixelsPerM) > MAX_PIXELS_PER_RUN) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['railPixels', 'pixelsPerM'],
+      message: `the rail would hold ${pixelsIn(rail.lengthM, rail.pixelsPerM)} pixels; at most ${MAX_PIXELS_PER_RUN} in one run (split it into several estimates)`,
+    });
+  }
+  const stair = value.staircase;
+  if (value.treadPixels && stair?.treadWidthMm !== undefined) {
+    const widthM = (stair.treadWidthsMm ?? Array.from({ length: stair.treads }, () => stair.treadWidthMm as number)).reduce((sum, mm) => sum + mm, 0) / 1000;
+    const pixels = pixelsIn(widthM, value.treadPixels.pixelsPerM);
+    if (pixels > MAX_PIXELS_PER_RUN) {
+      ctx.addIssue({ code: 'custom', path: ['treadPixels', 'pixelsPerM'], message: `the treads would hold about ${pixels} pixels; at most ${MAX_PIXELS_PER_RUN} in one run` });
+    }
+  }
+}
 
 /** Fields that only make sense against the stair they belong to. */
 function crossCheck(value: CrossCheckable, ctx: z.RefinementCtx): void {
+  pixelBounds(value, ctx);
   const position = value.controller.position;
   const treads = value.staircase?.treads;
   if (position && typeof position === 'object' && treads !== undefined && position.tread > treads) {
@@ -615,16 +658,19 @@ const cvOutputSchema = z
 const dataOutputSchema = z
   .object({
     controller: z.int(),
-    output: z.int(),
+    output: z.int().meta({ description: 'The data output of this controller (the first of the row’s range).' }),
+    lastOutput: z.int().meta({ description: 'Added field: the last output of the row’s range; equal to `output` for a row of one.' }),
+    count: z.int().meta({ description: 'Added field: identical outputs in this row (lastOutput − output + 1), each driving `pixels` pixels.' }),
     run: z.enum(['rail', 'treads']),
-    pixels: z.int(),
+    pixels: z.int().meta({ description: 'Pixels on each output of the row.' }),
     firstTread: z.int().nullable(),
     lastTread: z.int().nullable(),
   })
   .meta({
     id: 'EstimateDataOutput',
-    description: 'One pixel data output.',
-    example: { controller: 1, output: 1, run: 'rail', pixels: 540, firstTread: null, lastTread: null },
+    description:
+      'Pixel data outputs: one row per range of consecutive outputs of one controller that drive the same number of rail pixels (a tread output, which names its treads, is a row of its own). The rows of a controller add up to its outputs in use.',
+    example: { controller: 1, output: 1, lastOutput: 2, count: 2, run: 'rail', pixels: 540, firstTread: null, lastTread: null },
   });
 
 export const estimateOutputsSchema = z
@@ -638,7 +684,7 @@ export const estimateOutputsSchema = z
     maxOutputCurrentA: z.number().meta({ description: 'Current of the busiest CV output, A.' }),
     cv: z.array(cvOutputSchema),
     dataOutputsPerController: z.int(),
-    data: z.array(dataOutputSchema),
+    data: z.array(dataOutputSchema).meta({ description: 'Data outputs in use, identical neighbours summarised in one row (see EstimateDataOutput).' }),
   })
   .meta({ id: 'EstimateOutputs', description: 'Controllers and their outputs.', example: alderRowTownhouseResponse.outputs });
 

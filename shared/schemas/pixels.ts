@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { MAX_CURRENT_PER_PIXEL_MA, MAX_PIXELS_PER_DATA_OUTPUT, MAX_PIXELS_PER_RUN } from '../tables/limits.js';
 import { engineVersionSchema, traceEntrySchema, warningSchema } from './common.js';
 
 export const pixelProtocolSchema = z.enum(['one-wire-800k', 'one-wire-400k', 'clocked']).meta({
@@ -8,7 +9,7 @@ export const pixelProtocolSchema = z.enum(['one-wire-800k', 'one-wire-400k', 'cl
 
 export const pixelsRequestSchema = z
   .object({
-    pixels: z.int().min(1).max(100_000).meta({ description: 'Pixels (driver ICs) on the run.' }),
+    pixels: z.int().min(1).max(MAX_PIXELS_PER_RUN).meta({ description: `Pixels (driver ICs) on the run (at most ${MAX_PIXELS_PER_RUN}).` }),
     protocol: pixelProtocolSchema,
     bitsPerPixel: z
       .literal([24, 32])
@@ -32,13 +33,13 @@ export const pixelsRequestSchema = z
     maxPixelsPerOutput: z
       .int()
       .min(1)
-      .max(100_000)
+      .max(MAX_PIXELS_PER_DATA_OUTPUT)
       .optional()
-      .meta({ description: "Most pixels one data output drives (the controller's limit)." }),
+      .meta({ description: `Most pixels one data output drives (the controller's limit; at most ${MAX_PIXELS_PER_DATA_OUTPUT}).` }),
     currentPerPixelMa: z
       .number()
       .min(0)
-      .max(1_000)
+      .max(MAX_CURRENT_PER_PIXEL_MA)
       .optional()
       .meta({
         description:

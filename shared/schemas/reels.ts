@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { MAX_REEL_PIECES } from '../tables/limits.js';
 import { cutLengthMm, DEFAULT_REEL_LENGTH_MM, usableReelMm } from '../tables/cut-lengths.js';
 import { engineVersionSchema, traceEntrySchema, warningSchema } from './common.js';
 
@@ -7,8 +8,8 @@ export const reelsRequestSchema = z
     piecesMm: z
       .array(z.number().min(1).max(100_000))
       .min(1)
-      .max(1_000)
-      .meta({ description: 'Length of each piece to cut, mm, in the order of the treads (tread 1 first).' }),
+      .max(MAX_REEL_PIECES)
+      .meta({ description: `Length of each piece to cut, mm, in the order of the treads (tread 1 first); at most ${MAX_REEL_PIECES} pieces.` }),
     reelLengthMm: z.number().min(100).max(1_000_000).optional().meta({ description: 'Length of one reel, mm.', default: DEFAULT_REEL_LENGTH_MM }),
     cutPitchMm: z
       .number()

@@ -38,7 +38,7 @@ export const voltageDropResponseSchema = z
     loopResistanceOhm: z.number().meta({ description: 'Both conductors over the run, Ω.' }),
     dropV: z.number().meta({ description: 'Voltage lost in the cable (at the far end for a uniform load), V.' }),
     dropPercent: z.number().meta({ description: 'dropV as % of supplyVoltageV.' }),
-    voltageAtLoadV: z.number().meta({ description: 'supplyVoltageV − dropV.' }),
+    voltageAtLoadV: z.number().meta({ description: 'supplyVoltageV − dropV; 0 when the drop is not less than the supply (warning `drop_exceeds_supply`, withinLimit false): no voltage reaches the load.' }),
     maxDropPercent: z.number().meta({ description: 'The limit applied (given or the default 5).' }),
     withinLimit: z.boolean().meta({ description: 'dropPercent ≤ maxDropPercent.' }),
     conductorTable: conductorTableSchema,
@@ -65,7 +65,7 @@ export const voltageDropResponseSchema = z
       loadDistribution: 'end',
       currentRatingA: 3,
       warnings: [],
-      engineVersion: '2.0.0',
+      engineVersion: '2.1.0',
       trace: [
         {
           quantity: 'dropV',

@@ -9,6 +9,8 @@ import {
   LOOP_REFERENCE,
   UNIFORM_REFERENCE,
   defaultDropLimitWarning,
+  dropExceedsSupply,
+  dropExceedsSupplyWarning,
   dropPercentOf,
   loopDropV,
   runLengthWarning,
@@ -126,6 +128,11 @@ export function chooseCable(input: CableInput): CableResult {
       code: 'no_suitable_size',
       message: `No size in "${tableId}" from ${minCrossSectionMm2} mm² up keeps ${input.currentA} A over ${input.lengthM} m within ${maxDropPercent} % and within its current rating: shorten the run, raise the voltage or split the load.`,
     });
+  }
+  // Even the largest size leaves no voltage at the load: the run cannot work with any cable of the table.
+  const largest = alternatives.at(-1);
+  if (largest && dropExceedsSupply(largest.dropV, input.supplyVoltageV)) {
+    warnings.push(dropExceedsSupplyWarning(`the largest size, ${describeSize(largest)},`, input.lengthM, input.currentA, largest.dropV, input.supplyVoltageV));
   }
   const runWarning = runLengthWarning(input.lengthM);
   if (runWarning) warnings.push(runWarning);

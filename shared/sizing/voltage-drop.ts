@@ -61,9 +61,14 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
   const loopResistanceOhm = (2 * input.lengthM * rOhmPerKm) / 1000;
   const dropV = loopDropV(input.currentA, input.lengthM, rOhmPerKm, loadDistribution);
   const dropPercent = dropPercentOf(dropV, input.supplyVoltageV);
-  const withinLimit = withinDropLimit(dropPercent, maxDropPercent);
+  // Vd = 2·L·I·R′ assumes the load still draws I; a drop as large as the supply means it cannot:
+  // there is no voltage left at the load, and a negative one would be reported as if real.
+  const exceedsSupply = dropExceedsSupply(dropV, input.supplyVoltageV);
+  const voltageAtLoadV = exceedsSupply ? 0 : input.supplyVoltageV - dropV;
+  const withinLimit = !exceedsSupply && withinDropLimit(dropPercent, maxDropPercent);
 
   const warnings: Warning[] = [];
+  if (exceedsSupply) warnings.push(dropExceedsSupplyWarning(sizeLabel, input.lengthM, input.currentA, dropV, input.supplyVoltageV));
   if (!withinLimit) {
     warnings.push({
       code: 'drop_over_limit',
@@ -133,9 +138,9 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
     },
     {
       quantity: 'voltageAtLoadV',
-      value: round(input.supplyVoltageV - dropV, 4),
+      value: round(voltageAtLoadV, 4),
       unit: 'V',
-      formula: 'V − Vd',
+      formula: exceedsSupply ? 'max(0, V − Vd): the drop is not less than the supply' : 'V − Vd',
       inputs: { supplyVoltageV: input.supplyVoltageV, dropV: round(dropV, 4) },
       reference: LOOP_REFERENCE,
     },
@@ -162,7 +167,7 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
     loopResistanceOhm: round(loopResistanceOhm, 6),
     dropV: round(dropV, 4),
     dropPercent: round(dropPercent, 4),
-    voltageAtLoadV: round(input.supplyVoltageV - dropV, 4),
+    voltageAtLoadV: round(voltageAtLoadV, 4),
     maxDropPercent,
     withinLimit,
     conductorTable: tableId,
@@ -172,5 +177,19 @@ export function voltageDrop(input: VoltageDropInput): VoltageDropResult {
     warnings,
     engineVersion: ENGINE_VERSION,
     trace,
+  };
+}
+
+/** True when the computed drop leaves no voltage at the load (Vd ≥ V): the figure is not physical. */
+export function dropExceedsSupply(dropV: number, supplyVoltageV: number): boolean {
+  return dropV >= supplyVoltageV;
+}
+
+export function dropExceedsSupplyWarning(sizeLabel: string, lengthM: number, currentA: number, dropV: number, supplyVoltageV: number): Warning {
+  return {
+    code: 'drop_exceeds_supply',
+    message:
+      `${sizeLabel} over ${lengthM} m at ${currentA} A would drop ${round(dropV, 2)} V, not less than the ${supplyVoltageV} V supply: ` +
+      'no voltage would reach the load and that current could not flow. The figures assume a run that cannot work: use a far larger conductor, a shorter run, a lower current or a higher voltage.',
   };
 }

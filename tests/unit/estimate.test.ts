@@ -41,9 +41,9 @@ const profile = fc
       outputs: fc.integer({ min: 0, max: 64 }),
       maxCurrentPerOutputA: dbl(0.05, 10),
       dataOutputs: fc.integer({ min: 0, max: 8 }),
-      maxPixelsPerOutput: fc.integer({ min: 1, max: 3000 }),
+      maxPixelsPerOutput: fc.integer({ min: 50, max: 3000 }),
       minTreads: fc.integer({ min: 1, max: 10 }),
-      maxTreads: fc.integer({ min: 10, max: 512 }),
+      maxTreads: fc.integer({ min: 10, max: 200 }),
       maxInputCurrentA: dbl(0.5, 100),
       sensorInput: fc.record({ type: fc.constantFrom('pnp', 'npn'), supplyV: dbl(1, 24), maxCurrentMa: dbl(1, 100) }),
       dataLogicV: fc.constantFrom(3.3, 5),
@@ -55,19 +55,19 @@ const profile = fc
 
 const protocol = fc.constantFrom('one-wire-800k', 'one-wire-400k', 'clocked');
 const pixelFields = {
-  pixelsPerM: dbl(1, 500),
+  pixelsPerM: dbl(1, 200),
   voltageV: dbl(1, 60),
   protocol,
   bitsPerPixel: fc.constantFrom(24, 32),
-  currentPerPixelMa: dbl(0, 1000),
+  currentPerPixelMa: dbl(0, 300),
   brightnessPercent: dbl(1, 100),
-  maxFeedLengthM: dbl(0.1, 100),
+  maxFeedLengthM: dbl(0.5, 100),
   powerWPerM: dbl(0.01, 200),
   sizeForFullWhite: fc.boolean(),
   clockHz: dbl(1_000, 50_000_000),
   resetUs: dbl(0, 10_000),
   maxDataLinkM: dbl(0.1, 100),
-  maxFeedCurrentA: dbl(0.1, 100),
+  maxFeedCurrentA: dbl(1, 100),
 };
 const optionalPixel = ['pixelsPerM', 'voltageV', 'protocol'] as const;
 
@@ -75,7 +75,7 @@ const treadStrip = fc.record(
   { voltageV: dbl(1, 400), powerWPerM: dbl(0.01, 200), cutPitchMm: dbl(1, 1000), endClearanceMm: dbl(0, 500), sku: fc.constantFrom('HL-S24-10', 'NOT-STOCKED') },
   { requiredKeys: ['voltageV', 'powerWPerM', 'cutPitchMm'] },
 );
-const railPixels = fc.record({ lengthM: dbl(0.1, 500), dataLeadM: dbl(0, 100), ...pixelFields }, { requiredKeys: ['lengthM', ...optionalPixel] });
+const railPixels = fc.record({ lengthM: dbl(0.1, 200), dataLeadM: dbl(0, 100), ...pixelFields }, { requiredKeys: ['lengthM', ...optionalPixel] });
 const treadPixels = fc.record(
   { ...pixelFields, cutPitchMm: dbl(1, 1000), endClearanceMm: dbl(0, 500) },
   { requiredKeys: [...optionalPixel] },

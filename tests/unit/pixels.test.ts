@@ -2,16 +2,17 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { pixelsRequestSchema, pixelsResponseSchema } from '../../shared/schemas/pixels.js';
 import { injectionPoints, pixelData, railGrouping } from '../../shared/sizing/pixels.js';
+import { MAX_CURRENT_PER_PIXEL_MA, MAX_PIXELS_PER_DATA_OUTPUT, MAX_PIXELS_PER_RUN } from '../../shared/tables/limits.js';
 
 const requests = fc.record(
   {
-    pixels: fc.integer({ min: 1, max: 100_000 }),
+    pixels: fc.integer({ min: 1, max: MAX_PIXELS_PER_RUN }),
     protocol: fc.constantFrom('one-wire-800k', 'one-wire-400k', 'clocked'),
     bitsPerPixel: fc.constantFrom(24, 32),
     resetUs: fc.double({ min: 0, max: 10_000, noNaN: true }),
     clockHz: fc.double({ min: 1_000, max: 50_000_000, noNaN: true }),
-    maxPixelsPerOutput: fc.integer({ min: 1, max: 100_000 }),
-    currentPerPixelMa: fc.double({ min: 0, max: 1_000, noNaN: true }),
+    maxPixelsPerOutput: fc.integer({ min: 1, max: MAX_PIXELS_PER_DATA_OUTPUT }),
+    currentPerPixelMa: fc.double({ min: 0, max: MAX_CURRENT_PER_PIXEL_MA, noNaN: true }),
     supplyVoltageV: fc.double({ min: 0.1, max: 60, noNaN: true }),
     brightnessPercent: fc.double({ min: 0, max: 100, noNaN: true }),
   },

@@ -96,7 +96,7 @@ export function cableDropCheck(d: Design): EstimateCheck {
     const text = `Worst drop ${fmt(u.run.dropPercent, 3)} % on ${describeUse(u)} (${sizeLabel(u.run)})`;
     return ok
       ? passed('cable-drop', `${text}, within ${limit} %.`, value, limit, '%', reference)
-      : flagged('cable-drop', 'fail', `${text}, over ${limit} %.`, value, limit, '%', reference, 'Feed the far treads from a second controller nearer to them, or use a higher-voltage strip.');
+      : flagged('cable-drop', 'fail', `${text}, over ${limit} %${beyondSupply(value)}.`, value, limit, '%', reference, 'Feed the far treads from a second controller nearer to them, or use a higher-voltage strip.');
   }
   const behind = worst.pathDropPercent - worst.run.dropPercent;
   const parts = `feeder ${fmt(worst.run.dropPercent, 3)} % (${sizeLabel(worst.run)}, ${fmt(worst.run.lengthM)} m)${worst.worstBehind ? ` + ${fmt(behind, 3)} % on ${worst.worstBehind}` : ''}`;
@@ -136,7 +136,7 @@ export function cableDropCheck(d: Design): EstimateCheck {
   return flagged(
     'cable-drop',
     'fail',
-    `The drop from the driver of circuit ${worst.circuit} to the farthest strip behind ${feederText(worst)} is ${fmt(worst.pathDropPercent, 3)} % (${parts}), over the ${limit} % end-to-end limit${split}; no size of ${cable.conductorTable} up to ${describeLargest(d)} brings it within.`,
+    `The drop from the driver of circuit ${worst.circuit} to the farthest strip behind ${feederText(worst)} is ${fmt(worst.pathDropPercent, 3)} % (${parts}), over the ${limit} % end-to-end limit${split}${beyondSupply(value)}; no size of ${cable.conductorTable} up to ${describeLargest(d)} brings it within.`,
     value,
     limit,
     '%',
@@ -289,4 +289,13 @@ export function cableMinSizeCheck(d: Design): EstimateCheck | null {
     reference,
     `Use ${next ?? 'a larger size'} or larger (set cable.minCrossSectionMm2 to ${limit}${elv ? ', or leave it out to apply the jurisdiction’s minimum' : ''}).`,
   );
+}
+
+/**
+ * A drop of 100 % or more is the Ohm's-law figure of a run that cannot work: no voltage would be
+ * left at the strip, so the current assumed could not flow (see the voltage-drop calculation's
+ * `drop_exceeds_supply`). Said in the failing check rather than shown as if real.
+ */
+function beyondSupply(dropPercent: number): string {
+  return dropPercent >= 100 ? ' — as large as the supply itself: no voltage would reach the strip, so these figures describe a run that cannot work' : '';
 }

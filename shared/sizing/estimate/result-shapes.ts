@@ -7,8 +7,32 @@ import type { Settings } from './settings.js';
 import type { TreadPixelPart } from './tread-pixels.js';
 import type { TreadStripPart } from './tread-strips.js';
 
-function addData(into: EstimateOutputs['data'], run: 'rail' | 'treads', uses: readonly DataOutputUse[]): void {
-  for (const u of uses) into.push({ controller: u.controller, output: u.output, run, pixels: u.pixels, firstTread: u.firstTread, lastTread: u.lastTread });
+/**
+ * One row per stretch of identical data outputs: consecutive outputs of one controller that
+ * drive the same number of rail pixels share a row (`output` … `lastOutput`, `count` of them),
+ * so the answer grows with controllers, not with outputs × pixels. Tread outputs name their
+ * treads, so each keeps a row of its own.
+ */
+export function addData(into: EstimateOutputs['data'], run: 'rail' | 'treads', uses: readonly DataOutputUse[]): void {
+  for (const u of uses) {
+    const last = into.at(-1);
+    const same =
+      last !== undefined &&
+      last.run === run &&
+      last.controller === u.controller &&
+      last.lastOutput + 1 === u.output &&
+      last.pixels === u.pixels &&
+      last.firstTread === null &&
+      u.firstTread === null &&
+      last.lastTread === null &&
+      u.lastTread === null;
+    if (same) {
+      last.lastOutput = u.output;
+      last.count += 1;
+    } else {
+      into.push({ controller: u.controller, output: u.output, lastOutput: u.output, count: 1, run, pixels: u.pixels, firstTread: u.firstTread, lastTread: u.lastTread });
+    }
+  }
 }
 
 /** The response's `outputs`: controllers, their blocks of treads, CV and data outputs. */
