@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 export const sensorInputSchema = z
-  .object({
+  .strictObject({
     type: z.enum(['pnp', 'npn']).meta({
       description: 'Output type the sensor input expects: pnp (sourcing, signal goes high) or npn (sinking).',
     }),
@@ -15,7 +15,7 @@ export const sensorInputSchema = z
   });
 
 export const controllerProfileSchema = z
-  .object({
+  .strictObject({
     outputs: z.int().min(0).max(512).meta({ description: 'Constant-voltage outputs (channels), one tread each by default.' }),
     maxCurrentPerOutputA: z.number().positive().max(100).meta({ description: 'Largest current one CV output may carry, A.' }),
     dataOutputs: z.int().min(0).max(64).optional().meta({ description: 'Pixel data outputs.' }),

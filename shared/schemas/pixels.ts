@@ -7,7 +7,7 @@ export const pixelProtocolSchema = z.enum(['one-wire-800k', 'one-wire-400k', 'cl
 });
 
 export const pixelsRequestSchema = z
-  .object({
+  .strictObject({
     pixels: z.int().min(1).max(100_000).meta({ description: 'Pixels (driver ICs) on the run.' }),
     protocol: pixelProtocolSchema,
     bitsPerPixel: z
