@@ -156,8 +156,11 @@ export const invitationResponseSchema = z
 export const acceptInvitationRequestSchema = z
   .strictObject({
     token: tokenSchema.meta({ description: 'The `token` parameter of the invitation link.' }),
-    name: nameText(100).optional().meta({ description: 'Needed when the invitation creates a new account.', example: 'Ines' }),
-    password: newPasswordSchema.optional().meta({ description: 'Needed when the invitation creates a new account; ignored for an existing one.' }),
+    name: nameText(100).optional().meta({ description: 'Needed when the invitation creates a new account; an existing account keeps its name.', example: 'Ines' }),
+    password: newPasswordSchema.optional().meta({
+      description:
+        'Always needed. A new account: the password to set. An existing account: that account’s current password, which confirms the invitee (a wrong one is a 401 `invalid_credentials` and counts towards the sign-in lockout); it is not changed.',
+    }),
   })
   .meta({ id: 'AcceptInvitationRequest', example: { token: 'Xh2bQ9mV4rT7cK1wZs8dNf3pLa6yGe0uJi5oRt2vBnE', name: 'Ines', password: 'correct-horse-battery' } });
 

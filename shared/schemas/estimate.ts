@@ -100,7 +100,8 @@ const pixelCommon = {
   pixelsPerM: z.number().min(1).max(500).meta({ description: 'Pixels (driver ICs) per metre; on 12 V / 24 V strip one pixel often drives 3 or 6 LEDs.' }),
   voltageV: z.number().min(1).max(60).meta({ description: 'Strip voltage, V DC.' }),
   protocol: pixelProtocolSchema,
-  bitsPerPixel: z.literal([24, 32]).optional().meta({ description: 'One-wire bits per pixel: 24 RGB, 32 RGBW.', default: 24 }),
+  // `type` and `enum` spelt out: the OpenAPI generator renders a multi-value literal with its first value only.
+  bitsPerPixel: z.literal([24, 32]).optional().meta({ description: 'One-wire bits per pixel: 24 RGB, 32 RGBW.', default: 24, type: 'integer', enum: [24, 32] }),
   currentPerPixelMa: z
     .number()
     .min(0)

@@ -13,7 +13,8 @@ export const pixelsRequestSchema = z
     bitsPerPixel: z
       .literal([24, 32])
       .optional()
-      .meta({ description: 'One-wire bits per pixel: 24 for RGB, 32 for RGBW. Ignored for clocked.', default: 24 }),
+      // `type` and `enum` spelt out: the OpenAPI generator renders a multi-value literal with its first value only.
+      .meta({ description: 'One-wire bits per pixel: 24 for RGB, 32 for RGBW. Ignored for clocked.', default: 24, type: 'integer', enum: [24, 32] }),
     resetUs: z
       .number()
       .min(0)
