@@ -8,6 +8,11 @@ const MAX_FIELD_ERRORS = 20;
 
 export const UNKNOWN_FIELD_MESSAGE = 'unknown field';
 
+/** `cable.maxDropPercent`, `items.1.sku`; an empty key shows as `""` so no path is blank. */
+function fieldPath(segments: readonly PropertyKey[]): string {
+  return segments.map((s) => (s === '' ? '""' : String(s))).join('.') || '(body)';
+}
+
 /**
  * One `{ path, message }` per issue. A refused unknown key (zod's `unrecognized_keys`, from
  * `z.strictObject`) becomes one error per key whose path names the key itself
@@ -16,11 +21,10 @@ export const UNKNOWN_FIELD_MESSAGE = 'unknown field';
 export function zodFieldErrors(error: z.ZodError): FieldError[] {
   const errors: FieldError[] = [];
   for (const issue of error.issues) {
-    const path = issue.path.map(String);
     if (issue.code === 'unrecognized_keys') {
-      for (const key of issue.keys) errors.push({ path: [...path, key].join('.'), message: UNKNOWN_FIELD_MESSAGE });
+      for (const key of issue.keys) errors.push({ path: fieldPath([...issue.path, key]), message: UNKNOWN_FIELD_MESSAGE });
     } else {
-      errors.push({ path: path.join('.') || '(body)', message: issue.message });
+      errors.push({ path: fieldPath(issue.path), message: issue.message });
     }
   }
   return errors.slice(0, MAX_FIELD_ERRORS);
@@ -39,7 +43,7 @@ export function droppedKeyPaths(input: unknown, output: unknown, path: string[] 
   } else if (isPlainObject(input) && isPlainObject(output)) {
     for (const [k, v] of Object.entries(input)) {
       if (found.length >= MAX_FIELD_ERRORS) break;
-      if (!Object.hasOwn(output, k)) found.push([...path, k].join('.'));
+      if (!Object.hasOwn(output, k)) found.push(fieldPath([...path, k]));
       else droppedKeyPaths(v, output[k], [...path, k], found);
     }
   }

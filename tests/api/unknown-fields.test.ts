@@ -80,6 +80,8 @@ describe('unknown fields elsewhere', () => {
     await expectUnknown(await calc('driver', { loadW: 100, outputVoltageV: 24, loading: 80 }), 'loading');
     await expectUnknown(await calc('pixels', { pixels: 300, protocol: 'one-wire-800k', bpp: 32 }), 'bpp');
     await expectUnknown(await calc('reels', { piecesMm: [850, 850], note: 'x' }), 'note');
+    // An empty key is named too (found by the fuzz test: it once gave a blank path).
+    await expectUnknown(await calc('reels', { piecesMm: [850, 850], '': 1 }), '""');
   });
 
   it('keys, members, organisations and auth', async () => {
