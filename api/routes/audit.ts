@@ -53,6 +53,7 @@ export const auditRoutes: RouteModule = {
       request: { query: auditQuerySchema },
       responses: {
         200: { description: 'A page of events.', content: { 'application/json': { schema: auditPageSchema } } },
+        400: problemResponse('A malformed or unknown query parameter (`validation_failed`) or cursor (`invalid_cursor`).'),
         401: problemResponse('No or invalid credentials.'),
         403: problemResponse('Needs the admin role.'),
       },

@@ -267,7 +267,10 @@ export const authRoutes: RouteModule = {
       request: { body: json(acceptInvitationRequestSchema) },
       responses: {
         200: session,
-        400: problemResponse('Invalid body, a new account without name or password, or the token is unknown, used or expired (`invalid_token`).'),
+        400: problemResponse(
+          'Invalid body, a new account without name or password, an existing account without its password, or the token is unknown, used or expired (`invalid_token`).',
+        ),
+        401: problemResponse('The password of the existing account is wrong (`invalid_credentials`), also while that account is locked for this address.'),
       },
     });
   },

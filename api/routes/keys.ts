@@ -163,7 +163,11 @@ export const keyRoutes: RouteModule = {
       description: 'The organisation’s keys, newest first, with cursor pagination. Secrets are never listed.',
       security,
       request: { query: pageQuerySchema },
-      responses: { 200: { description: 'A page of keys.', content: { 'application/json': { schema: apiKeyPageSchema } } }, ...problems },
+      responses: {
+        200: { description: 'A page of keys.', content: { 'application/json': { schema: apiKeyPageSchema } } },
+        400: problemResponse('A malformed or unknown query parameter (`validation_failed`) or cursor (`invalid_cursor`).'),
+        ...problems,
+      },
     });
     registry.registerPath({
       method: 'post',
@@ -209,6 +213,7 @@ export const keyRoutes: RouteModule = {
       request: { params: idParams, body: { required: false, content: { 'application/json': { schema: rotateApiKeyRequestSchema } } } },
       responses: {
         200: { description: 'The key and its new token (shown once).', content: { 'application/json': { schema: apiKeyWithTokenSchema } } },
+        400: problemResponse('The body does not match the schema, e.g. `overlapHours` beyond 72 or an unknown field (`validation_failed`).'),
         ...problems,
         404: problemResponse('No such key.'),
         409: problemResponse('The key is revoked or expired (`key_revoked`, `key_expired`), or another rotation of it is running (`rotation_in_progress`).'),

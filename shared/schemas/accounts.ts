@@ -37,7 +37,7 @@ const tokenSchema = z.string().min(1).max(200);
 // ---- sessions -----------------------------------------------------------------------------------
 
 export const signInRequestSchema = z
-  .object({
+  .strictObject({
     email: emailSchema,
     // No minimum here: a sign-in only compares, it never sets a password.
     password: z.string().min(1).max(PASSWORD_MAX_LENGTH).meta({ description: 'The account password.' }),
@@ -45,7 +45,7 @@ export const signInRequestSchema = z
   .meta({ id: 'SignInRequest', example: { email: 'mira@harborlane.test', password: 'correct-horse-battery' } });
 
 export const refreshRequestSchema = z
-  .object({ refreshToken: tokenSchema.meta({ description: 'The refresh token from the last sign-in or refresh.' }) })
+  .strictObject({ refreshToken: tokenSchema.meta({ description: 'The refresh token from the last sign-in or refresh.' }) })
   .meta({ id: 'RefreshRequest', example: { refreshToken: 'kq3Jm0tWc1o7Yb2sRz9eVn4xLa6pHd8fGu5iTy0wQeA' } });
 
 export const signOutRequestSchema = refreshRequestSchema.meta({ id: 'SignOutRequest' });
@@ -98,7 +98,7 @@ export const sessionSchema = z
   });
 
 export const switchOrganizationRequestSchema = z
-  .object({
+  .strictObject({
     organization: z.string().min(1).max(64).meta({ description: 'The slug or id of the organisation to act in.', example: 'harbor-lane' }),
   })
   .meta({ id: 'SwitchOrganizationRequest' });
@@ -123,11 +123,11 @@ export const switchedOrganizationSchema = z
 // ---- password reset ---------------------------------------------------------------------------
 
 export const passwordResetRequestSchema = z
-  .object({ email: emailSchema })
+  .strictObject({ email: emailSchema })
   .meta({ id: 'PasswordResetRequest', example: { email: 'theo@harborlane.test' } });
 
 export const passwordResetConfirmSchema = z
-  .object({
+  .strictObject({
     token: tokenSchema.meta({ description: 'The `token` parameter of the link in the e-mail.' }),
     password: newPasswordSchema,
   })
@@ -136,7 +136,7 @@ export const passwordResetConfirmSchema = z
 // ---- invitations and members ------------------------------------------------------------------
 
 export const createInvitationRequestSchema = z
-  .object({ email: emailSchema, role: roleSchema })
+  .strictObject({ email: emailSchema, role: roleSchema })
   .meta({ id: 'CreateInvitationRequest', example: { email: 'ines@harborlane.test', role: 'viewer' } });
 
 export const invitationSchema = z
@@ -154,10 +154,13 @@ export const invitationResponseSchema = z
   });
 
 export const acceptInvitationRequestSchema = z
-  .object({
+  .strictObject({
     token: tokenSchema.meta({ description: 'The `token` parameter of the invitation link.' }),
-    name: nameText(100).optional().meta({ description: 'Needed when the invitation creates a new account.', example: 'Ines' }),
-    password: newPasswordSchema.optional().meta({ description: 'Needed when the invitation creates a new account; ignored for an existing one.' }),
+    name: nameText(100).optional().meta({ description: 'Needed when the invitation creates a new account; an existing account keeps its name.', example: 'Ines' }),
+    password: newPasswordSchema.optional().meta({
+      description:
+        'Always needed. A new account: the password to set. An existing account: that account’s current password, which confirms the invitee (a wrong one is a 401 `invalid_credentials` and counts towards the sign-in lockout); it is not changed.',
+    }),
   })
   .meta({ id: 'AcceptInvitationRequest', example: { token: 'Xh2bQ9mV4rT7cK1wZs8dNf3pLa6yGe0uJi5oRt2vBnE', name: 'Ines', password: 'correct-horse-battery' } });
 
@@ -184,7 +187,7 @@ export const memberSchema = z
 
 export const memberPageSchema = pageOf(memberSchema, 'MemberPage');
 
-export const updateMemberRequestSchema = z.object({ role: roleSchema }).meta({ id: 'UpdateMemberRequest', example: { role: 'admin' } });
+export const updateMemberRequestSchema = z.strictObject({ role: roleSchema }).meta({ id: 'UpdateMemberRequest', example: { role: 'admin' } });
 
 // ---- organisations ------------------------------------------------------------------------------
 
@@ -198,11 +201,11 @@ export const slugSchema = z
 const planIdSchema = z.string().min(1).max(40).meta({ description: 'The plan (quota and rate), e.g. free, shop or partner.', example: 'shop' });
 
 export const createOrganizationRequestSchema = z
-  .object({ slug: slugSchema, name: nameText(100), planId: planIdSchema.optional() })
+  .strictObject({ slug: slugSchema, name: nameText(100), planId: planIdSchema.optional() })
   .meta({ id: 'CreateOrganizationRequest', example: { slug: 'quayside-studio', name: 'Quayside Studio', planId: 'free' } });
 
 export const updateOrganizationRequestSchema = z
-  .object({ name: nameText(100).optional(), planId: planIdSchema.optional() })
+  .strictObject({ name: nameText(100).optional(), planId: planIdSchema.optional() })
   .refine((v) => v.name !== undefined || v.planId !== undefined, { message: 'give name or planId' })
   .meta({ id: 'UpdateOrganizationRequest', example: { planId: 'partner' } });
 

@@ -31,7 +31,7 @@ const originPattern = z
   .meta({ example: 'https://shop.harborlane.test' });
 
 export const createApiKeyRequestSchema = z
-  .object({
+  .strictObject({
     name: nameText(100).meta({ description: 'What the key is for.', example: 'Product pages' }),
     kind: keyKindSchema.default('server').meta({
       description: '`server` (tw_server_…) for servers; `embed` (tw_embed_…) for shop web pages: sizing only, from its allowed origins.',
@@ -61,7 +61,7 @@ export const createApiKeyRequestSchema = z
 export const MAX_OVERLAP_HOURS = 72;
 
 export const rotateApiKeyRequestSchema = z
-  .object({
+  .strictObject({
     overlapHours: z
       .int()
       .min(0)

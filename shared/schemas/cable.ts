@@ -21,7 +21,7 @@ export const minCrossSectionSchema = z.number().positive().max(100).meta({
 });
 
 export const cableRequestSchema = z
-  .object({
+  .strictObject({
     supplyVoltageV: supplyVoltageSchema,
     currentA: currentSchema,
     lengthM: lengthSchema,

@@ -49,7 +49,7 @@ const base = {
 const reelLengthMm = z.number().min(100).max(1_000_000).optional().meta({ description: 'Length of one reel, mm. Default 5000.', default: 5000 });
 
 export const catalogStripSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('strip'),
     voltageV: z.number().positive().max(1000).meta({ description: 'Strip voltage, V DC.' }),
@@ -64,7 +64,7 @@ export const catalogStripSchema = z
   });
 
 export const catalogPixelStripSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('pixel-strip'),
     voltageV: z.number().positive().max(1000).meta({ description: 'Strip voltage, V DC.' }),
@@ -79,7 +79,7 @@ export const catalogPixelStripSchema = z
   });
 
 export const catalogDriverSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('driver'),
     voltageV: z.number().positive().max(1000).meta({ description: 'Constant-voltage output, V DC.' }),
@@ -92,7 +92,7 @@ export const catalogDriverSchema = z
   });
 
 export const catalogCableSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('cable'),
     crossSectionMm2: z.number().positive().max(1000).optional().meta({ description: 'Cross-section of one conductor, mm² (metric tables).' }),
@@ -106,7 +106,7 @@ export const catalogCableSchema = z
   .meta({ id: 'CatalogCable', description: 'Copper cable, priced per metre.', example: { sku: 'HL-C050', kind: 'cable', unitPrice: 0.6, crossSectionMm2: 0.5 } });
 
 export const catalogControllerSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('controller'),
     profileId: z.string().min(1).max(64).optional().meta({ description: 'Id a request names in controller.profileId. Default: the SKU.' }),
@@ -119,7 +119,7 @@ export const catalogControllerSchema = z
   });
 
 export const catalogMotionSensorSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('motion-sensor'),
     outputType: z.enum(['pnp', 'npn']).meta({ description: 'Output type: pnp (sourcing) or npn (sinking).' }),
@@ -129,11 +129,11 @@ export const catalogMotionSensorSchema = z
   .meta({ id: 'CatalogMotionSensor', description: 'PIR motion sensor.', example: { sku: 'HL-M05', kind: 'motion-sensor', outputType: 'pnp', supplyV: 5, currentMa: 8 } });
 
 export const catalogDaylightSensorSchema = z
-  .object({ ...base, kind: z.literal('daylight-sensor') })
+  .strictObject({ ...base, kind: z.literal('daylight-sensor') })
   .meta({ id: 'CatalogDaylightSensor', description: 'Ambient-light (daylight) sensor for the lux cut-off.', example: { sku: 'HL-L01', kind: 'daylight-sensor' } });
 
 export const catalogAluminiumProfileSchema = z
-  .object({
+  .strictObject({
     ...base,
     kind: z.literal('aluminium-profile'),
     lengthMm: z.number().min(100).max(10_000).meta({ description: 'Length of one profile bar, mm.' }),
@@ -145,7 +145,7 @@ export const catalogAluminiumProfileSchema = z
   });
 
 export const catalogEndCapsSchema = z
-  .object({ ...base, kind: z.literal('end-caps') })
+  .strictObject({ ...base, kind: z.literal('end-caps') })
   .meta({ id: 'CatalogEndCaps', description: 'A pair of end caps: one pair closes one profile piece.', example: { sku: 'HL-E02', kind: 'end-caps', unitPrice: 0.9 } });
 
 export const catalogItemSchema = z
@@ -167,7 +167,7 @@ export const catalogItemSchema = z
   });
 
 export const catalogSchema = z
-  .object({
+  .strictObject({
     currency: z
       .string()
       .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')

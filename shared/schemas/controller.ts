@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { MAX_CV_OUTPUTS_PER_CONTROLLER, MAX_DATA_OUTPUTS_PER_CONTROLLER, MAX_PIXELS_PER_DATA_OUTPUT, MAX_TREADS, MIN_PIXELS_PER_DATA_OUTPUT } from '../tables/limits.js';
 
 export const sensorInputSchema = z
-  .object({
+  .strictObject({
     type: z.enum(['pnp', 'npn']).meta({
       description: 'Output type the sensor input expects: pnp (sourcing, signal goes high) or npn (sinking).',
     }),
@@ -16,7 +16,7 @@ export const sensorInputSchema = z
   });
 
 export const controllerProfileSchema = z
-  .object({
+  .strictObject({
     outputs: z.int().min(0).max(MAX_CV_OUTPUTS_PER_CONTROLLER).meta({ description: `Constant-voltage outputs (channels), one tread each by default (at most ${MAX_CV_OUTPUTS_PER_CONTROLLER}).` }),
     maxCurrentPerOutputA: z.number().positive().max(100).meta({ description: 'Largest current one CV output may carry, A.' }),
     dataOutputs: z.int().min(0).max(MAX_DATA_OUTPUTS_PER_CONTROLLER).optional().meta({ description: `Pixel data outputs (at most ${MAX_DATA_OUTPUTS_PER_CONTROLLER}).` }),

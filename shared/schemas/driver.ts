@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { engineVersionSchema, traceEntrySchema, warningSchema } from './common.js';
 
 export const driverRequestSchema = z
-  .object({
+  .strictObject({
     loadW: z.number().positive().max(100_000).meta({ description: 'Total DC load the drivers feed, W.', example: 119 }),
     outputVoltageV: z.number().min(1).max(1000).meta({ description: 'Constant-voltage output of the drivers, V DC.', example: 24 }),
     maxLoadingPercent: z.number().min(10).max(100).optional().meta({

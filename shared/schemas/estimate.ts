@@ -35,7 +35,7 @@ import {
 export { MAX_TREADS };
 
 const flightSchema = z
-  .object({
+  .strictObject({
     treads: z.int().min(1).max(MAX_TREADS).meta({ description: 'Treads in this flight.' }),
     landingLengthMm: z
       .number()
@@ -47,7 +47,7 @@ const flightSchema = z
   .meta({ id: 'Flight', description: 'A run of treads between landings, foot first.', example: { treads: 7, landingLengthMm: 900 } });
 
 export const staircaseSchema = z
-  .object({
+  .strictObject({
     treads: z.int().min(1).max(MAX_TREADS).meta({ description: `Treads in the whole stair, numbered from 1 at the foot (at most ${MAX_TREADS}).` }),
     treadWidthMm: z.number().min(100).max(5000).meta({ description: 'Tread width, side to side, mm.' }),
     riserHeightMm: z.number().min(50).max(400).meta({ description: 'Riser height, mm.' }),
@@ -97,7 +97,7 @@ const endClearanceSchema = z
 const skuField = z.string().min(1).max(64).optional().meta({ description: 'SKU of this part in the catalog, when one is sent.' });
 
 export const treadStripSchema = z
-  .object({
+  .strictObject({
     voltageV: z.number().min(1).max(400).meta({ description: 'Strip voltage, V DC.' }),
     powerWPerM: z.number().positive().max(200).meta({ description: 'Strip power per metre, W/m.' }),
     cutPitchMm: z.number().min(1).max(1000).meta({ description: 'Cut pitch: the strip may only be cut at these marks, mm.' }),
@@ -114,7 +114,8 @@ const pixelCommon = {
     .meta({ description: `Pixels (driver ICs) per metre; on 12 V / 24 V strip one pixel often drives 3 or 6 LEDs. At most ${MAX_PIXELS_PER_M}; the whole run holds at most ${MAX_PIXELS_PER_RUN} pixels.` }),
   voltageV: z.number().min(1).max(60).meta({ description: 'Strip voltage, V DC.' }),
   protocol: pixelProtocolSchema,
-  bitsPerPixel: z.literal([24, 32]).optional().meta({ description: 'One-wire bits per pixel: 24 RGB, 32 RGBW.', default: 24 }),
+  // `type` and `enum` spelt out: the OpenAPI generator renders a multi-value literal with its first value only.
+  bitsPerPixel: z.literal([24, 32]).optional().meta({ description: 'One-wire bits per pixel: 24 RGB, 32 RGBW.', default: 24, type: 'integer', enum: [24, 32] }),
   currentPerPixelMa: z
     .number()
     .min(0)
@@ -179,7 +180,7 @@ const pixelCommon = {
 };
 
 export const railPixelsSchema = z
-  .object({
+  .strictObject({
     lengthM: z
       .number()
       .min(0.1)
@@ -203,7 +204,7 @@ export const railPixelsSchema = z
   });
 
 export const treadPixelsSchema = z
-  .object({
+  .strictObject({
     ...pixelCommon,
     cutPitchMm: z.number().min(1).max(1000).optional().meta({ description: 'Cut pitch, mm. Default: every pixel is a cut point.' }),
     endClearanceMm: endClearanceSchema,
@@ -217,7 +218,7 @@ export const treadPixelsSchema = z
 export const controllerPositionSchema = z
   .union([
     z.enum(['bottom', 'top', 'middle']),
-    z.object({ tread: z.int().min(1).max(MAX_TREADS).meta({ description: 'Tread the controller sits at (1 = foot).' }) }),
+    z.strictObject({ tread: z.int().min(1).max(MAX_TREADS).meta({ description: 'Tread the controller sits at (1 = foot).' }) }),
   ])
   .meta({
     id: 'ControllerPosition',
@@ -227,7 +228,7 @@ export const controllerPositionSchema = z
   });
 
 export const estimateControllerSchema = z
-  .object({
+  .strictObject({
     profile: controllerProfileSchema.optional(),
     profileId: z
       .string()
@@ -251,7 +252,7 @@ export const estimateControllerSchema = z
 export const DEFAULT_FEEDER_LENGTH_M = 2;
 
 export const estimateCableSchema = z
-  .object({
+  .strictObject({
     conductorTable: conductorTableSchema.optional().meta({ description: 'Table to choose cable from; an AWG table gives `awg` sizes. Default iec60228-class5.' }),
     maxDropPercent: maxDropPercentSchema.optional(),
     minCrossSectionMm2: minCrossSectionSchema.optional(),
@@ -294,7 +295,7 @@ export const estimateCableSchema = z
   .meta({ id: 'EstimateCable', description: 'How runs and feeders are sized.', example: { conductorTable: 'iec60228-class5', maxDropPercent: 5, feederLengthM: 2 } });
 
 export const estimateDriversSchema = z
-  .object({
+  .strictObject({
     maxLoadingPercent: z.number().min(10).max(100).optional().meta({ description: 'Load each driver to at most this % of its rating. Default 80.', default: 80 }),
     availableRatingsW: z
       .array(z.number().min(1).max(100_000))
@@ -340,9 +341,9 @@ export const estimateDriversSchema = z
   .meta({ id: 'EstimateDrivers', description: 'How drivers are chosen for each rail voltage.', example: { maxLoadingPercent: 80, availableRatingsW: [60, 100, 150, 240] } });
 
 export const estimateSensorsSchema = z
-  .object({
+  .strictObject({
     motion: z
-      .object({
+      .strictObject({
         outputType: z.enum(['pnp', 'npn']).meta({ description: 'Sensor output: pnp (sourcing) or npn (sinking).' }),
         supplyV: z.number().positive().max(60).meta({ description: 'Supply voltage the sensor runs on, V.' }),
         currentMa: z.number().positive().max(1000).meta({ description: 'Current one sensor draws, mA.' }),
@@ -374,13 +375,13 @@ export const estimateSensorsSchema = z
   .meta({ id: 'EstimateSensors', description: 'Motion and daylight sensing.', example: { motion: { outputType: 'pnp', supplyV: 5, currentMa: 8 }, daylightCutoffLux: 50 } });
 
 export const estimateReelsSchema = z
-  .object({
+  .strictObject({
     reelLengthMm: z.number().min(100).max(1_000_000).optional().meta({ description: 'Reel length, mm. Default: the catalog item’s, else 5000.', default: 5000 }),
   })
   .meta({ id: 'EstimateReelLength', description: 'Strip reels.', example: { reelLengthMm: 5000 } });
 
 export const estimateStandbySchema = z
-  .object({
+  .strictObject({
     litMinutesPerDay: z.number().min(0).max(1440).optional().meta({ description: 'Minutes a day the lights are on, for the yearly energy. Default 30 (an assumption for a dwelling’s stair).', default: 30 }),
     controllerW: z.number().min(0).max(50).optional().meta({ description: 'A controller’s own standby draw, W. Default 0.5 (from memory; use the datasheet).', default: 0.5 }),
     driverNoLoadW: z.number().min(0).max(50).optional().meta({ description: 'A driver’s no-load input, W. Default 0.5 (the EU standby limit for control gear, from memory).', default: 0.5 }),
@@ -465,12 +466,12 @@ function crossCheck(value: CrossCheckable, ctx: z.RefinementCtx): void {
 }
 
 export const treadStripsRequestSchema = z
-  .object({ layout: z.literal('tread-strips'), staircase: staircaseSchema, treadStrip: treadStripSchema, ...commonFields })
+  .strictObject({ layout: z.literal('tread-strips'), staircase: staircaseSchema, treadStrip: treadStripSchema, ...commonFields })
   .superRefine(crossCheck)
   .meta({ id: 'TreadStripsEstimateRequest', description: 'One CV strip per tread, each tread on its own controller output.' });
 
 export const railPixelsRequestSchema = z
-  .object({ layout: z.literal('rail-pixels'), staircase: staircaseSchema.optional(), railPixels: railPixelsSchema, ...commonFields })
+  .strictObject({ layout: z.literal('rail-pixels'), staircase: staircaseSchema.optional(), railPixels: railPixelsSchema, ...commonFields })
   .superRefine(crossCheck)
   .meta({
     id: 'RailPixelsEstimateRequest',
@@ -478,7 +479,7 @@ export const railPixelsRequestSchema = z
   });
 
 export const treadsAndRailRequestSchema = z
-  .object({
+  .strictObject({
     layout: z.literal('treads-and-rail'),
     staircase: staircaseSchema,
     treadStrip: treadStripSchema,
@@ -489,7 +490,7 @@ export const treadsAndRailRequestSchema = z
   .meta({ id: 'TreadsAndRailEstimateRequest', description: 'Tread strips and a rail pixel run that moves in step with them (two pixel groups per tread).' });
 
 export const treadPixelsRequestSchema = z
-  .object({ layout: z.literal('tread-pixels'), staircase: staircaseSchema, treadPixels: treadPixelsSchema, ...commonFields })
+  .strictObject({ layout: z.literal('tread-pixels'), staircase: staircaseSchema, treadPixels: treadPixelsSchema, ...commonFields })
   .superRefine(crossCheck)
   .meta({ id: 'TreadPixelsEstimateRequest', description: 'An addressable segment on every tread, chained in series tread to tread.' });
 

@@ -5,7 +5,7 @@ export const PAGE_LIMIT_MAX = 200;
 export const PAGE_LIMIT_DEFAULT = 50;
 
 /** `?limit=&cursor=`: cursor pagination shared by every list. */
-export const pageQuerySchema = z.object({
+export const pageQuerySchema = z.strictObject({
   limit: z.coerce.number().int().min(1).max(PAGE_LIMIT_MAX).default(PAGE_LIMIT_DEFAULT).meta({ description: `Items per page (1–${PAGE_LIMIT_MAX}, default ${PAGE_LIMIT_DEFAULT}).` }),
   cursor: z.string().max(200).optional().meta({ description: 'The `nextCursor` of the previous page.' }),
 });

@@ -8,13 +8,14 @@ export const pixelProtocolSchema = z.enum(['one-wire-800k', 'one-wire-400k', 'cl
 });
 
 export const pixelsRequestSchema = z
-  .object({
+  .strictObject({
     pixels: z.int().min(1).max(MAX_PIXELS_PER_RUN).meta({ description: `Pixels (driver ICs) on the run (at most ${MAX_PIXELS_PER_RUN}).` }),
     protocol: pixelProtocolSchema,
     bitsPerPixel: z
       .literal([24, 32])
       .optional()
-      .meta({ description: 'One-wire bits per pixel: 24 for RGB, 32 for RGBW. Ignored for clocked.', default: 24 }),
+      // `type` and `enum` spelt out: the OpenAPI generator renders a multi-value literal with its first value only.
+      .meta({ description: 'One-wire bits per pixel: 24 for RGB, 32 for RGBW. Ignored for clocked.', default: 24, type: 'integer', enum: [24, 32] }),
     resetUs: z
       .number()
       .min(0)

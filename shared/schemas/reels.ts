@@ -4,7 +4,7 @@ import { cutLengthMm, DEFAULT_REEL_LENGTH_MM, usableReelMm } from '../tables/cut
 import { engineVersionSchema, traceEntrySchema, warningSchema } from './common.js';
 
 export const reelsRequestSchema = z
-  .object({
+  .strictObject({
     piecesMm: z
       .array(z.number().min(1).max(100_000))
       .min(1)

@@ -11,7 +11,7 @@ const count = z.number().int().min(0);
 const latencyMs = z.number().min(0).nullable();
 
 export const usageQuerySchema = z
-  .object({
+  .strictObject({
     from: utcDate.optional().meta({ description: 'First day (UTC, inclusive). Default: 29 days before `to`.', example: '2026-11-03' }),
     to: utcDate.optional().meta({ description: 'Last day (UTC, inclusive). Default: today.', example: '2026-12-02' }),
     keyId: z

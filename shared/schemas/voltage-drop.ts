@@ -13,7 +13,7 @@ import {
 } from './conductor.js';
 
 export const voltageDropRequestSchema = z
-  .object({
+  .strictObject({
     supplyVoltageV: supplyVoltageSchema,
     currentA: currentSchema,
     lengthM: lengthSchema,

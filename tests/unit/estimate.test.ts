@@ -307,7 +307,14 @@ describe('request schema', () => {
   it('the block a layout needs is required, at its own path', () => {
     const { treadStrip: _omit, ...withoutStrip } = alderRowTownhouse;
     expect(issuePaths(withoutStrip)).toEqual(['treadStrip']);
-    expect(issuePaths({ ...alderRowTownhouse, layout: 'tread-pixels' })).toEqual(['treadPixels']);
+    expect(issuePaths({ ...withoutStrip, layout: 'tread-pixels' })).toEqual(['treadPixels']);
+    // A block the layout does not use is an unknown field, not silently ignored.
+    const strayBlock = estimateRequestSchema.safeParse({ ...alderRowTownhouse, layout: 'tread-pixels' }).error?.issues ?? [];
+    expect(strayBlock.map((i) => [i.path.join('.'), i.code])).toEqual([
+      ['treadPixels', 'invalid_type'],
+      ['', 'unrecognized_keys'],
+    ]);
+    expect(strayBlock[1]).toMatchObject({ keys: ['treadStrip'] });
     expect(issuePaths({ ...alderRowTownhouse, layout: 'treads-and-rail' })).toEqual(['railPixels']);
     const { staircase: _stair, ...withoutStair } = alderRowTownhouse;
     expect(issuePaths(withoutStair)).toEqual(['staircase']);
