@@ -442,3 +442,21 @@ describe('several controllers', () => {
     expect(result.feeder.runs.filter((f) => f.to === 'controller')).toHaveLength(2);
   });
 });
+
+describe('circuits with several power inputs', () => {
+  it('puts a lit landing’s load in the circuit of the output that lights it (found by the property above)', () => {
+    const body = {
+      layout: 'tread-strips',
+      staircase: { treads: 6, treadWidthMm: 900, riserHeightMm: 185, goingMm: 250, flights: [{ treads: 3 }, { treads: 3 }], litLandings: [1] },
+      treadStrip: { voltageV: 24, powerWPerM: 10, cutPitchMm: 50 },
+      controller: { profile: { outputs: 8, maxCurrentPerOutputA: 1.5 } },
+      drivers: { powerInputsPerController: 2 },
+    };
+    const result = estimate(estimateRequestSchema.parse(body));
+    // 7 lit pieces of 850 mm at 10 W/m (6 treads and the landing, as wide as the stair): 7 × 8.5 W = 59.5 W
+    const rail = result.drivers[0]!;
+    expect(rail.loadW).toBeCloseTo(59.5, 6);
+    const inCircuits = result.circuits.reduce((sum, c) => sum + c.loadW, 0);
+    expect(inCircuits).toBeCloseTo(rail.loadW, 3);
+  });
+});

@@ -313,31 +313,31 @@ export function loadsOf(
       const positionM = positions ? (positions[atTread - 1] as number) : 0;
       const outputs = treadStrips.allocation.outputs.filter((o) => o.controller === i + 1);
       // A controller with several power inputs: each feeds its own group of outputs, so each is a feed of its own.
-      const groups: number[][] = [];
+      const groups: { treads: number[]; currentA: number }[] = [];
       if (inputs > 1 && outputs.length > 1) {
         let next = 0;
         for (const size of blockSizes(outputs.length, Math.min(inputs, outputs.length))) {
-          groups.push(outputs.slice(next, next + size).flatMap((o) => o.treads));
+          const group = outputs.slice(next, next + size);
+          // The outputs' own currents: they include a lit landing's, which has no tread lead.
+          groups.push({ treads: group.flatMap((o) => o.treads), currentA: group.reduce((sum, o) => sum + o.currentA, 0) });
           next += size;
         }
       } else {
         const all: number[] = [];
         for (let t = b.firstTread; t <= b.lastTread; t++) all.push(t);
-        groups.push(all);
+        groups.push({ treads: all, currentA: b.currentA });
       }
-      groups.forEach((treads, g) => {
+      groups.forEach(({ treads, currentA }, g) => {
         const leads: FeedTarget['leads'] = treads.map((t) => ({ tread: t, run: treadStrips.leads[t - 1] as RunCable }));
-        let currentA = 0;
-        for (const l of leads) currentA += l.run.currentA;
         targets.push({
           kind: 'tread strips',
           to: 'controller',
           controller: i + 1,
           powerInput: groups.length > 1 ? g + 1 : null,
           feedPoint: null,
-          firstTread: Math.min(...treads),
-          lastTread: Math.max(...treads),
-          currentA: groups.length > 1 ? currentA : b.currentA,
+          firstTread: treads.length > 0 ? Math.min(...treads) : b.firstTread,
+          lastTread: treads.length > 0 ? Math.max(...treads) : b.lastTread,
+          currentA,
           positionM,
           chain: null,
           fixedDownstreamPercent: 0,
