@@ -238,27 +238,27 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
       let outcome: { created: number; updated: number; unchanged: number; version: number } | undefined;
       try {
         return await db.transaction(async (tx) => {
-        const catalog = await forWrite(tx, organizationId);
-        let created = 0;
-        let updated = 0;
-        let unchanged = 0;
-        for (const item of items) {
-          const existing = await findItem(tx, organizationId, item.sku);
-          const columns = itemColumns(item, catalog.currency);
-          if (!existing) {
-            await tx.insert(catalogItems).values({ organizationId, ...columns, createdAt: clock(), updatedAt: clock() });
-            created++;
-          } else if (sameItem(existing, columns)) {
-            unchanged++;
-          } else {
-            await tx.update(catalogItems).set({ ...columns, updatedAt: clock() }).where(eq(catalogItems.id, existing.id));
-            updated++;
+          const catalog = await forWrite(tx, organizationId);
+          let created = 0;
+          let updated = 0;
+          let unchanged = 0;
+          for (const item of items) {
+            const existing = await findItem(tx, organizationId, item.sku);
+            const columns = itemColumns(item, catalog.currency);
+            if (!existing) {
+              await tx.insert(catalogItems).values({ organizationId, ...columns, createdAt: clock(), updatedAt: clock() });
+              created++;
+            } else if (sameItem(existing, columns)) {
+              unchanged++;
+            } else {
+              await tx.update(catalogItems).set({ ...columns, updatedAt: clock() }).where(eq(catalogItems.id, existing.id));
+              updated++;
+            }
           }
-        }
-        const version = created + updated > 0 ? await bump(tx, organizationId) : catalog.version;
-        outcome = { created, updated, unchanged, version };
-        if (dryRun) throw new DryRunRollback();
-        return outcome;
+          const version = created + updated > 0 ? await bump(tx, organizationId) : catalog.version;
+          outcome = { created, updated, unchanged, version };
+          if (dryRun) throw new DryRunRollback();
+          return outcome;
         });
       } catch (err) {
         if (err instanceof DryRunRollback && outcome) return outcome;
