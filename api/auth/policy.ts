@@ -16,12 +16,14 @@ export type Policy =
       role?: Role;
       /** Only the platform operator (users only). */
       operator?: true;
-      /** Browser (embed) keys may call it: only sizing. */
+      /** Browser (embed) keys may call it: sizing, and reading active catalog items. */
       embed?: true;
     };
 
 const sizing: Policy = { scope: 'sizing:run', role: 'estimator', embed: true };
 const keysAdmin: Policy = { scope: 'keys:manage', role: 'admin' };
+const catalogRead: Policy = { scope: 'catalog:read', role: 'viewer' };
+const catalogWrite: Policy = { scope: 'catalog:write', role: 'admin' };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
 export const POLICIES: Record<string, Policy> = {
@@ -67,6 +69,20 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/usage/export': { scope: 'usage:read', role: 'viewer' },
 
   'GET /v1/audit-events': { role: 'admin' },
+
+  // The stored catalog: viewers read, admins change it. Embed keys (with catalog:read) may list
+  // items, and then see active ones only: the embeddable estimator shows what the shop sells.
+  'GET /v1/catalog': catalogRead,
+  'PATCH /v1/catalog': catalogWrite,
+  'GET /v1/catalog/items': { ...catalogRead, embed: true },
+  'POST /v1/catalog/items': catalogWrite,
+  'GET /v1/catalog/items/:sku': catalogRead,
+  'PUT /v1/catalog/items/:sku': catalogWrite,
+  'PATCH /v1/catalog/items/:sku': catalogWrite,
+  'DELETE /v1/catalog/items/:sku': catalogWrite,
+  'GET /v1/catalog/template': catalogRead,
+  'GET /v1/catalog/export': catalogRead,
+  'POST /v1/catalog/imports': catalogWrite,
 };
 
 /** A malformed %-escape is just a path that matches nothing (404), not an error. */

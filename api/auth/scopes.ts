@@ -1,10 +1,10 @@
 import { SCOPE_VALUES } from '../../shared/schemas/api-keys.js';
 
-/** What an API key may do. Embed (browser) keys only ever get `sizing:run`. */
+/** What an API key may do. Embed (browser) keys only ever get `sizing:run` and `catalog:read`. */
 export const SCOPES = SCOPE_VALUES;
 export type Scope = (typeof SCOPES)[number];
 
-export const EMBED_SCOPES: readonly Scope[] = ['sizing:run'];
+export const EMBED_SCOPES: readonly Scope[] = ['sizing:run', 'catalog:read'];
 
 /** Roles inside an organisation, most privileged first. */
 export const ROLES = ['admin', 'estimator', 'viewer'] as const;

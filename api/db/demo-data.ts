@@ -1,4 +1,5 @@
 import type { Scope } from '../auth/scopes.js';
+import { harborLaneCatalog } from '../../shared/schemas/estimate-examples.js';
 
 /** The invented demo scenario (see DEVELOPERS.md); every name here is made up. */
 export const demoOrganizations = [
@@ -26,3 +27,12 @@ export const demoMembers = [
 
 /** Server-side demo keys: everything a partner's server needs, but not key management. */
 export const demoServerKeyScopes: Scope[] = ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'usage:read'];
+
+/** Demo page keys: sizing, and the shop's active catalog items for the embeddable estimator. */
+export const demoEmbedKeyScopes: Scope[] = ['sizing:run', 'catalog:read'];
+
+/**
+ * Stored catalogs of the demo: Harbor Lane's is the inline example catalog (EUR), with a tax rate
+ * invented for the demo so net, tax and gross differ.
+ */
+export const demoCatalogs = [{ organization: 'harbor-lane', currency: harborLaneCatalog.currency, taxRatePercent: 20, items: harborLaneCatalog.items }] as const;

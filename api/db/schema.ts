@@ -237,3 +237,43 @@ export const idempotencyRecords = pgTable(
   },
   (t) => [primaryKey({ columns: [t.owner, t.key] })],
 );
+
+/**
+ * One stored catalog per organisation: its currency, tax rate and a version every change to it or
+ * its items bumps (an estimate can then say which version priced it).
+ */
+export const catalogs = pgTable('catalogs', {
+  organizationId: uuid('organization_id')
+    .primaryKey()
+    .references(() => organizations.id, { onDelete: 'cascade' }),
+  currency: text('currency').notNull().default('EUR'),
+  /** Tax rate in hundredths of a percent (2000 = 20 %), so it stays exact. */
+  taxRateBasisPoints: integer('tax_rate_basis_points').notNull().default(0),
+  version: integer('version').notNull().default(1),
+  createdAt: createdAt(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/**
+ * A catalog's items. The fields of the item's kind live in `fields` (validated by that kind's
+ * schema before they get here); the price is kept in integer minor units so sums are exact. A
+ * retired item (`active` false) stays for old estimates but is never picked.
+ */
+export const catalogItems = pgTable(
+  'catalog_items',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => catalogs.organizationId, { onDelete: 'cascade' }),
+    sku: text('sku').notNull(),
+    kind: text('kind').notNull(),
+    description: text('description'),
+    fields: jsonb('fields').$type<Record<string, unknown>>().notNull(),
+    unitPriceMinor: bigint('unit_price_minor', { mode: 'number' }),
+    active: boolean('active').notNull().default(true),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('catalog_items_org_sku').on(t.organizationId, t.sku), index('catalog_items_org_kind').on(t.organizationId, t.kind, t.sku)],
+);

@@ -1,10 +1,12 @@
 import { count } from 'drizzle-orm';
 import { formatKey, generateKey, hashSecret, type KeyKind } from '../auth/key-format.js';
 import type { Database } from './client.js';
-import { apiKeys, organizations } from './schema.js';
+import { apiKeys, catalogItems, catalogs, organizations } from './schema.js';
+import { itemColumns } from '../services/catalog.js';
+import { storedCatalogItemSchema } from '../../shared/schemas/catalog-store.js';
 import { addMember } from '../services/members.js';
 import { createUserService } from '../services/users.js';
-import { DEMO_PASSWORD, demoMembers, demoOperator, demoOrganizations, demoServerKeyScopes } from './demo-data.js';
+import { DEMO_PASSWORD, demoCatalogs, demoEmbedKeyScopes, demoMembers, demoOperator, demoOrganizations, demoServerKeyScopes } from './demo-data.js';
 
 const SEED_LOCK = 740_312;
 
@@ -49,11 +51,18 @@ export async function seedDemo(database: Database, enabled: boolean, pepper: Buf
             organizationId: org.id,
             kind,
             name: kind === 'server' ? 'Demo server key' : 'Demo page key',
-            scopes: kind === 'server' ? demoServerKeyScopes : ['sizing:run'],
+            scopes: kind === 'server' ? demoServerKeyScopes : demoEmbedKeyScopes,
             allowedOrigins,
             secretHash: hashSecret(pepper, key.keyId, key.secret),
           });
           keys.push({ organization: demo.slug, kind, token: formatKey(kind, key.keyId, key.secret), allowedOrigins });
+        }
+        for (const catalog of demoCatalogs.filter((c) => c.organization === demo.slug)) {
+          // Version 1: the seeded catalog is its first state.
+          await tx.insert(catalogs).values({ organizationId: org.id, currency: catalog.currency, taxRateBasisPoints: Math.round(catalog.taxRatePercent * 100), version: 1 });
+          for (const item of catalog.items) {
+            await tx.insert(catalogItems).values({ organizationId: org.id, ...itemColumns(storedCatalogItemSchema.parse(item), catalog.currency) });
+          }
         }
       }
     });

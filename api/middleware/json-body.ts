@@ -4,6 +4,9 @@ import { HttpProblem } from '../problem.js';
 /** What express.json() can inflate; anything else is refused before a byte is parsed. */
 const ENCODINGS = new Set(['identity', 'gzip', 'deflate', 'br']);
 
+/** The routes that take a multipart file upload instead of JSON. */
+const UPLOAD_ROUTES = new Set(['POST /v1/catalog/imports']);
+
 /** A body is present when one is framed: chunked, or a non-zero Content-Length. */
 function hasBody(req: Request): boolean {
   return req.headers['transfer-encoding'] !== undefined || Number(req.headers['content-length'] ?? 0) > 0;
@@ -16,6 +19,8 @@ function hasBody(req: Request): boolean {
  */
 export const jsonBodyOnly: RequestHandler = (req, _res, next) => {
   if (!hasBody(req)) return next();
+  // File uploads: multer reads (and bounds) these multipart bodies in their routes.
+  if (UPLOAD_ROUTES.has(`${req.method} ${req.baseUrl}${req.path}`) && req.is('multipart/form-data')) return next();
   if (!req.is('application/json')) {
     const sent = req.headers['content-type'] ?? 'none';
     return next(

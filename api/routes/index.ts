@@ -1,3 +1,4 @@
+import { catalogRoutes } from './catalog.js';
 import { calculationRoutes } from './calculations.js';
 import { estimateRoutes } from './estimates.js';
 import { healthRoutes } from './health.js';
@@ -11,4 +12,4 @@ import { usageRoutes } from './usage.js';
 import type { RouteModule } from './route-module.js';
 
 /** Every resource the API mounts, in one list: the app and the OpenAPI document both use it. */
-export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes];
+export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes];

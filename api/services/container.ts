@@ -5,6 +5,7 @@ import { KeyCache } from '../auth/key-cache.js';
 import type { AppDeps } from '../deps.js';
 import { createApiKeyService } from './api-keys.js';
 import { createAuditService } from './audit.js';
+import { createCatalogService } from './catalog.js';
 import { createMailer } from './mailer.js';
 import { createEmailTokenService } from './email-tokens.js';
 import { createMemberService } from './members.js';
@@ -50,6 +51,7 @@ export function createServices(deps: AppDeps) {
     organizations: createOrganizationService({ db, clock }),
     allowedOrigins,
     audit: createAuditService({ db, clock }),
+    catalog: createCatalogService({ db, clock }),
     mailer,
     plans,
     quotas,

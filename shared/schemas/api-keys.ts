@@ -34,10 +34,10 @@ export const createApiKeyRequestSchema = z
   .strictObject({
     name: nameText(100).meta({ description: 'What the key is for.', example: 'Product pages' }),
     kind: keyKindSchema.default('server').meta({
-      description: '`server` (tw_server_…) for servers; `embed` (tw_embed_…) for shop web pages: sizing only, from its allowed origins.',
+      description: '`server` (tw_server_…) for servers; `embed` (tw_embed_…) for shop web pages: sizing and active catalog items only, from its allowed origins.',
     }),
     scopes: z.array(scopeSchema).min(1).max(8).optional().meta({
-      description: 'Defaults to ["sizing:run"]. Never more than the creator holds; embed keys get only sizing:run.',
+      description: 'Defaults to ["sizing:run"]. Never more than the creator holds; embed keys get only sizing:run and catalog:read (reading active catalog items).',
     }),
     allowedOrigins: z.array(originPattern).max(20).optional().meta({
       description: 'Embed keys only (required there): page origins allowed to use the key; one leading `*.` label matches sub-domains.',
@@ -47,7 +47,9 @@ export const createApiKeyRequestSchema = z
   .superRefine((v, ctx) => {
     if (v.kind === 'embed') {
       if (!v.allowedOrigins?.length) ctx.addIssue({ code: 'custom', path: ['allowedOrigins'], message: 'an embed key needs at least one allowed origin' });
-      if (v.scopes && v.scopes.some((s) => s !== 'sizing:run')) ctx.addIssue({ code: 'custom', path: ['scopes'], message: 'embed keys may only have sizing:run' });
+      if (v.scopes && v.scopes.some((s) => s !== 'sizing:run' && s !== 'catalog:read')) {
+        ctx.addIssue({ code: 'custom', path: ['scopes'], message: 'embed keys may only have sizing:run and catalog:read' });
+      }
     } else if (v.allowedOrigins?.length) {
       ctx.addIssue({ code: 'custom', path: ['allowedOrigins'], message: 'only embed keys have allowed origins' });
     }

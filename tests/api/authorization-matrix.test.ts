@@ -39,6 +39,9 @@ beforeAll(async () => {
   }
   const pub = await createKey(t, org.id, { kind: 'embed', allowedOrigins: [ORIGIN] });
   credentials.push({ name: 'embed key', token: pub.token, origin: ORIGIN, as: { kind: 'key', embed: true, scopes: ['sizing:run'] } });
+  // A shop page's key that may also list the catalog (the embeddable estimator's key).
+  const shopPage = await createKey(t, org.id, { kind: 'embed', scopes: ['sizing:run', 'catalog:read'], allowedOrigins: [ORIGIN] });
+  credentials.push({ name: 'embed key with catalog:read', token: shopPage.token, origin: ORIGIN, as: { kind: 'key', embed: true, scopes: ['sizing:run', 'catalog:read'] } });
 
   const expiring = await createKey(t, org.id, { scopes: [...SCOPES], expiresAt: new Date(now.getTime() + 1000) });
   const revoked = await createKey(t, org.id, { scopes: [...SCOPES] });

@@ -21,7 +21,8 @@ import { createApiKeyRequestSchema, rotateApiKeyRequestSchema } from '../../shar
 import { cableRequestSchema } from '../../shared/schemas/cable.js';
 import { driverRequestSchema } from '../../shared/schemas/driver.js';
 import { estimateRequestSchema } from '../../shared/schemas/estimate.js';
-import { estimateExamples } from '../../shared/schemas/estimate-examples.js';
+import { catalogImportQuerySchema, catalogItemQuerySchema, patchCatalogItemSchema, patchCatalogSchema, storedCatalogItemSchema } from '../../shared/schemas/catalog-store.js';
+import { estimateExamples, harborLaneCatalog } from '../../shared/schemas/estimate-examples.js';
 import { pageQuerySchema } from '../../shared/schemas/page.js';
 import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
 import { reelsRequestSchema } from '../../shared/schemas/reels.js';
@@ -139,9 +140,14 @@ const bodySchemas: { name: string; schema: z.ZodType; seeds: Json[] }[] = [
   { name: 'update-organization', schema: updateOrganizationRequestSchema, seeds: [seedOf(updateOrganizationRequestSchema)] },
   { name: 'create-key', schema: createApiKeyRequestSchema, seeds: [seedOf(createApiKeyRequestSchema), { name: 'Server', scopes: ['sizing:run', 'usage:read'], expiresAt: '2027-01-01T00:00:00Z' }] },
   { name: 'rotate-key', schema: rotateApiKeyRequestSchema, seeds: [{ overlapHours: 2 }] },
+  { name: 'catalog-item', schema: storedCatalogItemSchema, seeds: harborLaneCatalog.items.map((item) => ({ ...item, active: true })) },
+  { name: 'patch-catalog-item', schema: patchCatalogItemSchema, seeds: [{ unitPrice: 36, description: 'Driver 24 V', active: false }, { unitPrice: null }] },
+  { name: 'patch-catalog', schema: patchCatalogSchema, seeds: [{ currency: 'EUR', taxRatePercent: 20 }] },
 ];
 const querySchemas: { name: string; schema: z.ZodType; seeds: Json[] }[] = [
   { name: 'page', schema: pageQuerySchema, seeds: [{ limit: '20', cursor: 'eyJ4IjoxfQ' }] },
+  { name: 'catalog-items', schema: catalogItemQuerySchema, seeds: [{ limit: '20', kind: 'driver', active: 'true' }] },
+  { name: 'catalog-import', schema: catalogImportQuerySchema, seeds: [{ dryRun: 'true' }] },
   { name: 'usage', schema: usageQuerySchema, seeds: [{ from: '2026-11-01', to: '2026-11-30', keyId: 'h7kq2mzx4c5d', route: 'POST /v1/estimates' }] },
 ];
 
