@@ -30,33 +30,55 @@ export function zodFieldErrors(error: z.ZodError): FieldError[] {
   return errors.slice(0, MAX_FIELD_ERRORS);
 }
 
+/** What one walk over a request finds: unknown fields and text with control characters. */
+interface Findings {
+  unknown: string[];
+  controlled: string[];
+}
+
 /**
- * Keys of the input that the parsed value no longer has: the fields a schema without
- * strictness would drop silently. Request schemas are strict (`z.strictObject`), so this is the
- * safety net for a schema that forgets it. Keys the schema adds (defaults) are fine; a value the
- * schema transformed into something else than an object or array is not compared further.
+ * One walk over the input and the parsed value side by side (the hot path reads each body once):
+ * - keys of the input that the parsed value no longer has — the fields a schema without
+ *   strictness would drop silently (request schemas are strict, `z.strictObject`, so this is the
+ *   safety net for one that forgets it). Keys the schema adds (defaults) are fine; a value the
+ *   schema turned into something other than an object or array is not compared further;
+ * - strings (and keys) of the parsed value holding control characters, whatever the schema.
  */
-export function droppedKeyPaths(input: unknown, output: unknown, path: string[] = [], found: string[] = []): string[] {
-  if (found.length >= MAX_FIELD_ERRORS) return found;
-  if (Array.isArray(input) && Array.isArray(output)) {
-    if (input.length === output.length) input.forEach((v, i) => droppedKeyPaths(v, output[i], [...path, String(i)], found));
-  } else if (isPlainObject(input) && isPlainObject(output)) {
-    for (const [k, v] of Object.entries(input)) {
-      if (found.length >= MAX_FIELD_ERRORS) break;
-      if (!Object.hasOwn(output, k)) found.push(fieldPath([...path, k]));
-      else droppedKeyPaths(v, output[k], [...path, k], found);
+function inspect(input: unknown, output: unknown, path: PropertyKey[], found: Findings): void {
+  if (found.unknown.length >= MAX_FIELD_ERRORS || found.controlled.length >= MAX_FIELD_ERRORS) return;
+  if (typeof output === 'string') {
+    if (hasControlCharacter(output)) found.controlled.push(fieldPath(path));
+  } else if (Array.isArray(output)) {
+    const pairs = Array.isArray(input) && input.length === output.length;
+    output.forEach((v, i) => {
+      path.push(i);
+      inspect(pairs ? (input as unknown[])[i] : undefined, v, path, found);
+      path.pop();
+    });
+  } else if (isPlainObject(output)) {
+    if (isPlainObject(input)) {
+      for (const k of Object.keys(input)) if (!Object.hasOwn(output, k)) found.unknown.push(fieldPath([...path, k]));
+    }
+    for (const [k, v] of Object.entries(output)) {
+      path.push(k);
+      if (hasControlCharacter(k)) found.controlled.push(fieldPath(path));
+      inspect(isPlainObject(input) ? input[k] : undefined, v, path, found);
+      path.pop();
     }
   }
-  return found;
 }
 
 function isPlainObject(value: unknown): value is Record<string, unknown> {
   return value !== null && typeof value === 'object' && !Array.isArray(value);
 }
 
-function unknownFieldErrors(input: unknown, output: unknown): FieldError[] {
-  return droppedKeyPaths(input, output).map((path) => ({ path, message: UNKNOWN_FIELD_MESSAGE }));
+function findingsOf(input: unknown, output: unknown): Findings {
+  const found: Findings = { unknown: [], controlled: [] };
+  inspect(input, output, [], found);
+  return found;
 }
+
+const unknownFieldErrors = (paths: string[]): FieldError[] => paths.slice(0, MAX_FIELD_ERRORS).map((path) => ({ path, message: UNKNOWN_FIELD_MESSAGE }));
 
 /**
  * Parses the JSON body and keeps the parsed value in `res.locals.body`, so transforms and
@@ -71,39 +93,24 @@ export function validateBody<S extends z.ZodType>(schema: S): RequestHandler {
     const input: unknown = req.body ?? {};
     const parsed = schema.safeParse(input);
     if (!parsed.success) return next(problems.validation(zodFieldErrors(parsed.error)));
-    const unknown = unknownFieldErrors(input, parsed.data);
-    if (unknown.length) return next(problems.validation(unknown));
+    const { unknown, controlled } = findingsOf(input, parsed.data);
+    if (unknown.length) return next(problems.validation(unknownFieldErrors(unknown)));
     // Every text field, whatever its schema: a NUL or other control character never reaches the
     // database (PostgreSQL refuses NUL in text) nor a log line.
-    const controlled = controlCharacterPaths(parsed.data);
-    if (controlled.length) return next(problems.validation(controlled.map((path) => ({ path, message: 'must not contain control characters' }))));
+    if (controlled.length) {
+      return next(problems.validation(controlled.slice(0, MAX_FIELD_ERRORS).map((path) => ({ path, message: 'must not contain control characters' }))));
+    }
     res.locals.body = parsed.data;
     next();
   };
-}
-
-/** Paths of the strings (and object keys) in a parsed body that hold control characters. */
-export function controlCharacterPaths(value: unknown, path: string[] = [], found: string[] = []): string[] {
-  if (found.length >= 20) return found;
-  if (typeof value === 'string') {
-    if (hasControlCharacter(value)) found.push(path.join('.') || '(body)');
-  } else if (Array.isArray(value)) {
-    value.forEach((v, i) => controlCharacterPaths(v, [...path, String(i)], found));
-  } else if (value !== null && typeof value === 'object') {
-    for (const [k, v] of Object.entries(value)) {
-      if (hasControlCharacter(k)) found.push([...path, k].join('.'));
-      controlCharacterPaths(v, [...path, k], found);
-    }
-  }
-  return found;
 }
 
 export function validateQuery<S extends z.ZodType>(schema: S): RequestHandler {
   return (req, res, next) => {
     const parsed = schema.safeParse(req.query);
     if (!parsed.success) return next(problems.validation(zodFieldErrors(parsed.error), 'The query string is not valid.'));
-    const unknown = unknownFieldErrors(req.query, parsed.data);
-    if (unknown.length) return next(problems.validation(unknown, 'The query string is not valid.'));
+    const { unknown } = findingsOf(req.query, parsed.data);
+    if (unknown.length) return next(problems.validation(unknownFieldErrors(unknown), 'The query string is not valid.'));
     res.locals.query = parsed.data;
     next();
   };

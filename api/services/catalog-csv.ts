@@ -2,17 +2,7 @@ import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import type { z } from 'zod';
 import { storedCatalogItemSchema, toMinorUnits, type StoredCatalogItem } from '../../shared/schemas/catalog-store.js';
-import {
-  catalogAluminiumProfileSchema,
-  catalogCableSchema,
-  catalogControllerSchema,
-  catalogDaylightSensorSchema,
-  catalogDriverSchema,
-  catalogEndCapsSchema,
-  catalogMotionSensorSchema,
-  catalogPixelStripSchema,
-  catalogStripSchema,
-} from '../../shared/schemas/catalog.js';
+import { catalogItemSchema } from '../../shared/schemas/catalog.js';
 import { hasControlCharacter } from '../../shared/schemas/text.js';
 import { zodFieldErrors } from '../middleware/validate.js';
 
@@ -87,17 +77,8 @@ function flatten(value: Record<string, unknown>, prefix = '', out: Record<string
 
 const BOM = '\uFEFF';
 
-const KIND_SCHEMAS = [
-  catalogStripSchema,
-  catalogPixelStripSchema,
-  catalogDriverSchema,
-  catalogCableSchema,
-  catalogControllerSchema,
-  catalogMotionSensorSchema,
-  catalogDaylightSensorSchema,
-  catalogAluminiumProfileSchema,
-  catalogEndCapsSchema,
-] as const;
+/** Every kind's schema, in the order of the inline catalog's union. */
+const KIND_SCHEMAS = catalogItemSchema.options;
 
 export function catalogCsv(items: readonly StoredCatalogItem[]): string {
   const rows = items.map((item) => {
