@@ -1,5 +1,6 @@
 import { createHmac, randomBytes, randomUUID } from 'node:crypto';
 import { and, eq, gt, isNull } from 'drizzle-orm';
+import { z } from 'zod';
 import type { OrganizationRef, Session, SwitchedOrganization } from '../../shared/schemas/accounts.js';
 import type { AccessTokens } from '../auth/access-tokens.js';
 import { verifyPassword } from '../auth/passwords.js';
@@ -106,7 +107,7 @@ export function createSessionService({ db, pepper, clock, accessTokens, users: u
         .where(and(eq(refreshTokens.familyId, sessionId), eq(refreshTokens.userId, userId), isNull(refreshTokens.usedAt), isNull(refreshTokens.revokedAt), gt(refreshTokens.expiresAt, now)));
       if (!live) return { ok: false, reason: 'session_ended' };
       const memberships = await userService.membershipsOf(userId);
-      const isId = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(slugOrId);
+      const isId = z.uuid().safeParse(slugOrId).success; // as the other services tell ids from names
       const member = memberships.find((m) => (isId ? m.organization.id === slugOrId.toLowerCase() : m.organization.slug === slugOrId));
       let organization: OrganizationRef | undefined = member?.organization;
       if (!organization && user.operator) {
