@@ -6,11 +6,15 @@ import {
   catalogControllerSchema,
   catalogDaylightSensorSchema,
   catalogDriverSchema,
+  catalogDataLineSchema,
   catalogEndCapsSchema,
+  catalogFuseSchema,
   catalogMotionSensorSchema,
   catalogPixelStripSchema,
   catalogStripSchema,
+  currencySchema,
   minorUnitDigits,
+  taxRateSchema,
 } from './catalog.js';
 
 /**
@@ -33,6 +37,8 @@ export const storedCatalogItemSchema = z
     catalogDaylightSensorSchema.safeExtend(active).meta({ id: 'StoredCatalogDaylightSensor' }),
     catalogAluminiumProfileSchema.safeExtend(active).meta({ id: 'StoredCatalogAluminiumProfile' }),
     catalogEndCapsSchema.safeExtend(active).meta({ id: 'StoredCatalogEndCaps' }),
+    catalogFuseSchema.safeExtend(active).meta({ id: 'StoredCatalogFuse' }),
+    catalogDataLineSchema.safeExtend(active).meta({ id: 'StoredCatalogDataLine' }),
   ])
   .meta({
     id: 'StoredCatalogItem',
@@ -65,17 +71,6 @@ export const catalogItemQuerySchema = pageQuerySchema
 export type CatalogItemQuery = z.output<typeof catalogItemQuerySchema>;
 
 export const catalogItemPageSchema = pageOf(storedCatalogItemSchema, 'StoredCatalogItemPage');
-
-const currencySchema = z
-  .string()
-  .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
-  .meta({ description: 'ISO 4217 currency of every unitPrice.', example: 'EUR' });
-const taxRateSchema = z
-  .number()
-  .min(0)
-  .max(100)
-  .refine((v) => Math.abs(v * 100 - Math.round(v * 100)) < 1e-6, 'at most two decimal places')
-  .meta({ description: 'Tax rate added to net prices, percent (20 = 20 %), two decimals at most.', example: 20 });
 
 export const storedCatalogSchema = z
   .object({

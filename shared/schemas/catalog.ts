@@ -148,6 +148,32 @@ export const catalogEndCapsSchema = z
   .strictObject({ ...base, kind: z.literal('end-caps') })
   .meta({ id: 'CatalogEndCaps', description: 'A pair of end caps: one pair closes one profile piece.', example: { sku: 'HL-E02', kind: 'end-caps', unitPrice: 0.9 } });
 
+export const catalogFuseSchema = z
+  .strictObject({
+    ...base,
+    kind: z.literal('fuse'),
+    ratingA: z.number().positive().max(1000).meta({ description: 'Fuse rating, A: the line of a feeder fuse of this rating is priced with it.' }),
+  })
+  .meta({
+    id: 'CatalogFuse',
+    description: 'Inline fuse holder with its fuse, fitted at a driver output (one per feeder).',
+    example: { sku: 'HL-F05', kind: 'fuse', unitPrice: 3.2, ratingA: 5 },
+  });
+
+export const DATA_LINE_PARTS = ['differential-link', 'level-shifter'] as const;
+
+export const catalogDataLineSchema = z
+  .strictObject({
+    ...base,
+    kind: z.literal('data-line'),
+    part: z.enum(DATA_LINE_PARTS).meta({ description: '`differential-link`: transmitter and receiver pair for a long one-wire data gap; `level-shifter`: 3.3 V to 5 V logic for one data output.' }),
+  })
+  .meta({
+    id: 'CatalogDataLine',
+    description: 'A part of a pixel data line.',
+    example: { sku: 'HL-DL2', kind: 'data-line', unitPrice: 14, part: 'differential-link' },
+  });
+
 export const catalogItemSchema = z
   .discriminatedUnion('kind', [
     catalogStripSchema,
@@ -159,6 +185,8 @@ export const catalogItemSchema = z
     catalogDaylightSensorSchema,
     catalogAluminiumProfileSchema,
     catalogEndCapsSchema,
+    catalogFuseSchema,
+    catalogDataLineSchema,
   ])
   .meta({
     id: 'CatalogItem',
@@ -166,12 +194,22 @@ export const catalogItemSchema = z
     example: { sku: 'HL-D24-100', kind: 'driver', unitPrice: 34, voltageV: 24, ratingW: 100 },
   });
 
+export const currencySchema = z
+  .string()
+  .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
+  .meta({ description: 'ISO 4217 currency of every unitPrice.', example: 'EUR' });
+
+export const taxRateSchema = z
+  .number()
+  .min(0)
+  .max(100)
+  .refine((v) => Math.abs(v * 100 - Math.round(v * 100)) < 1e-6, 'at most two decimal places')
+  .meta({ description: 'Tax rate added to net prices, percent (20 = 20 %), two decimals at most.', example: 20 });
+
 export const catalogSchema = z
   .strictObject({
-    currency: z
-      .string()
-      .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
-      .meta({ description: 'ISO 4217 currency of every unitPrice.', example: 'EUR' }),
+    currency: currencySchema,
+    taxRatePercent: taxRateSchema.optional().meta({ description: 'Tax added to the net total, percent (20 = 20 %). Default 0.', default: 0 }),
     items: z.array(catalogItemSchema).min(1).max(MAX_CATALOG_ITEMS).meta({ description: `The catalog's items, at most ${MAX_CATALOG_ITEMS}.` }),
   })
   .superRefine((catalog, ctx) => {
@@ -217,3 +255,6 @@ export type CatalogMotionSensor = z.output<typeof catalogMotionSensorSchema>;
 export type CatalogDaylightSensor = z.output<typeof catalogDaylightSensorSchema>;
 export type CatalogAluminiumProfile = z.output<typeof catalogAluminiumProfileSchema>;
 export type CatalogEndCaps = z.output<typeof catalogEndCapsSchema>;
+export type CatalogFuse = z.output<typeof catalogFuseSchema>;
+export type CatalogDataLine = z.output<typeof catalogDataLineSchema>;
+export type DataLinePart = (typeof DATA_LINE_PARTS)[number];

@@ -401,6 +401,18 @@ const commonFields = {
   sensors: estimateSensorsSchema.optional(),
   reels: estimateReelsSchema.optional(),
   catalog: catalogSchema.optional(),
+  useStoredCatalog: z
+    .boolean()
+    .optional()
+    .meta({
+      description:
+        'Without an inline `catalog`, the estimate is priced from the organisation’s stored catalog (its active items). false: leave it unpriced. Default true.',
+      default: true,
+    }),
+  profiles: z
+    .boolean()
+    .optional()
+    .meta({ description: 'true: add aluminium profile bars and end caps for every lit tread piece, from the catalog. Default false.', default: false }),
   standby: estimateStandbySchema.optional(),
 };
 
@@ -931,11 +943,46 @@ export const bomLineSchema = z
     unitPrice: z.number().optional(),
     lineTotal: z.number().optional(),
     note: z.string().optional().meta({ description: 'Why a line has no price, or how it was matched.' }),
+    missing: z
+      .object({
+        kind: z.string().meta({ description: 'The catalog kind the line needs.', example: 'driver' }),
+        fields: z
+          .record(z.string(), z.union([z.string(), z.number(), z.boolean()]))
+          .meta({ description: 'The fields an item of that kind must have to fill the line.', example: { voltageV: 24, ratingW: 150 } }),
+      })
+      .optional()
+      .meta({ description: 'With a catalog: the item the catalog lacks for this line (no active item of this kind with these fields).' }),
   })
   .meta({
     id: 'BomLine',
     description: 'One line of the bill of materials.',
     example: { sku: 'HL-S24-10', category: 'strip', description: 'CV strip 24 V 10 W/m, 5 m reel', quantity: 3, unit: 'reel', unitPrice: 39, lineTotal: 117 },
+  });
+
+export const cartLineSchema = z
+  .object({
+    sku: z.string(),
+    quantity: z.int(),
+    unitPrice: z.number().meta({ description: 'Net price of one unit, major units of `currency`.' }),
+  })
+  .meta({ id: 'CartLine', description: 'One line a shop’s basket takes: SKU, quantity and net unit price.', example: { sku: 'HL-S24-10', quantity: 3, unitPrice: 39 } });
+
+export const estimatePricingSchema = z
+  .object({
+    source: z.enum(['inline', 'stored']).meta({ description: '`inline`: the request’s catalog; `stored`: the organisation’s stored catalog.' }),
+    catalogVersion: z.int().nullable().meta({ description: 'Version of the stored catalog that priced the estimate; null for an inline catalog.' }),
+    currency: z.string(),
+    taxRatePercent: z.number(),
+    net: z.number().meta({ description: 'Sum of the priced lines, net, computed in integer minor units.' }),
+    tax: z.number().meta({ description: 'Tax on the net total, rounded half up to the minor unit.' }),
+    gross: z.number().meta({ description: 'net + tax.' }),
+    complete: z.boolean().meta({ description: 'false when some lines are not priced (see their `missing` and `note`).' }),
+    unpricedLines: z.int(),
+  })
+  .meta({
+    id: 'EstimatePricing',
+    description: 'Which catalog priced the estimate, and its totals net, tax and gross.',
+    example: { source: 'stored', catalogVersion: 21, currency: 'EUR', taxRatePercent: 20, net: 250.5, tax: 50.1, gross: 300.6, complete: true, unpricedLines: 0 },
   });
 
 export const estimateCheckSchema = z
@@ -1024,6 +1071,11 @@ export const estimateResponseSchema = z
     bomTotal: z.number().optional().meta({ description: 'Sum of the priced lines, computed in integer minor units (with a catalog).' }),
     bomTotalComplete: z.boolean().optional().meta({ description: 'false when some lines have no catalog price.' }),
     currency: z.string().optional(),
+    pricing: estimatePricingSchema.optional().meta({ description: 'With a catalog: which one priced the estimate, and the totals net, tax and gross.' }),
+    cart: z
+      .array(cartLineSchema)
+      .optional()
+      .meta({ description: 'With a catalog: the priced lines as a shop’s basket takes them (SKU, quantity, net unit price), in `currency`.' }),
     checks: z.array(estimateCheckSchema),
     cautions: z.array(cautionSchema),
     standby: estimateStandbyResultSchema,
@@ -1048,4 +1100,6 @@ export type EstimatePixelRun = z.output<typeof estimatePixelRunSchema>;
 export type EstimateCableLine = z.output<typeof estimateCableLineSchema>;
 export type EstimateSensorsResult = z.output<typeof estimateSensorsResultSchema>;
 export type BomLine = z.output<typeof bomLineSchema>;
+export type CartLine = z.output<typeof cartLineSchema>;
+export type EstimatePricing = z.output<typeof estimatePricingSchema>;
 export type Caution = z.output<typeof cautionSchema>;
