@@ -6,6 +6,10 @@ import type { AppDeps } from '../deps.js';
 import { createApiKeyService } from './api-keys.js';
 import { createAuditService } from './audit.js';
 import { createCatalogService } from './catalog.js';
+import { createProjectService } from './projects.js';
+import { createStairService } from './stairs.js';
+import { createStoredEstimateService } from './stored-estimates.js';
+import { estimate } from '../../shared/sizing/estimate/estimate.js';
 import { createMailer } from './mailer.js';
 import { createEmailTokenService } from './email-tokens.js';
 import { createMemberService } from './members.js';
@@ -37,6 +41,10 @@ export function createServices(deps: AppDeps) {
   const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, flushAfterCalls: deps.config.usageFlushAfterCalls, observer: quotas.observer });
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
+  const projects = createProjectService({ db, clock });
+  const stairs = createStairService({ db, clock, projects });
+  // Until the stored-catalog pricing lands, a stair runs on the engine alone (priced only by an inline catalog).
+  const storedEstimates = createStoredEstimateService({ db, clock, stairs, runner: async (_organizationId, input) => estimate(input) });
   return {
     apiKeys,
     keyCache,
@@ -52,6 +60,9 @@ export function createServices(deps: AppDeps) {
     allowedOrigins,
     audit: createAuditService({ db, clock }),
     catalog: createCatalogService({ db, clock }),
+    projects,
+    stairs,
+    storedEstimates,
     mailer,
     plans,
     quotas,
