@@ -4,7 +4,7 @@ import { z } from 'zod';
 import type { Actor, CreateProject, PatchProject, Project } from '../../shared/schemas/projects.js';
 import type { Principal } from '../auth/principal.js';
 import type { Db } from '../db/client.js';
-import { projects, projectStairs } from '../db/schema.js';
+import { projects } from '../db/schema.js';
 import { HttpProblem } from '../problem.js';
 import { decodeCursor, toPage, type Page, type PageQuery } from './pagination.js';
 
@@ -33,7 +33,9 @@ export function afterCursor(createdAt: AnyPgColumn, id: AnyPgColumn, cursor: [st
   return or(lt(createdAt, at), and(eq(createdAt, at), lt(id, cursor[1])));
 }
 
-const stairCount = sql<number>`(select count(*) from ${projectStairs} where ${projectStairs.projectId} = ${projects.id})`.mapWith(Number);
+// Spelt out: drizzle writes columns unqualified in a one-table select, which inside the subquery
+// would compare project_stairs' own columns.
+const stairCount = sql<number>`(select count(*) from "project_stairs" as "s" where "s"."project_id" = "projects"."id")`.mapWith(Number);
 
 function view(row: ProjectRow, stairs: number): Project {
   return {
