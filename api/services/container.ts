@@ -6,10 +6,10 @@ import type { AppDeps } from '../deps.js';
 import { createApiKeyService } from './api-keys.js';
 import { createAuditService } from './audit.js';
 import { createCatalogService } from './catalog.js';
+import { createPricedEstimates } from './priced-estimates.js';
 import { createProjectService } from './projects.js';
 import { createStairService } from './stairs.js';
 import { createStoredEstimateService } from './stored-estimates.js';
-import { estimate } from '../../shared/sizing/estimate/estimate.js';
 import { createMailer } from './mailer.js';
 import { createEmailTokenService } from './email-tokens.js';
 import { createMemberService } from './members.js';
@@ -41,10 +41,12 @@ export function createServices(deps: AppDeps) {
   const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, flushAfterCalls: deps.config.usageFlushAfterCalls, observer: quotas.observer });
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
+  const catalog = createCatalogService({ db, clock });
+  const pricedEstimates = createPricedEstimates(catalog);
   const projects = createProjectService({ db, clock });
   const stairs = createStairService({ db, clock, projects });
-  // Until the stored-catalog pricing lands, a stair runs on the engine alone (priced only by an inline catalog).
-  const storedEstimates = createStoredEstimateService({ db, clock, stairs, runner: async (_organizationId, input) => estimate(input) });
+  // A stair runs as POST /v1/estimates does: priced from the stored catalog unless its input carries one.
+  const storedEstimates = createStoredEstimateService({ db, clock, stairs, runner: (organizationId, input) => pricedEstimates.run(organizationId, input) });
   return {
     apiKeys,
     keyCache,
@@ -59,7 +61,8 @@ export function createServices(deps: AppDeps) {
     organizations: createOrganizationService({ db, clock }),
     allowedOrigins,
     audit: createAuditService({ db, clock }),
-    catalog: createCatalogService({ db, clock }),
+    catalog,
+    pricedEstimates,
     projects,
     stairs,
     storedEstimates,
