@@ -59,6 +59,8 @@ export function writeCsv(rows: readonly CsvRow[], options: CsvOptions = {}): str
     while (written.length < width) written.push('');
     return written;
   });
-  const body = stringify(cells, { record_delimiter: '\r\n' });
+  // csv-stringify quotes a field holding the record delimiter (CRLF) but not a lone CR or LF, which
+  // readers take as a line break: any cell with either is quoted.
+  const body = stringify(cells, { record_delimiter: '\r\n', quoted_match: /[\r\n]/ });
   return (options.byteOrderMark === false ? '' : BYTE_ORDER_MARK) + body;
 }
