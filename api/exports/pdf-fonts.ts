@@ -1,10 +1,11 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import pdfmake from 'pdfmake';
+import { woffToSfnt } from './woff.js';
 
 /**
  * Fira Sans for the PDF, embedded from @fontsource/fira-sans. That package ships the font cut into
- * Unicode subsets (WOFF files, which pdfkit's font reader takes), so a text is set in runs: each
+ * Unicode subsets (WOFF files, unwrapped once to TrueType: see woff.ts), so a text is set in runs: each
  * character in the subset that holds it. Characters no subset holds (arrows, ≤) get a plain
  * spelling, so nothing prints as an empty box.
  */
@@ -98,7 +99,7 @@ export function pdfmakeWithFonts(): typeof pdfmake {
     const files = Object.fromEntries(
       Object.entries(WEIGHTS).map(([face, weight]) => {
         const name = `fira-sans-${subset}-${weight}-normal.woff`;
-        pdfmake.virtualfs.writeFileSync(name, readFileSync(require.resolve(`@fontsource/fira-sans/files/${name}`)));
+        pdfmake.virtualfs.writeFileSync(name, woffToSfnt(readFileSync(require.resolve(`@fontsource/fira-sans/files/${name}`))));
         return [face, name];
       }),
     ) as { normal: string; bold: string };
