@@ -38,7 +38,7 @@ export function money(amount: number | undefined, currency: string | undefined):
   return `${amount.toFixed(digits)}${currency ? ` ${currency}` : ''}`;
 }
 
-const heading = (text: string): Node => ({ ...txt(text), style: 'h2' });
+const heading = (text: string): Node => ({ ...txt(text), style: 'h2', headlineLevel: 1 });
 const note = (text: string): Node => ({ ...txt(text), style: 'note' });
 
 /** A table with a header row that repeats on every page it runs over. */
@@ -70,7 +70,8 @@ function facts(pairs: [string, string][]): Node {
 }
 
 function titleBlock(result: EstimateResult, context: ExportContext): Node[] {
-  const title = context.stairName ? `Stair lighting estimate: ${context.stairName}` : 'Stair lighting estimate';
+  const kind = result.treads.length ? 'Stair lighting estimate' : 'Lighting estimate';
+  const title = context.stairName ? `${kind}: ${context.stairName}` : kind;
   const meta = [
     context.estimateId && `estimate ${context.estimateId}`,
     createdAtIso(context) && `run ${createdAtIso(context)!.slice(0, 16).replace('T', ' ')} UTC`,
@@ -83,13 +84,14 @@ function titleBlock(result: EstimateResult, context: ExportContext): Node[] {
 
 function summaryBlock(result: EstimateResult): Node[] {
   const s = result.summary;
+  const onTreads = s.treads > 0;
   const pairs: [string, string][] = [
     ['layout', result.layout],
-    ['treads (lit)', `${s.treads} (${s.litTreads})`],
+    ...(onTreads ? [['treads (lit)', `${s.treads} (${s.litTreads})`] as [string, string]] : []),
     ['controllers', String(s.controllers)],
     ['total load', `${num(s.totalLoadW, 1)} W`],
     ['drivers', String(s.driverCount)],
-    ['longest lead', `${num(s.longestRunM, 2)} m`],
+    ...(onTreads ? [['longest lead', `${num(s.longestRunM, 2)} m`] as [string, string]] : []),
     ...(s.longestFeederM !== undefined ? [['longest feeder', `${num(s.longestFeederM, 2)} m`] as [string, string]] : []),
     ['worst drop, driver to strip', `${num(s.worstDropPercent, 2)} %`],
     ['motion sensors', String(s.motionSensors)],
@@ -97,7 +99,7 @@ function summaryBlock(result: EstimateResult): Node[] {
     ['checks', `${s.checks.pass} pass, ${s.checks.warn} warn, ${s.checks.fail} fail`],
   ];
   if (result.pricing) pairs.push(['total (gross)', money(result.pricing.gross, result.pricing.currency)]);
-  return [heading('The stair at a glance'), facts(pairs)];
+  return [heading('At a glance'), facts(pairs)];
 }
 
 function treadBlock(result: EstimateResult, context: ExportContext): Node[] {
@@ -359,6 +361,8 @@ export function estimateDocument(result: EstimateResult, context: ExportContext 
       ...checkBlock(result),
       ...cautionBlock(result),
     ],
+    // A heading never ends a page: it moves to the next one with what it heads.
+    pageBreakBefore: (node: { headlineLevel?: number }, followingOnPage: unknown[]) => node.headlineLevel === 1 && followingOnPage.length === 0,
     footer: (page: number, pages: number) => ({
       columns: [txt(footerText, { color: MUTED }), txt(`page ${page} of ${pages}`, { alignment: 'right', color: MUTED })],
       margin: [40, 16, 40, 0],
