@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { EstimateResult } from '../../../shared/schemas/estimate.js';
 import { bomCsv } from '../../../api/exports/bom-csv.js';
-import { readCsv, run } from './estimates.js';
+import { pricedCheckout, readCsv, run } from './estimates.js';
 
 /** Lines as objects by header, up to the first empty row (the totals follow it). */
 function readBom(text: string) {
@@ -12,18 +12,8 @@ function readBom(text: string) {
   return { header, lines, totals };
 }
 
-/**
- * The demo checkout priced by hand from the Harbor Lane catalog (EUR, 20 % tax assumed for the test):
- * 3 × 39.00 + 14 × 8.50 + 14 × 0.90 + 1 × 46.00 + 23 × 0.60 + 2 × 1.00
- * = 117.00 + 119.00 + 12.60 + 46.00 + 13.80 + 2.00 = 310.40 net; tax 62.08; gross 372.48.
- */
-function pricedByHand(result: EstimateResult): EstimateResult {
-  const unpriced = result.bom.filter((l) => l.lineTotal === undefined).length;
-  return { ...result, pricing: { source: 'inline', catalogVersion: null, currency: 'EUR', taxRatePercent: 20, net: 310.4, tax: 62.08, gross: 372.48, complete: unpriced === 0, unpricedLines: unpriced } };
-}
-
 describe('the bill of materials CSV', () => {
-  const checkout = run('harborLaneCheckout');
+  const checkout = pricedCheckout();
 
   it('has one row per line with SKU, quantity, unit and the catalog prices, the currency in the price headers', () => {
     const { header, lines } = readBom(bomCsv(checkout));
@@ -37,19 +27,33 @@ describe('the bill of materials CSV', () => {
     expect(strip).toMatchObject({ quantity: '3', unit: 'reel', 'unit price (EUR)': '39', 'line total (EUR)': '117' }); // 3 × 39.00
     const thin = lines.find((l) => l.sku === 'HL-C050')!;
     expect(Number(thin['line total (EUR)'])).toBeCloseTo(Number(thin.quantity) * 0.6, 9); // 23 m × 0.60
-    expect(lines.find((l) => l.category === 'fuse')!.note).toMatch(/not priced/);
+    expect(lines.every((l) => l.note === '')).toBe(true); // every line found its item
   });
 
   it('adds net, tax with its rate, gross and the currency when the estimate is priced', () => {
-    const { totals } = readBom(bomCsv(pricedByHand(checkout)));
+    const { lines, totals } = readBom(bomCsv(checkout));
+    // By hand, from the demo catalog: 3 × 39.00 + 14 × 8.50 + 14 × 0.90 + 46.00 + 3.20 + 119.00 + 2 × 12.50
+    // + 9.90 + 23 × 0.60 + 2 × 1.00 + 6 × 0.90 = 472.90 net; 20 % tax = 94.58; gross 567.48.
+    expect(lines.map((l) => l.sku)).toEqual(['HL-S24-10', 'HL-A100', 'HL-E02', 'HL-D24-150', 'HL-F06', 'HL-K20', 'HL-M05', 'HL-L01', 'HL-C050', 'HL-C100', 'HL-C3-050']);
     expect(totals.map((t) => [t.description, t['line total (EUR)']])).toEqual([
-      ['net', '310.4'],
-      ['tax 20 %', '62.08'],
-      ['gross', '372.48'],
+      ['net', '472.9'],
+      ['tax 20 %', '94.58'],
+      ['gross', '567.48'],
       ['currency', ''],
     ]);
     expect(totals[3].unit).toBe('EUR');
-    expect(totals[0].note).toMatch(/^\d+ lines not priced/); // the fuse, controller, sensors, sensor cable have no price
+    expect(totals[0].note).toBe(''); // complete: every line priced
+  });
+
+  it('says which lines a catalog could not price and what it lacks for them', () => {
+    const partial = pricedCheckout(['HL-F06', 'HL-F10']);
+    expect(partial.pricing).toMatchObject({ complete: false, unpricedLines: 1 });
+    const { lines, totals } = readBom(bomCsv(partial));
+    const fuse = lines.find((l) => l.category === 'fuse')!;
+    expect(fuse).toMatchObject({ sku: '', 'unit price (EUR)': '', 'line total (EUR)': '' });
+    expect(fuse.note).toContain('missing fuse: ratingA 6.3'); // the 6.3 A fuse the circuit asks for
+    // 472.90 − 3.20 for the fuse = 469.70 net.
+    expect(totals[0]).toMatchObject({ description: 'net', 'line total (EUR)': '469.7', note: '1 line not priced: totals cover the priced lines only' });
   });
 
   it('shows a price-free estimate unpriced: no prices, no totals, no currency', () => {

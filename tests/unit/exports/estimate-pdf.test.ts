@@ -1,9 +1,8 @@
 import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { EstimateResult } from '../../../shared/schemas/estimate.js';
 import { estimatePdf, money } from '../../../api/exports/estimate-pdf.js';
 import { printedText } from '../../../api/exports/pdf-fonts.js';
-import { run } from './estimates.js';
+import { pricedCheckout, run } from './estimates.js';
 
 interface ReadPdf {
   pages: number;
@@ -30,11 +29,6 @@ const squeeze = (text: string) => text.replace(/\s+/g, '');
 /** What a text looks like in the PDF: signs Fira Sans lacks are spelt out (→ as ->). */
 const inPdf = (text: string) => squeeze(printedText(text));
 
-/** Priced by hand as in bom-csv.test.ts: 310.40 EUR net, 20 % tax 62.08, gross 372.48. */
-function pricedByHand(result: EstimateResult): EstimateResult {
-  return { ...result, pricing: { source: 'stored', catalogVersion: 21, currency: 'EUR', taxRatePercent: 20, net: 310.4, tax: 62.08, gross: 372.48, complete: false, unpricedLines: 5 } };
-}
-
 const context = {
   estimateId: 'est_4kq7',
   createdAt: '2026-12-01T09:30:00Z',
@@ -46,7 +40,10 @@ const context = {
 };
 
 describe('the estimate PDF', () => {
-  const checkout = pricedByHand(run('harborLaneCheckout'));
+  // Priced by the engine as in bom-csv.test.ts: 472.90 EUR net, 20 % tax 94.58, gross 567.48;
+  // named as a stored catalog's version 21 would be, to show where the PDF prints it.
+  const priced = pricedCheckout();
+  const checkout = { ...priced, pricing: { ...priced.pricing!, source: 'stored' as const, catalogVersion: 21 } };
   let pdf: Buffer;
   let read: ReadPdf;
   beforeAll(async () => {
@@ -63,9 +60,9 @@ describe('the estimate PDF', () => {
       expect(read.text).toContain(inPdf(check.message));
       if (check.suggestion) expect(read.text).toContain(inPdf(check.suggestion));
     }
-    expect(read.text).toContain(squeeze('net310.40 EUR'));
-    expect(read.text).toContain(squeeze('tax 20 %62.08 EUR'));
-    expect(read.text).toContain(squeeze('gross372.48 EUR'));
+    expect(read.text).toContain(squeeze('net472.90 EUR'));
+    expect(read.text).toContain(squeeze('tax 20 %94.58 EUR'));
+    expect(read.text).toContain(squeeze('gross567.48 EUR'));
     // By hand: 3 reels × 39.00 EUR = 117.00 EUR on the strip line.
     expect(read.text).toContain(squeeze('39.00 EUR117.00 EUR'));
   });

@@ -1,6 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { estimateRequestSchema, type EstimateResult } from '../../../shared/schemas/estimate.js';
-import { estimateExamples } from '../../../shared/schemas/estimate-examples.js';
+import { estimateExamples, harborLaneCatalog } from '../../../shared/schemas/estimate-examples.js';
 import { estimate } from '../../../shared/sizing/estimate/estimate.js';
 
 /** A real engine answer for one of the demo requests. */
@@ -42,4 +42,13 @@ export function block(blocks: ParsedBlock[], title: string): ParsedBlock {
   const found = blocks.find((b) => b.title === title);
   if (!found) throw new Error(`no block "${title}" among ${blocks.map((b) => b.title).join(', ')}`);
   return found;
+}
+
+/**
+ * Harbor Lane's checkout priced by the engine from the demo catalog with a 20 % tax rate; `without`
+ * drops catalog items by SKU, leaving their lines unpriced.
+ */
+export function pricedCheckout(without: readonly string[] = []): EstimateResult {
+  const catalog = { ...harborLaneCatalog, taxRatePercent: 20, items: harborLaneCatalog.items.filter((i) => !without.includes(i.sku)) };
+  return run('harborLaneCheckout', { catalog });
 }
