@@ -3,6 +3,7 @@ import { DEFAULT_OPTION_DESIGNS, MAX_OPTION_CANDIDATES, MAX_OPTION_DESIGNS, MAX_
 import { catalogSchema } from './catalog.js';
 import { engineVersionSchema, traceEntrySchema } from './common.js';
 import {
+  cautionSchema,
   cartLineSchema,
   estimateCableSchema,
   estimateDriversSchema,
@@ -187,6 +188,9 @@ export const kitOptionsResponseSchema = z
     pruned: z
       .array(z.object({ sku: z.string(), kind: z.enum(['strip', 'controller']), reason: z.string() }))
       .meta({ description: 'Catalog items left out before sizing, and why.' }),
+    cautions: z
+      .array(cautionSchema)
+      .meta({ description: 'The safety and scope notes of the listed designs (each once): mains work, overloaded drivers, hot cables — local codes and licensed practice prevail.' }),
     pricingSource: z.enum(['inline', 'stored']),
     catalogVersion: z.int().nullable(),
     trace: z.array(traceEntrySchema),

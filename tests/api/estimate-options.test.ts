@@ -64,6 +64,8 @@ describe('POST /v1/estimates/options with an inline catalog', () => {
     // The 12 V strip (HL-S12-07) loads its only 12 V driver past 80 %: 14 × 0.85 m × 7.2 W/m = 85.7 W > 80 W (hand arithmetic)
     expect(body.failuresByCheck['driver-loading']).toBeGreaterThan(0);
     for (const d of body.designs) expect(d.choices.stripSku).toBe('HL-S24-10');
+    // The kits are wired to mains-fed drivers: the estimate's cautions come with them.
+    expect(body.cautions.length).toBeGreaterThan(0);
 
     const top = body.designs[0]!;
     const full = await request(t.app)

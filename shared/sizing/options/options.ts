@@ -57,7 +57,11 @@ export function rankKitOptions(input: KitOptionsInput, catalog: Catalog, source:
     });
   }
   passing.sort(compareDesigns);
-  const designs = passing.slice(0, input.limit ?? DEFAULT_OPTION_DESIGNS).map((p, i) => designOf(p, i + 1));
+  const listed = passing.slice(0, input.limit ?? DEFAULT_OPTION_DESIGNS);
+  const designs = listed.map((p, i) => designOf(p, i + 1));
+  // Every listed kit is wired to mains and drivers: their cautions travel with the answer, each once.
+  const cautions = new Map<string, EstimateResult['cautions'][number]>();
+  for (const p of listed) for (const c of p.result.cautions) if (!cautions.has(c.code)) cautions.set(c.code, c);
 
   return {
     engineVersion: ENGINE_VERSION,
@@ -73,6 +77,7 @@ export function rankKitOptions(input: KitOptionsInput, catalog: Catalog, source:
     overBudget,
     failuresByCheck: Object.fromEntries(Object.entries(failuresByCheck).sort((a, b) => (a[0] < b[0] ? -1 : 1))),
     pruned: plan.pruned,
+    cautions: [...cautions.values()],
     pricingSource: source.source,
     catalogVersion: source.catalogVersion,
     trace: [
