@@ -30,10 +30,8 @@ const locals = (res: Response) => res.locals as unknown as OptionsLocals;
 async function catalogFor(services: Services, res: Response): Promise<OptionsLocals['optionsCatalog']> {
   const body = locals(res).body;
   if (body.catalog) return { catalog: body.catalog, source: { source: 'inline', catalogVersion: null } };
-  const organizationId = organizationOf(res);
-  const [head, all] = await Promise.all([services.catalog.get(organizationId), services.catalog.allItems(organizationId)]);
-  const items = all.items.filter((i) => i.active !== false).map(({ active: _active, ...item }) => item);
-  if (items.length === 0) {
+  const stored = await services.catalog.pricingCatalog(organizationOf(res));
+  if (!stored) {
     throw new HttpProblem(
       422,
       'catalog_empty',
@@ -41,7 +39,7 @@ async function catalogFor(services: Services, res: Response): Promise<OptionsLoc
       'The organisation’s catalog has no active items. Import one (POST /v1/catalog/imports) or send an inline `catalog` with the request.',
     );
   }
-  return { catalog: { currency: all.currency, taxRatePercent: head.taxRatePercent, items }, source: { source: 'stored', catalogVersion: head.version } };
+  return { catalog: stored.catalog, source: { source: 'stored', catalogVersion: stored.version } };
 }
 
 /**

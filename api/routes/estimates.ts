@@ -1,7 +1,9 @@
 import { Router } from 'express';
 import { estimateRequestSchema, estimateResponseSchema } from '../../shared/schemas/estimate.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
-import { defineCalculation, documentCalculation, mountCalculation } from './calculation-route.js';
+import { defineCalculation, documentCalculation, serializeAnswer } from './calculation-route.js';
+import { validateBody } from '../middleware/validate.js';
+import { organizationOf } from '../auth/principal.js';
 import { estimateCost } from './sizing-costs.js';
 import { costBudget } from '../middleware/cost-budget.js';
 import type { RouteModule } from './route-module.js';
@@ -18,8 +20,12 @@ const estimateCalculation = defineCalculation({
     '`treads-and-rail` (both, the rail grouped two pixel groups per tread) and `tread-pixels` (an addressable ' +
     'segment per tread, chained tread to tread). Returns per-tread rows (strip length, load, output, cable run, ' +
     'size and drop), outputs, drivers per rail voltage, the feeder, pixel data, reels, sensors, the bill of ' +
-    'materials (priced when the request carries an inline `catalog`), `checks` with a concrete suggestion on every ' +
-    'failure, and `cautions`.',
+    'materials, `checks` with a concrete suggestion on every failure, and `cautions`.\n\n' +
+    'Pricing: with an inline `catalog` the estimate is priced from it; without one, from the organisation’s stored catalog ' +
+    '(its active items; `useStoredCatalog: false` opts out). A priced answer carries `pricing` (which catalog and version, ' +
+    'net, tax and gross), `cart` (`[{ sku, quantity, unitPrice }]`, the lines a shop’s basket takes) and `currency`; ' +
+    'a line the catalog cannot fill names the kind and fields it needs in `missing`. Drivers are picked one per circuit, ' +
+    'the cheapest single active driver that meets the loading rule (and Class 2 when asked), never paralleled.',
   notes:
     '\n\nA design that breaks a limit is a 200 whose `checks` say what fails and what to change. Malformed or ' +
     'impossible input (negative treads, an unknown layout, a missing block) is a 400 with `errors[].path`. ' +
@@ -35,7 +41,10 @@ export const estimateRoutes: RouteModule = {
   router(deps, services) {
     const router = Router();
     const charge = costBudget(services, deps.logger);
-    mountCalculation(router, BASE, estimateCalculation, charge);
+    router.post('/', validateBody(estimateRequestSchema), charge(estimateCost as (body: never) => number), async (_req, res) => {
+      const result = await services.pricedEstimates.run(organizationOf(res), res.locals.body);
+      res.type('application/json').send(serializeAnswer(result));
+    });
     return router;
   },
   docs(registry) {

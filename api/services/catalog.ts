@@ -1,6 +1,6 @@
 import { and, asc, count, eq, gt, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { minorUnitDigits } from '../../shared/schemas/catalog.js';
+import { minorUnitDigits, type Catalog, type CatalogItem } from '../../shared/schemas/catalog.js';
 import {
   toMajorUnits,
   toMinorUnits,
@@ -19,6 +19,15 @@ type ItemRow = typeof catalogItems.$inferSelect;
 type CatalogRow = typeof catalogs.$inferSelect;
 
 const DEFAULT_CURRENCY = 'EUR';
+
+/** The active items of a stored catalog in the inline catalog's shape, and the version they are. */
+export interface PricingCatalog {
+  version: number;
+  catalog: Catalog;
+}
+
+/** Organisations whose active catalog is kept in memory between estimates. */
+const PRICING_CACHE_SIZE = 500;
 
 const notFound = (sku: string) => new HttpProblem(404, 'catalog_item_not_found', 'Not found', `The catalog has no SKU ${sku}.`);
 
@@ -57,6 +66,7 @@ export function itemColumns(item: StoredCatalogItem, currency: string, path = 'u
  * the catalog's version, so a version always names one exact set of items and prices.
  */
 export function createCatalogService({ db, clock }: { db: Db; clock: () => Date }) {
+  const pricingCache = new Map<string, { version: number; catalog: Catalog | null }>();
   async function catalogRow(tx: Db, organizationId: string): Promise<CatalogRow | undefined> {
     const [row] = await tx.select().from(catalogs).where(eq(catalogs.organizationId, organizationId));
     return row;
@@ -212,6 +222,32 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
         await bump(tx, organizationId);
         return { item: itemView(row, catalog.currency), changed: true };
       });
+    },
+
+    /**
+     * The active items as an inline catalog for the engine, with the version that holds them;
+     * null when the organisation has no active item. One primary-key read per call: the items
+     * are read again only when the version moved (any change bumps it, on any instance).
+     */
+    async pricingCatalog(organizationId: string): Promise<PricingCatalog | null> {
+      const row = await catalogRow(db, organizationId);
+      if (!row) return null;
+      const known = pricingCache.get(organizationId);
+      if (known && known.version === row.version) return known.catalog && { version: known.version, catalog: known.catalog };
+      const rows = await db
+        .select()
+        .from(catalogItems)
+        .where(and(eq(catalogItems.organizationId, organizationId), eq(catalogItems.active, true)))
+        .orderBy(asc(catalogItems.sku));
+      const items = rows.map((r) => {
+        const { active: _active, ...item } = itemView(r, row.currency);
+        return item as CatalogItem;
+      });
+      const catalog: Catalog | null =
+        items.length > 0 ? { currency: row.currency, taxRatePercent: row.taxRateBasisPoints / 100, items } : null;
+      if (pricingCache.size >= PRICING_CACHE_SIZE) pricingCache.delete(pricingCache.keys().next().value as string);
+      pricingCache.set(organizationId, { version: row.version, catalog });
+      return catalog && { version: row.version, catalog };
     },
 
     /** Every item, active and retired, by SKU (for the CSV export), with the catalog's currency. */

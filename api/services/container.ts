@@ -6,6 +6,7 @@ import type { AppDeps } from '../deps.js';
 import { createApiKeyService } from './api-keys.js';
 import { createAuditService } from './audit.js';
 import { createCatalogService } from './catalog.js';
+import { createPricedEstimates } from './priced-estimates.js';
 import { createMailer } from './mailer.js';
 import { createEmailTokenService } from './email-tokens.js';
 import { createMemberService } from './members.js';
@@ -37,6 +38,7 @@ export function createServices(deps: AppDeps) {
   const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, flushAfterCalls: deps.config.usageFlushAfterCalls, observer: quotas.observer });
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
+  const catalog = createCatalogService({ db, clock });
   return {
     apiKeys,
     keyCache,
@@ -51,7 +53,8 @@ export function createServices(deps: AppDeps) {
     organizations: createOrganizationService({ db, clock }),
     allowedOrigins,
     audit: createAuditService({ db, clock }),
-    catalog: createCatalogService({ db, clock }),
+    catalog,
+    pricedEstimates: createPricedEstimates(catalog),
     mailer,
     plans,
     quotas,

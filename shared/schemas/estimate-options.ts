@@ -156,9 +156,21 @@ export const kitDesignSchema = z
     pricing: estimatePricingSchema,
     summary: estimateSummarySchema,
     cart: z.array(cartLineSchema).meta({ description: 'The priced lines as a shop’s basket takes them.' }),
+    fillable: z.boolean().meta({ description: 'true when the catalog holds an active item for every line; false when some line names a `missing` part (such kits rank after the fillable ones).' }),
     unpriced: z
-      .array(z.object({ category: z.string(), description: z.string(), quantity: z.int(), note: z.string().optional() }))
-      .meta({ description: 'Lines the catalog does not price (no match, or no price): they are not in the total.' }),
+      .array(
+        z.object({
+          category: z.string(),
+          description: z.string(),
+          quantity: z.int(),
+          note: z.string().optional(),
+          missing: z
+            .object({ kind: z.string(), fields: z.record(z.string(), z.union([z.string(), z.number(), z.boolean()])) })
+            .optional()
+            .meta({ description: 'The item the catalog lacks for this line: its kind and fields.' }),
+        }),
+      )
+      .meta({ description: 'Lines the catalog does not price (no active item fits, or it has no price): they are not in the total.' }),
     warnings: z
       .array(z.object({ id: z.string(), message: z.string(), suggestion: z.string().optional() }))
       .meta({ description: 'The checks of this design that warn (none fails).' }),

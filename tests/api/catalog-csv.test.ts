@@ -43,10 +43,10 @@ describe('the catalog template', () => {
     expect(rows[0].slice(0, 5)).toEqual(['sku', 'kind', 'description', 'unitPrice', 'active']);
     expect(rows[0]).toContain('profile.outputs');
     expect(new Set(rows.slice(1).map((r) => r[1]))).toEqual(
-      new Set(['strip', 'pixel-strip', 'driver', 'cable', 'controller', 'motion-sensor', 'daylight-sensor', 'aluminium-profile', 'end-caps']),
+      new Set(['strip', 'pixel-strip', 'driver', 'cable', 'controller', 'motion-sensor', 'daylight-sensor', 'aluminium-profile', 'end-caps', 'fuse', 'data-line']),
     );
     const report = await upload(admin, text, { dryRun: true }).expect(200);
-    expect(report.body).toMatchObject({ dryRun: true, imported: false, rows: 9, created: 9, updated: 0, errors: [] });
+    expect(report.body).toMatchObject({ dryRun: true, imported: false, rows: 11, created: 11, updated: 0, errors: [] });
     expect(await version()).toBe(0); // a dry run writes nothing
     expect(await items()).toEqual([]);
   });

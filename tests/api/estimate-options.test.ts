@@ -104,11 +104,14 @@ describe('POST /v1/estimates/options with the stored catalog', () => {
   it('never picks a retired item', async () => {
     const { catalog } = t.app.locals.services;
     await catalog.importItems(shopId, [{ sku: 'HL-S24-05', kind: 'strip', unitPrice: 31, voltageV: 24, powerWPerM: 4.8, cutPitchMm: 100, reelLengthMm: 5000 }]);
-    const before = kitOptionsResponseSchema.parse((await post(server, { ...alderRowKitOptions, limit: 10 }).expect(200)).body);
-    expect(before.designs.some((d) => d.choices.stripSku === 'HL-S24-05')).toBe(true);
+    const onlyIt = { ...alderRowKitOptions, constraints: { stripSkus: ['HL-S24-05'] } };
+    const before = kitOptionsResponseSchema.parse((await post(server, onlyIt).expect(200)).body);
+    expect(before.designs.length).toBeGreaterThan(0);
+    for (const d of before.designs) expect(d.choices.stripSku).toBe('HL-S24-05');
     await catalog.retire(shopId, 'HL-S24-05');
-    const after = kitOptionsResponseSchema.parse((await post(server, { ...alderRowKitOptions, limit: 10 }).expect(200)).body);
-    expect(after.designs.some((d) => d.choices.stripSku === 'HL-S24-05')).toBe(false);
+    const after = kitOptionsResponseSchema.parse((await post(server, onlyIt).expect(200)).body);
+    expect(after.designs).toEqual([]);
+    expect(after.pruned).toEqual([{ sku: 'HL-S24-05', kind: 'strip', reason: 'no active strip with this SKU in the catalog' }]);
     expect(after.catalogVersion).toBeGreaterThan(before.catalogVersion as number);
   });
 
@@ -148,11 +151,12 @@ describe('POST /v1/estimates/options against the cost budget', () => {
     const org = await createOrganization(t);
     const { token } = await createKey(t, org.id, { scopes: ['sizing:run'] });
     const res = await post(token, harborLaneKitOptions).expect(200);
-    // 1 + ⌈20 items / 10⌉ + 36 candidates × (1 + 14 treads) = 543 work units (hand arithmetic, api docs' formula)
+    // 1 + ⌈25 items / 10⌉ + 36 candidates × (1 + 14 treads) = 544 work units (hand arithmetic, the documented formula)
+    expect(harborLaneKitOptions.catalog.items).toHaveLength(25);
     expect(res.body.candidates).toBe(36);
     const quota = Number(/"cost"; q=(\d+)/.exec(String(res.headers['ratelimit-policy']))?.[1]);
     const left = Number(/"cost"; r=(\d+)/.exec(String(res.headers['ratelimit']))?.[1]);
-    expect(quota - left).toBe(543);
+    expect(quota - left).toBe(544);
   });
 });
 

@@ -23,6 +23,7 @@ const straightFlightM = (s: { treads: number; riserHeightMm: number; goingMm: nu
 
 interface Brute {
   key: [string, string, string, string];
+  fillable: boolean;
   netCents: number;
   unpriced: number;
   warnings: number;
@@ -57,6 +58,7 @@ function bruteForce(input: KitOptionsInput, catalog: Catalog): Brute[] {
           const unpriced = result.bom.filter((l) => l.lineTotal === undefined).length;
           out.push({
             key: [strip.sku, controller.sku, cpos, dpos],
+            fillable: result.bom.every((l) => l.missing === undefined),
             netCents: Math.round((result.bomTotal ?? 0) * 100),
             unpriced,
             warnings: result.checks.filter((c) => c.status === 'warn').length,
@@ -70,7 +72,7 @@ function bruteForce(input: KitOptionsInput, catalog: Catalog): Brute[] {
   return out;
 }
 
-/** Cheapest net first, then fewer unpriced lines, fewer warnings, then the choices (SKUs by code point, positions bottom < middle < top). */
+/** Kits the catalog fills completely first, then cheapest net, then fewer unpriced lines, fewer warnings, then the choices (SKUs by code point, positions bottom < middle < top). */
 function bruteRanking(all: Brute[]): Brute[] {
   const order = (p: string) => POSITIONS.indexOf(p as (typeof POSITIONS)[number]);
   const text = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
@@ -78,6 +80,7 @@ function bruteRanking(all: Brute[]): Brute[] {
     .filter((b) => b.failing.length === 0)
     .sort(
       (a, b) =>
+        Number(!a.fillable) - Number(!b.fillable) ||
         a.netCents - b.netCents ||
         a.unpriced - b.unpriced ||
         a.warnings - b.warnings ||
@@ -106,8 +109,15 @@ const smallShop = catalogOf([
   { sku: 'T-M05', kind: 'motion-sensor', unitPrice: 12, ...hlM05Motion },
 ]);
 
+/** Harbor Lane with a cheaper 24 V strip whose lighter load wants a fuse the shop does not stock. */
+const harborLaneWithLowPower = catalogOf([
+  ...(harborLaneCatalog.items as readonly object[]),
+  { sku: 'HL-S24-05', kind: 'strip', unitPrice: 31, voltageV: 24, powerWPerM: 4.8, cutPitchMm: 100, reelLengthMm: 5000 },
+]);
+
 describe('kit options: ranking against a brute-force search', () => {
   const cases: [string, object, Catalog][] = [
+    ['Harbor Lane with a strip whose kit the shop cannot fill', { layout: 'tread-strips', staircase: alderRowStair, sensors: { motion: hlM05Motion }, limit: 10 }, harborLaneWithLowPower],
     ['the Harbor Lane catalog, Alder Row stair', { layout: 'tread-strips', staircase: alderRowStair, sensors: { motion: hlM05Motion }, limit: 10 }, harborLaneCatalog as unknown as Catalog],
     ['a small shop, Alder Row stair', { layout: 'tread-strips', staircase: alderRowStair, sensors: { motion: hlM05Motion }, limit: 10 }, smallShop],
     [
@@ -149,6 +159,19 @@ describe('kit options: ranking against a brute-force search', () => {
       const cents = d.cart.reduce((sum, l) => sum + l.quantity * Math.round(l.unitPrice * 100), 0);
       expect(cents).toBe(Math.round(d.pricing.net * 100));
     }
+  });
+});
+
+describe('kit options: kits the catalog cannot fill', () => {
+  it('ranks them after every fillable kit, and names the missing part', () => {
+    const got = run({ layout: 'tread-strips', staircase: alderRowStair, sensors: { motion: hlM05Motion }, catalog: harborLaneWithLowPower, limit: 10 });
+    const all = run({ layout: 'tread-strips', staircase: alderRowStair, sensors: { motion: hlM05Motion }, catalog: harborLaneWithLowPower, limit: 10, constraints: { stripSkus: ['HL-S24-05'] } });
+    const unfillable = all.designs.filter((d) => !d.fillable);
+    expect(unfillable.length).toBeGreaterThan(0);
+    for (const d of unfillable) expect(d.unpriced.some((l) => l.missing !== undefined)).toBe(true);
+    // Cheaper than the best fillable kit, yet listed after all of them.
+    expect(unfillable[0]!.pricing.net).toBeLessThan(got.designs[0]!.pricing.net);
+    expect(got.designs.every((d) => d.fillable)).toBe(true);
   });
 });
 

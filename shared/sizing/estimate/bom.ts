@@ -1,10 +1,11 @@
-import type { BomLine, EstimateCableLine } from '../../schemas/estimate.js';
+import type { DataLinePart } from '../../schemas/catalog.js';
+import type { BomLine, CartLine, EstimateCableLine, EstimatePricing } from '../../schemas/estimate.js';
 import { describeSize, type ConductorSize } from '../conductors.js';
 import { cutReels } from '../reels.js';
 import { round, type TraceEntry } from '../trace.js';
-import { findCable, type CatalogIndex } from './catalog.js';
+import { cheapestOf, findCable, findDataLinePart, findFuse, type CatalogIndex } from './catalog.js';
 import { fromMinor, toMinor } from './money.js';
-import type { SensorPart } from './sensor-layout.js';
+import type { SensorCableLine, SensorPart } from './sensor-layout.js';
 import type { Settings } from './settings.js';
 import type { Supplies } from './supply.js';
 
@@ -17,8 +18,15 @@ interface Match {
   priceWithheld?: string;
 }
 
+/** The catalog item a line needs: its kind and the fields an item must have to fill it. */
+export interface Wanted {
+  kind: string;
+  fields: Record<string, string | number | boolean>;
+}
+
 interface LineDraft {
   category: BomLine['category'];
+  want?: Wanted | undefined;
   description: string;
   quantity: number;
   unit: BomLine['unit'];
@@ -30,6 +38,7 @@ interface LineDraft {
 
 export interface StripLine {
   category: 'strip' | 'pixel-strip';
+  want: Wanted;
   description: string;
   reels: number;
   reelLengthMm: number;
@@ -44,17 +53,22 @@ export interface BomInput {
   strips: StripLine[];
   /** Strip pieces that get an aluminium profile (one per lit tread), mm. */
   profilePiecesMm: number[];
+  /** The request asks for profiles and end caps. */
+  profiles: boolean;
   supplies: Supplies;
   controllers: number;
   sensors: SensorPart;
   cables: EstimateCableLine[];
-  /** Parts the pixel data lines and sensors add (differential links, level shifters, sensor cable); none by default. */
+  /** Parts the pixel data lines add (differential links, level shifters); none by default. */
   extraLines?: ExtraBomLine[];
+  /** The sensors' 3-core cable, when the geometry places sensors away from the controller. */
+  sensorCable?: SensorCableLine | null;
 }
 
-/** A line that is not matched against the catalog (its kinds hold no such part). */
+/** A part of a pixel data line (differential link, level shifter), matched by its part. */
 export interface ExtraBomLine {
-  category: BomLine['category'];
+  category: 'data-line';
+  part: DataLinePart;
   description: string;
   quantity: number;
   unit: BomLine['unit'];
@@ -65,6 +79,8 @@ export interface Bom {
   total?: number;
   complete?: boolean;
   currency?: string;
+  pricing?: EstimatePricing;
+  cart?: CartLine[];
 }
 
 function cableSize(line: EstimateCableLine): ConductorSize | null {
@@ -105,6 +121,7 @@ function cableDrafts(cables: EstimateCableLine[], catalog: CatalogIndex | null):
     }
     const item = catalog ? findCable(catalog, size, cores[i] as number) : undefined;
     drafts.push({
+      want: { kind: 'cable', fields: { ...size, cores: cores[i] as number } },
       category: 'cable',
       description: `${cores[i]}-core copper cable ${describeSize(size)}`,
       quantity,
@@ -141,35 +158,16 @@ function drafts(input: BomInput): LineDraft[] {
     if (match && match.reelLengthMm !== undefined && Math.abs(match.reelLengthMm - s.reelLengthMm) > 1e-9) {
       match.priceWithheld = `catalog reel of ${match.sku} is ${match.reelLengthMm} mm, planned with ${s.reelLengthMm} mm reels`;
     }
-    out.push({ category: s.category, description: s.description, quantity: s.reels, unit: 'reel', sku: s.sku, match, note: s.note });
+    out.push({ category: s.category, want: s.want, description: s.description, quantity: s.reels, unit: 'reel', sku: s.sku, match, note: s.note });
   }
-
-  const profile = catalog?.aluminiumProfiles[0];
-  if (profile && input.profilePiecesMm.length > 0) {
-    out.push({
-      category: 'aluminium-profile',
-      description: `Aluminium profile with diffuser, ${profile.lengthMm} mm bars cut to the tread pieces`,
-      quantity: profileBars(input.profilePiecesMm, profile.lengthMm),
-      unit: 'pcs',
-      match: { sku: profile.sku, unitPrice: profile.unitPrice, description: profile.description },
-    });
-  }
-  const caps = catalog?.endCaps[0];
-  if (caps && input.profilePiecesMm.length > 0) {
-    out.push({
-      category: 'end-caps',
-      description: 'End caps, one pair per tread piece',
-      quantity: input.profilePiecesMm.length,
-      unit: 'pair',
-      match: { sku: caps.sku, unitPrice: caps.unitPrice, description: caps.description },
-    });
-  }
+  if (input.profiles) out.push(...profileDrafts(input.profilePiecesMm, catalog));
 
   for (const rail of input.supplies.rails) {
     for (const g of rail.response.drivers) {
       const sku = rail.skuByRating.get(g.ratingW);
       const item = sku && catalog ? catalog.drivers.find((d) => d.sku === sku) : undefined;
       out.push({
+        want: { kind: 'driver', fields: { voltageV: rail.voltageV, ratingW: g.ratingW } },
         category: 'driver',
         description: `LED driver ${rail.voltageV} V ${g.ratingW} W${input.settings.drivers.class2 ? ' (listed Class 2)' : ''}, one per circuit (${circuitList(rail.circuits.filter((c) => c.ratingW === g.ratingW).map((c) => c.index))}); never parallel their outputs`,
         quantity: g.count,
@@ -185,17 +183,27 @@ function drafts(input: BomInput): LineDraft[] {
     if (f.target.currentA > 0 && f.protection.fuseA !== null) fuses.set(f.protection.fuseA, (fuses.get(f.protection.fuseA) ?? 0) + 1);
   }
   for (const [ratingA, count] of [...fuses.entries()].sort((a, b) => a[0] - b[0])) {
-    out.push({ category: 'fuse', description: `Inline fuse holder with ${ratingA} A fuse, at the driver output of a feeder`, quantity: count, unit: 'pcs' });
+    const item = catalog ? findFuse(catalog, ratingA) : undefined;
+    out.push({
+      want: { kind: 'fuse', fields: { ratingA } },
+      category: 'fuse',
+      description: `Inline fuse holder with ${ratingA} A fuse, at the driver output of a feeder`,
+      quantity: count,
+      unit: 'pcs',
+      match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+    });
   }
 
   const controllerItem = input.settings.controllerSku && catalog ? catalog.controllers.find((c) => c.sku === input.settings.controllerSku) : undefined;
+  const profile = input.settings.profile;
   out.push({
+    want: { kind: 'controller', fields: { outputs: profile.outputs, maxCurrentPerOutputA: profile.maxCurrentPerOutputA } },
     category: 'controller',
     description: controllerItem ? 'Stair controller' : 'Stair controller (profile sent inline)',
     quantity: input.controllers,
     unit: 'pcs',
     match: controllerItem && { sku: controllerItem.sku, unitPrice: controllerItem.unitPrice, description: controllerItem.description },
-    note: catalog && !controllerItem ? 'profile sent inline, not a catalog item: not priced' : undefined,
+    note: catalog && !controllerItem ? 'profile sent inline, not a catalog item: not priced (name a catalog controller by controller.profileId to price it)' : undefined,
   });
 
   if (sensors.plan.motionSensors > 0) {
@@ -203,6 +211,7 @@ function drafts(input: BomInput): LineDraft[] {
     const item = m?.sku && catalog ? catalog.motionSensors.find((s) => s.sku === m.sku) : undefined;
     const i = sensors.controllerInput;
     out.push({
+      want: { kind: 'motion-sensor', fields: m ? { outputType: m.outputType, supplyV: m.supplyV, currentMa: m.currentMa } : { outputType: i.type, supplyV: i.supplyV } },
       category: 'motion-sensor',
       description: m
         ? `PIR motion sensor, ${m.outputType.toUpperCase()} output, ${m.supplyV} V, ${m.currentMa} mA`
@@ -215,6 +224,7 @@ function drafts(input: BomInput): LineDraft[] {
   if (sensors.daylightSensors > 0) {
     const item = sensors.daylightSku && catalog ? catalog.daylightSensors.find((s) => s.sku === sensors.daylightSku) : undefined;
     out.push({
+      want: { kind: 'daylight-sensor', fields: {} },
       category: 'daylight-sensor',
       description: `Ambient-light sensor for the ${sensors.response.daylightCutoffLux} lx cut-off`,
       quantity: sensors.daylightSensors,
@@ -223,14 +233,77 @@ function drafts(input: BomInput): LineDraft[] {
     });
   }
   out.push(...cableDrafts(input.cables, catalog));
-  for (const extra of input.extraLines ?? []) if (extra.quantity > 0) out.push({ ...extra });
+  const sc = input.sensorCable;
+  if (sc && sc.metres > 0) {
+    const item = catalog ? findCable(catalog, sc.size, 3) : undefined;
+    out.push({
+      want: { kind: 'cable', fields: { ...sc.size, cores: 3 } },
+      category: 'cable',
+      description: sc.description,
+      quantity: sc.metres,
+      unit: 'm',
+      match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+    });
+  }
+  for (const extra of input.extraLines ?? []) {
+    if (extra.quantity <= 0) continue;
+    const item = catalog ? findDataLinePart(catalog, extra.part) : undefined;
+    out.push({
+      want: { kind: 'data-line', fields: { part: extra.part } },
+      category: extra.category,
+      description: extra.description,
+      quantity: extra.quantity,
+      unit: extra.unit,
+      match: item && { sku: item.sku, unitPrice: item.unitPrice, description: item.description },
+    });
+  }
   return out;
 }
 
-/** Lines with quantities always; with a catalog, prices in integer minor units and their total. */
+/** Profile bars cut to the lit tread pieces, and a pair of end caps per piece. */
+function profileDrafts(piecesMm: number[], catalog: CatalogIndex | null): LineDraft[] {
+  if (piecesMm.length === 0) return [];
+  const profile = catalog ? cheapestOf(catalog.aluminiumProfiles) : undefined;
+  const caps = catalog ? cheapestOf(catalog.endCaps) : undefined;
+  const longest = Math.max(...piecesMm);
+  return [
+    profile
+      ? {
+          want: { kind: 'aluminium-profile', fields: {} },
+          category: 'aluminium-profile',
+          description: `Aluminium profile with diffuser, ${profile.lengthMm} mm bars cut to the tread pieces`,
+          quantity: profileBars(piecesMm, profile.lengthMm),
+          unit: 'pcs',
+          match: { sku: profile.sku, unitPrice: profile.unitPrice, description: profile.description },
+        }
+      : {
+          want: { kind: 'aluminium-profile', fields: { lengthMm: longest } },
+          category: 'aluminium-profile',
+          description: `Aluminium profile with diffuser, one piece per lit tread (longest ${longest} mm)`,
+          quantity: piecesMm.length,
+          unit: 'pcs',
+        },
+    {
+      want: { kind: 'end-caps', fields: {} },
+      category: 'end-caps',
+      description: 'End caps, one pair per tread piece',
+      quantity: piecesMm.length,
+      unit: 'pair',
+      match: caps && { sku: caps.sku, unitPrice: caps.unitPrice, description: caps.description },
+    },
+  ];
+}
+
+/** Tax on a net total, both in minor units, rounded half up (the rate in hundredths of a percent). */
+export function taxMinor(netMinor: number, basisPoints: number): number {
+  return Math.floor((netMinor * basisPoints + 5000) / 10000);
+}
+
+/** Lines with quantities always; with a catalog, prices in integer minor units, their totals and the cart. */
 export function buildBom(input: BomInput, trace: TraceEntry[]): Bom {
   const { catalog } = input;
   const lines: BomLine[] = [];
+  const cart = new Map<string, { quantity: number; unitMinor: number }>();
   let totalMinor = 0;
   let priced = 0;
   for (const draft of drafts(input)) {
@@ -240,8 +313,10 @@ export function buildBom(input: BomInput, trace: TraceEntry[]): Bom {
     let note = draft.note;
     if (catalog) {
       const m = draft.match;
-      if (!m) note ??= draft.sku ? `SKU ${draft.sku} is not in the catalog: not priced` : 'no catalog match: not priced';
-      else if (m.priceWithheld) note = `${m.priceWithheld}: not priced`;
+      if (!m) {
+        note ??= draft.sku ? `SKU ${draft.sku} is not an active item of the catalog: not priced` : `no active ${draft.want?.kind ?? 'catalog'} item fits: not priced`;
+        if (draft.want) line.missing = draft.want;
+      } else if (m.priceWithheld) note = `${m.priceWithheld}: not priced`;
       else if (m.unitPrice === undefined) note = 'catalog gives no price';
       else {
         const unitMinor = toMinor(m.unitPrice, catalog.currency);
@@ -250,20 +325,51 @@ export function buildBom(input: BomInput, trace: TraceEntry[]): Bom {
         line.lineTotal = fromMinor(lineMinor, catalog.currency);
         totalMinor += lineMinor;
         priced++;
+        const inCart = cart.get(m.sku);
+        if (inCart && inCart.unitMinor === unitMinor) inCart.quantity += draft.quantity;
+        else cart.set(m.sku, { quantity: draft.quantity, unitMinor });
       }
     }
     if (note) line.note = note;
     lines.push(line);
   }
   if (!catalog) return { lines };
-  const total = fromMinor(totalMinor, catalog.currency);
+  const currency = catalog.currency;
+  const total = fromMinor(totalMinor, currency);
+  const taxedMinor = taxMinor(totalMinor, catalog.taxRateBasisPoints);
   trace.push({
     quantity: 'bomTotal',
     value: total,
-    unit: catalog.currency.code,
+    unit: currency.code,
     formula: 'Σ quantity × unitPrice over priced lines, in integer minor units',
-    inputs: { lines: lines.length, pricedLines: priced, minorUnitDigits: catalog.currency.digits, totalMinorUnits: totalMinor },
+    inputs: { lines: lines.length, pricedLines: priced, minorUnitDigits: currency.digits, totalMinorUnits: totalMinor },
     reference: 'catalog prices as sent',
   });
-  return { lines, total: round(total, catalog.currency.digits), complete: priced === lines.length, currency: catalog.currency.code };
+  trace.push({
+    quantity: 'bomGross',
+    value: fromMinor(totalMinor + taxedMinor, currency),
+    unit: currency.code,
+    formula: 'net + round_half_up(net × taxRatePercent / 100), in integer minor units',
+    inputs: { netMinorUnits: totalMinor, taxRatePercent: catalog.taxRateBasisPoints / 100, taxMinorUnits: taxedMinor },
+    reference: 'catalog tax rate',
+  });
+  const complete = priced === lines.length;
+  return {
+    lines,
+    total: round(total, currency.digits),
+    complete,
+    currency: currency.code,
+    pricing: {
+      source: 'inline',
+      catalogVersion: null,
+      currency: currency.code,
+      taxRatePercent: catalog.taxRateBasisPoints / 100,
+      net: fromMinor(totalMinor, currency),
+      tax: fromMinor(taxedMinor, currency),
+      gross: fromMinor(totalMinor + taxedMinor, currency),
+      complete,
+      unpricedLines: lines.length - priced,
+    },
+    cart: [...cart.entries()].map(([sku, c]) => ({ sku, quantity: c.quantity, unitPrice: fromMinor(c.unitMinor, currency) })),
+  };
 }

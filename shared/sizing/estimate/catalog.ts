@@ -4,10 +4,13 @@ import {
   type CatalogAluminiumProfile,
   type CatalogCable,
   type CatalogController,
+  type CatalogDataLine,
   type CatalogDaylightSensor,
   type CatalogDriver,
   type CatalogEndCaps,
+  type CatalogFuse,
   type CatalogMotionSensor,
+  type DataLinePart,
   type CatalogPixelStrip,
   type CatalogStrip,
 } from '../../schemas/catalog.js';
@@ -18,6 +21,8 @@ import type { Currency } from './money.js';
 /** The catalog sorted by kind once, so each BOM line looks in a short list. */
 export interface CatalogIndex {
   currency: Currency;
+  /** Tax rate in hundredths of a percent (2000 = 20 %), so tax is integer arithmetic. */
+  taxRateBasisPoints: number;
   strips: CatalogStrip[];
   pixelStrips: CatalogPixelStrip[];
   drivers: CatalogDriver[];
@@ -27,6 +32,8 @@ export interface CatalogIndex {
   daylightSensors: CatalogDaylightSensor[];
   aluminiumProfiles: CatalogAluminiumProfile[];
   endCaps: CatalogEndCaps[];
+  fuses: CatalogFuse[];
+  dataLines: CatalogDataLine[];
 }
 
 // A shop sends the same catalog object with every stair of a batch: index it once.
@@ -38,6 +45,7 @@ export function indexCatalog(catalog: Catalog): CatalogIndex {
   const digits = minorUnitDigits(catalog.currency);
   const index: CatalogIndex = {
     currency: { code: catalog.currency, digits, scale: 10 ** digits },
+    taxRateBasisPoints: Math.round((catalog.taxRatePercent ?? 0) * 100),
     strips: [],
     pixelStrips: [],
     drivers: [],
@@ -47,6 +55,8 @@ export function indexCatalog(catalog: Catalog): CatalogIndex {
     daylightSensors: [],
     aluminiumProfiles: [],
     endCaps: [],
+    fuses: [],
+    dataLines: [],
   };
   for (const item of catalog.items) {
     switch (item.kind) {
@@ -59,6 +69,8 @@ export function indexCatalog(catalog: Catalog): CatalogIndex {
       case 'daylight-sensor': index.daylightSensors.push(item); break;
       case 'aluminium-profile': index.aluminiumProfiles.push(item); break;
       case 'end-caps': index.endCaps.push(item); break;
+      case 'fuse': index.fuses.push(item); break;
+      case 'data-line': index.dataLines.push(item); break;
     }
   }
   indexes.set(catalog, index);
@@ -136,4 +148,17 @@ export function findMotionSensor(
         (wanted.currentMa === undefined || same(m.currentMa, wanted.currentMa)),
     ),
   );
+}
+
+export function findFuse(index: CatalogIndex, ratingA: number): CatalogFuse | undefined {
+  return cheapest(index.fuses.filter((f) => same(f.ratingA, ratingA)));
+}
+
+export function findDataLinePart(index: CatalogIndex, part: DataLinePart): CatalogDataLine | undefined {
+  return cheapest(index.dataLines.filter((d) => d.part === part));
+}
+
+/** The cheapest of a kind that needs no matching fields (profiles, end caps, daylight sensors). */
+export function cheapestOf<T extends { unitPrice?: number | undefined }>(items: T[]): T | undefined {
+  return cheapest(items);
 }

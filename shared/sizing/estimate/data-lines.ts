@@ -1,4 +1,5 @@
 import type { ControllerProfile } from '../../schemas/controller.js';
+import type { DataLinePart } from '../../schemas/catalog.js';
 import type { TraceEntry } from '../trace.js';
 import { round } from '../trace.js';
 
@@ -101,12 +102,15 @@ export function dataLinesTrace(prefix: string, lines: DataLines, profile: Contro
 }
 
 /** Bill-of-materials lines the data lines need: a differential pair per long gap, a level shifter per output. */
-export function dataLineBomLines(lines: DataLines | null | undefined): { category: 'data-line'; description: string; quantity: number; unit: 'pcs' }[] {
+type DataLineBomLine = { category: 'data-line'; part: DataLinePart; description: string; quantity: number; unit: 'pcs' };
+
+export function dataLineBomLines(lines: DataLines | null | undefined): DataLineBomLine[] {
   if (!lines) return [];
-  const out: { category: 'data-line'; description: string; quantity: number; unit: 'pcs' }[] = [];
+  const out: DataLineBomLine[] = [];
   if (lines.overLimit.length > 0) {
     out.push({
       category: 'data-line',
+      part: 'differential-link',
       description: 'Differential data link for one-wire pixel data (transmitter + receiver pair), one per data gap over the unbuffered limit',
       quantity: lines.overLimit.length,
       unit: 'pcs',
@@ -115,6 +119,7 @@ export function dataLineBomLines(lines: DataLines | null | undefined): { categor
   if (lines.levelShiftersNeeded > 0) {
     out.push({
       category: 'data-line',
+      part: 'level-shifter',
       description: `Level shifter ${lines.dataLogicV} V → 5 V logic for one pixel data output`,
       quantity: lines.levelShiftersNeeded,
       unit: 'pcs',

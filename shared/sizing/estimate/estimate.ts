@@ -95,8 +95,10 @@ export function estimate(input: EstimateInput): EstimateResult {
   // Issue 8 (pixels): parts the data lines need, and the sensor cable from the geometry.
   const extraLines: ExtraBomLine[] = dataLineBomLines(rail?.dataLines ?? treadPixels?.dataLines);
   const sensorCable = sensors.wiring ? sensorCableLine(sensors, sensors.wiring, settings) : null;
-  if (sensorCable) extraLines.push(sensorCable);
-  const bom = buildBom({ settings, catalog, strips, profilePiecesMm: litPieces, supplies, controllers, sensors, cables, extraLines }, trace);
+  const bom = buildBom(
+    { settings, catalog, strips, profilePiecesMm: litPieces, profiles: input.profiles === true, supplies, controllers, sensors, cables, extraLines, sensorCable },
+    trace,
+  );
 
   let totalLoadW = 0;
   let driverCount = 0;
@@ -172,6 +174,8 @@ export function estimate(input: EstimateInput): EstimateResult {
   if (bom.total !== undefined) result.bomTotal = bom.total;
   if (bom.complete !== undefined) result.bomTotalComplete = bom.complete;
   if (bom.currency !== undefined) result.currency = bom.currency;
+  if (bom.pricing !== undefined) result.pricing = bom.pricing;
+  if (bom.cart !== undefined) result.cart = bom.cart;
   return result;
 }
 

@@ -1,6 +1,7 @@
 import type { SensorInput } from '../../schemas/controller.js';
 import type { EstimateInput, EstimateSensorsResult } from '../../schemas/estimate.js';
 import { treadPositionsM, type StairGeometry } from '../geometry.js';
+import { describeSize, type ConductorSize } from '../conductors.js';
 import { DEFAULT_SENSOR_INPUTS, sensorPlan, sensorTrace, TYPICAL_SENSOR_CURRENT_MA, type MotionSensor, type SensorPlan, type SensorPlanInput } from '../sensors.js';
 import { round, type TraceEntry } from '../trace.js';
 import { DEFAULT_RAIL_DATA_LEAD_M } from './data-lines.js';
@@ -192,19 +193,25 @@ export function sensorWiring(part: SensorPart, sites: ControllerSites, settings:
 }
 
 /** Adds the cable lengths to the response and gives the bill-of-materials line for the sensor cable. */
-export function sensorCableLine(part: SensorPart, wiring: SensorWiring, settings: Settings): { category: 'cable'; description: string; quantity: number; unit: 'm' } | null {
+export function sensorCableLine(part: SensorPart, wiring: SensorWiring, settings: Settings): SensorCableLine | null {
   part.response.placements.forEach((p, i) => {
     (p as { cableLengthM?: number }).cableLengthM = round(wiring.lengthsM[i] as number, 3);
   });
   part.response.sensorCableM = round(wiring.totalM, 3);
   if (wiring.lengthsM.length === 0) return null;
-  const size = settings.cable.system === 'awg' ? '22 AWG' : `${settings.cable.minCrossSectionMm2} mm²`;
+  const size: ConductorSize = settings.cable.system === 'awg' ? { awg: 22 } : { crossSectionMm2: settings.cable.minCrossSectionMm2 };
   return {
-    category: 'cable',
-    description: `3-core sensor cable (supply, 0 V, signal) ${size}, ${wiring.lengthsM.length} run${wiring.lengthsM.length === 1 ? '' : 's'}`,
-    quantity: Math.ceil(wiring.totalM - 1e-9),
-    unit: 'm',
+    description: `3-core sensor cable (supply, 0 V, signal) ${describeSize(size)}, ${wiring.lengthsM.length} run${wiring.lengthsM.length === 1 ? '' : 's'}`,
+    metres: Math.ceil(wiring.totalM - 1e-9),
+    size,
   };
+}
+
+/** The sensor cable to order: 3 cores (supply, 0 V, signal) of the smallest size the table allows. */
+export interface SensorCableLine {
+  description: string;
+  metres: number;
+  size: ConductorSize;
 }
 
 /** Where the layout put its controllers (tread blocks) or its rail. */

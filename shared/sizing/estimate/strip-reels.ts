@@ -2,7 +2,7 @@ import type { z } from 'zod';
 import type { estimateReelsResultSchema } from '../../schemas/estimate.js';
 import { cutReels, DEFAULT_REEL_LENGTH_MM, reelsTrace, usableReelMm, type ReelPlan } from '../reels.js';
 import { round, type TraceEntry } from '../trace.js';
-import type { StripLine } from './bom.js';
+import type { StripLine, Wanted } from './bom.js';
 import { findPixelStrip, findStrip, type CatalogIndex } from './catalog.js';
 import type { RailPart } from './rail-pixels.js';
 import { reelLengthDefault, type Settings } from './settings.js';
@@ -110,8 +110,10 @@ function stripLine(
   requestedSku: string | undefined,
   item: StockedStrip | undefined,
   differs: boolean,
+  want: Wanted,
 ): StripLine {
   return {
+    want: requestedSku !== undefined ? { kind: category, fields: { sku: requestedSku } } : want,
     category,
     description,
     reels,
@@ -142,7 +144,12 @@ export function planReels(
     if (treadReels) {
       const description = `CV strip ${s.voltageV} V ${s.powerWPerM} W/m, cut pitch ${s.cutPitchMm} mm, ${reelMm / 1000} m reel`;
       const differs = item !== undefined && (item.voltageV !== s.voltageV || item.powerWPerM !== s.powerWPerM);
-      strips.push(stripLine('strip', description, treadReels.response.reels, reelMm, s.sku, item, differs));
+      strips.push(
+        stripLine('strip', description, treadReels.response.reels, reelMm, s.sku, item, differs, {
+          kind: 'strip',
+          fields: { voltageV: s.voltageV, powerWPerM: s.powerWPerM, cutPitchMm: s.cutPitchMm },
+        }),
+      );
     }
   }
   if (treadPixels) {
@@ -153,7 +160,12 @@ export function planReels(
     if (treadReels) {
       const description = `Pixel strip ${b.voltageV} V ${b.pixelsPerM} pixels/m, ${b.protocol}, ${reelMm / 1000} m reel`;
       const differs = item !== undefined && (item.voltageV !== b.voltageV || item.pixelsPerM !== b.pixelsPerM);
-      strips.push(stripLine('pixel-strip', description, treadReels.response.reels, reelMm, b.sku, item, differs));
+      strips.push(
+        stripLine('pixel-strip', description, treadReels.response.reels, reelMm, b.sku, item, differs, {
+          kind: 'pixel-strip',
+          fields: { voltageV: b.voltageV, pixelsPerM: b.pixelsPerM, protocol: b.protocol },
+        }),
+      );
     }
   }
   // A rail that holds no whole pixel gets no reel (the rail-holds-pixels check fails instead).
@@ -164,7 +176,12 @@ export function planReels(
     railReels = planRailReels(r.lengthM, reelMm, item?.sku ?? r.sku, trace);
     const description = `Pixel strip ${r.voltageV} V ${r.pixelsPerM} pixels/m, ${r.protocol}, ${reelMm / 1000} m reel (rail)`;
     const differs = item !== undefined && (item.voltageV !== r.voltageV || item.pixelsPerM !== r.pixelsPerM);
-    strips.push(stripLine('pixel-strip', description, railReels.reels, reelMm, r.sku, item, differs));
+    strips.push(
+      stripLine('pixel-strip', description, railReels.reels, reelMm, r.sku, item, differs, {
+        kind: 'pixel-strip',
+        fields: { voltageV: r.voltageV, pixelsPerM: r.pixelsPerM, protocol: r.protocol },
+      }),
+    );
   }
   return { treadReels, railReels, strips };
 }

@@ -50,6 +50,7 @@ export function rankKitOptions(input: KitOptionsInput, catalog: Catalog, source:
       candidate,
       result,
       price,
+      fillable: price.fillable,
       netMinor: price.netMinor,
       unpricedLines: price.unpriced.length,
       warnings: result.summary.checks.warn,
@@ -114,6 +115,7 @@ function designOf(p: Passing, rank: number): KitDesign {
     pricing: p.price.pricing,
     summary: p.result.summary,
     cart: p.price.cart,
+    fillable: p.price.fillable,
     unpriced: p.price.unpriced,
     warnings: p.result.checks
       .filter((c) => c.status === 'warn')

@@ -15,6 +15,8 @@ export interface KitPrice {
   grossMinor: number;
   cart: CartLine[];
   unpriced: KitDesign['unpriced'];
+  /** No line names a part the catalog lacks. */
+  fillable: boolean;
 }
 
 /** Tax on a net total, rounded half up to the minor unit; the rate has at most two decimals. */
@@ -47,6 +49,7 @@ export function priceOf(result: EstimateResult, catalog: Catalog, source: Pricin
     if (l.lineTotal !== undefined) continue;
     const line: KitDesign['unpriced'][number] = { category: l.category, description: l.description, quantity: l.quantity };
     if (l.note !== undefined) line.note = l.note;
+    if (l.missing !== undefined) line.missing = l.missing;
     unpriced.push(line);
   }
   const cart = result.cart ?? cartOf(result);
@@ -57,6 +60,7 @@ export function priceOf(result: EstimateResult, catalog: Catalog, source: Pricin
       grossMinor: Math.round(result.pricing.gross * scale),
       cart,
       unpriced,
+      fillable: unpriced.every((l) => l.missing === undefined),
     };
   }
   const netMinor = Math.round((result.bomTotal ?? 0) * scale);
@@ -78,5 +82,6 @@ export function priceOf(result: EstimateResult, catalog: Catalog, source: Pricin
     grossMinor,
     cart,
     unpriced,
+    fillable: unpriced.every((l) => l.missing === undefined),
   };
 }
