@@ -101,6 +101,15 @@ describe('POST /v1/estimates/options with the stored catalog', () => {
     }
   });
 
+  it('answers designs that POST /v1/estimates prices the same from the stored catalog', async () => {
+    const body = kitOptionsResponseSchema.parse((await post(server, alderRowKitOptions).expect(200)).body);
+    const top = body.designs[0]!;
+    const full = await request(t.app).post('/v1/estimates').set(bearer(server)).send(top.estimateRequest).expect(200);
+    expect(full.body.pricing).toEqual(top.pricing);
+    expect(full.body.cart).toEqual(top.cart);
+    expect(full.body.summary).toEqual(top.summary);
+  });
+
   it('never picks a retired item', async () => {
     const { catalog } = t.app.locals.services;
     await catalog.importItems(shopId, [{ sku: 'HL-S24-05', kind: 'strip', unitPrice: 31, voltageV: 24, powerWPerM: 4.8, cutPitchMm: 100, reelLengthMm: 5000 }]);
