@@ -44,6 +44,8 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/calculations/pixels': sizing,
   'POST /v1/calculations/reels': sizing,
   'POST /v1/estimates': sizing,
+  // Ranked kits from the catalog: sizing, and the embeddable estimator needs it (embed keys).
+  'POST /v1/estimates/options': sizing,
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,
@@ -108,6 +110,9 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/projects/:id/stairs/:stairId/estimates': projectsRun,
   'GET /v1/estimates/:estimateId': projectsRead,
   'POST /v1/estimates/:estimateId/rerun': projectsRun,
+  'GET /v1/estimates/:estimateId/wiring-schedule.csv': projectsRead,
+  'GET /v1/estimates/:estimateId/bom.csv': projectsRead,
+  'GET /v1/estimates/:estimateId/document.pdf': projectsRead,
 };
 
 /** A malformed %-escape is just a path that matches nothing (404), not an error. */

@@ -4,12 +4,14 @@ import { estimateParams, rerunEstimateSchema, runStairSchema, storedEstimateSche
 import { organizationOf } from '../auth/principal.js';
 import { validateBody } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
+import { costBudget } from '../middleware/cost-budget.js';
+import { documentExports, mountExports } from './estimate-exports.js';
 import { runStored } from './projects.js';
 import type { RouteModule } from './route-module.js';
 
 const estimateId = (req: Request) => String(req.params.estimateId);
 
-/** Stored estimates by id: show one, re-run it. (POST /v1/estimates itself is the stateless sizing call.) */
+/** Stored estimates by id: show one, re-run it, download its hand-over papers. (POST /v1/estimates itself is the stateless sizing call.) */
 export const storedEstimateRoutes: RouteModule = {
   basePath: '/v1/estimates',
 
@@ -27,6 +29,7 @@ export const storedEstimateRoutes: RouteModule = {
       ...runStored(deps, services, (req, res) => storedEstimates.prepareRerun(organizationOf(res), estimateId(req))),
     );
 
+    mountExports(router, services, costBudget(services, deps.logger));
     return router;
   },
 
@@ -79,5 +82,6 @@ export const storedEstimateRoutes: RouteModule = {
         429: problemResponse('Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After.'),
       },
     });
+    documentExports(registry);
   },
 };
