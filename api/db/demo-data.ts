@@ -1,5 +1,5 @@
 import type { Scope } from '../auth/scopes.js';
-import { harborLaneCatalog, hlK20Profile, hlM05Motion, hlS2410Strip } from '../../shared/schemas/estimate-examples.js';
+import { harborLaneCatalog, hlM05Motion, hlS2410Strip } from '../../shared/schemas/estimate-examples.js';
 
 /** The invented demo scenario (see DEVELOPERS.md); every name here is made up. */
 export const demoOrganizations = [
@@ -56,7 +56,8 @@ export const demoProjects = [
           layout: 'tread-strips',
           staircase: { treads: 12, treadWidthMm: 1000, riserHeightMm: 180, goingMm: 260 },
           treadStrip: hlS2410Strip,
-          controller: { profile: hlK20Profile },
+          // The shop's controller by SKU: the stored catalog gives its profile and prices it.
+          controller: { profileId: 'HL-K20' },
           sensors: { motion: hlM05Motion },
         },
       },

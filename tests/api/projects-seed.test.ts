@@ -23,6 +23,9 @@ describe('the demo project', () => {
     expect(stair).toMatchObject({ name: 'Main stair', input: demo.stairs[0].input });
     const run = await request(t.app).post(`/v1/projects/${projects[0].id}/stairs/${stair.id}/estimates`).set('Authorization', `Bearer ${theo}`).expect(201);
     expect(run.body.result.summary.treads).toBe(12);
+    // Priced in full from the seeded catalog (version 1), the controller included.
+    expect(run.body.result.pricing).toMatchObject({ source: 'stored', catalogVersion: 1, complete: true });
+    expect(run.body.result.bom.map((l: { sku?: string }) => l.sku)).toContain('HL-K20');
 
     const ava = (await signIn(t.app, 'ava@kestrelfinch.test', DEMO_PASSWORD)).accessToken;
     expect((await as(ava)('/v1/projects').expect(200)).body.items).toEqual([]);
