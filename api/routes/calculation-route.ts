@@ -2,9 +2,11 @@ import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi';
 import type { RequestHandler, Router } from 'express';
 import type { z } from 'zod';
 import { MAX_ANSWER_BYTES } from '../../shared/tables/limits.js';
+import { serializeAnswer } from '../answer.js';
 import { validateBody } from '../middleware/validate.js';
-import { HttpProblem } from '../problem.js';
 import { problemResponse } from '../openapi/document.js';
+
+export { serializeAnswer };
 
 /** One stateless sizing endpoint: a request schema, a pure engine function, a response schema. */
 export interface Calculation<Req extends z.ZodType, Res extends z.ZodType> {
@@ -32,24 +34,6 @@ const CALCULATION_NOTES =
   '\n\nA design that breaks a limit is still a 200: the response says so in its flags and `warnings`. ' +
   'Only malformed or impossible input is a 400, with `errors[].path` naming each field. ' +
   'Every response carries `engineVersion` and a `trace` of how each headline number was derived.';
-
-/**
- * The answer serialized once, measured where it is built: a valid design whose answer would pass
- * MAX_ANSWER_BYTES is a 422 rather than megabytes on the wire (a design that fails checks is a 200).
- */
-export function serializeAnswer(answer: unknown): string {
-  const body = JSON.stringify(answer);
-  const bytes = Buffer.byteLength(body);
-  if (bytes > MAX_ANSWER_BYTES) {
-    throw new HttpProblem(
-      422,
-      'answer_too_large',
-      'Answer too large',
-      `The answer would be ${bytes} bytes, over the ${MAX_ANSWER_BYTES}-byte ceiling. Size the run in parts (fewer pixels or treads per request), or use longer feed lengths or higher feed currents.`,
-    );
-  }
-  return body;
-}
 
 /** Charges a call's cost to the caller's budget before the engine runs (api/middleware/cost-budget.ts). */
 export type CostCharger = (costOf: (body: never) => number) => RequestHandler;

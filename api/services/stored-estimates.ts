@@ -8,7 +8,7 @@ import type { Db } from '../db/client.js';
 import { projects, projectStairs, storedEstimates } from '../db/schema.js';
 import { zodFieldErrors } from '../middleware/validate.js';
 import { HttpProblem } from '../problem.js';
-import { serializeAnswer } from '../routes/calculation-route.js';
+import { serializeAnswer } from '../answer.js';
 import { decodeCursor, toPage, type Page, type PageQuery } from './pagination.js';
 import { afterCursor, isUuid, newestFirstCursor } from './projects.js';
 import type { StairService } from './stairs.js';
