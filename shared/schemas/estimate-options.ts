@@ -4,6 +4,7 @@ import { catalogSchema } from './catalog.js';
 import { engineVersionSchema, traceEntrySchema } from './common.js';
 import {
   cautionSchema,
+  checkJoinedLandings,
   cartLineSchema,
   estimateCableSchema,
   estimateDriversSchema,
@@ -113,19 +114,8 @@ export const kitOptionsRequestSchema = z
       .optional()
       .meta({ description: 'An inline catalog to build the kits from. Default: the organisation’s stored catalog (its active items).' }),
   })
-  .superRefine((value, ctx) => {
-    // As the estimate request checks it: a joined landing must be a landing of this stair.
-    const landings = (value.staircase.flights?.length ?? 1) - 1;
-    value.sensors?.joinedLandings?.forEach((landing, i) => {
-      if (landing > landings) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['sensors', 'joinedLandings', i],
-          message: landings === 0 ? 'the stair has no landing between flights' : `must be a landing from 1 to ${landings}`,
-        });
-      }
-    });
-  })
+  // As the estimate request checks it: a joined landing must be a landing of this stair.
+  .superRefine(checkJoinedLandings)
   .meta({
     id: 'KitOptionsRequest',
     description:

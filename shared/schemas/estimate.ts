@@ -465,6 +465,14 @@ function crossCheck(value: CrossCheckable, ctx: z.RefinementCtx): void {
   if ((value.staircase?.litLandings?.length ?? 0) > 0 && value.treadStrip === undefined) {
     ctx.addIssue({ code: 'custom', path: ['staircase', 'litLandings'], message: 'lit landings are sized with tread strips (layouts tread-strips and treads-and-rail)' });
   }
+  checkJoinedLandings(value, ctx);
+}
+
+/** A joined landing must be a landing of this stair (between two of its flights). */
+export function checkJoinedLandings(
+  value: { staircase?: { flights?: unknown[] | undefined } | undefined; sensors?: { joinedLandings?: number[] | undefined } | undefined },
+  ctx: z.RefinementCtx,
+): void {
   const landings = (value.staircase?.flights?.length ?? 1) - 1;
   value.sensors?.joinedLandings?.forEach((landing, i) => {
     if (landing > landings) {
