@@ -1,4 +1,3 @@
-import { CommanderError } from 'commander';
 import { handleError } from './errors.js';
 import { processIo } from './io.js';
 import { createProgram } from './program.js';
@@ -8,5 +7,5 @@ try {
   await program.parseAsync(process.argv);
 } catch (err) {
   // --help and --version end through exitOverride too, with their own (zero) exit codes.
-  process.exitCode = err instanceof CommanderError ? err.exitCode : handleError(err, processIo);
+  process.exitCode = handleError(err, processIo);
 }
