@@ -1,9 +1,13 @@
 import { Command } from 'commander';
 import { API_VERSION } from '../api/version.js';
+import { calcCommand } from './commands/calc.js';
+import { catalogCommand } from './commands/catalog.js';
 import { estimateCommand } from './commands/estimate.js';
 import { healthCommand } from './commands/health.js';
+import { keysCommand } from './commands/keys.js';
 import { loginCommand } from './commands/login.js';
 import { logoutCommand } from './commands/logout.js';
+import { usageCommand } from './commands/usage.js';
 import { whoamiCommand } from './commands/whoami.js';
 import type { CliIo } from './io.js';
 
@@ -29,6 +33,10 @@ export function createProgram(io: CliIo): Command {
   program.addCommand(logoutCommand(io));
   program.addCommand(whoamiCommand(io));
   program.addCommand(estimateCommand(io));
+  program.addCommand(calcCommand(io));
+  program.addCommand(keysCommand(io));
+  program.addCommand(catalogCommand(io));
+  program.addCommand(usageCommand(io));
   program.addCommand(healthCommand(io));
   configure(program, io);
   return program;

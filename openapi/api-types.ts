@@ -961,7 +961,7 @@ export interface components {
              * @default 5
              * @example 5
              */
-            maxDropPercent: number;
+            maxDropPercent?: number;
         };
         /**
          * @description One conductor of the two-wire run, either by mm² or by AWG.
@@ -1147,7 +1147,7 @@ export interface components {
              * @default 5
              * @example 5
              */
-            maxDropPercent: number;
+            maxDropPercent?: number;
             /**
              * @description Table to choose from. Default iec60228-class5.
              * @example iec60228-class5
@@ -1159,7 +1159,7 @@ export interface components {
              * @default 0.5
              * @example 0.5
              */
-            minCrossSectionMm2: number;
+            minCrossSectionMm2?: number;
             /**
              * @description Conductor temperature, °C. Default: the table’s reference (20 °C; 75 °C for NEC Table 8).
              * @example 20
@@ -1276,7 +1276,7 @@ export interface components {
              * @default 80
              * @example 80
              */
-            maxLoadingPercent: number;
+            maxLoadingPercent?: number;
             /**
              * @description Driver ratings to choose from, W; mixing ratings is allowed. Default 30, 60, 100, 150, 200, 240, 320, 480.
              * @example [
@@ -1312,13 +1312,13 @@ export interface components {
              * @default 230
              * @example 230
              */
-            mainsVoltageV: number;
+            mainsVoltageV?: number;
             /**
              * @description Driver input power factor. Default 0.9 (assumed).
              * @default 0.9
              * @example 0.9
              */
-            powerFactor: number;
+            powerFactor?: number;
         };
         /**
          * @description Frame time, refresh rate, data outputs and power of a pixel run.
@@ -1402,34 +1402,34 @@ export interface components {
              * @default 24
              * @enum {integer}
              */
-            bitsPerPixel: 24 | 32;
+            bitsPerPixel?: 24 | 32;
             /**
              * @description Latch time after each frame, µs: the one-wire reset (default 280); for clocked parts that latch on a pause rather than on the end frame, the pause (default 0).
              * @default 280
              */
-            resetUs: number;
+            resetUs?: number;
             /**
              * @description Clock rate of a clocked (data + clock) run, Hz.
              * @default 1000000
              */
-            clockHz: number;
+            clockHz?: number;
             /** @description Most pixels one data output drives (the controller's limit; at most 10000). */
             maxPixelsPerOutput?: number;
             /**
              * @description Current of one pixel at full white, mA. Default by channels and voltage: 60 for a 5 V RGB pixel, 80 for 5 V RGBW (32 bits), 60 / 80 per 12 V or 24 V segment (all from memory); a warning says when it was assumed.
              * @default 60
              */
-            currentPerPixelMa: number;
+            currentPerPixelMa?: number;
             /**
              * @description Strip supply voltage, V.
              * @default 5
              */
-            supplyVoltageV: number;
+            supplyVoltageV?: number;
             /**
              * @description Brightness cap; current scales linearly with it.
              * @default 100
              */
-            brightnessPercent: number;
+            brightnessPercent?: number;
         };
         /**
          * @description one-wire NRZ at 800 or 400 kbit/s, or two-wire data + clock.
@@ -1583,7 +1583,7 @@ export interface components {
              * @description Length of one reel, mm.
              * @default 5000
              */
-            reelLengthMm: number;
+            reelLengthMm?: number;
             /** @description Cut pitch, mm: each piece is cut at the last mark within its length (shortened to whole pitches, never longer than the space measured). */
             cutPitchMm?: number;
         };
@@ -3777,12 +3777,12 @@ export interface components {
              * @description Without an inline `catalog`, the estimate is priced from the organisation’s stored catalog (its active items). false: leave it unpriced. Default true.
              * @default true
              */
-            useStoredCatalog: boolean;
+            useStoredCatalog?: boolean;
             /**
              * @description true: add aluminium profile bars and end caps for every lit tread piece, from the catalog. Default false.
              * @default false
              */
-            profiles: boolean;
+            profiles?: boolean;
             standby?: components["schemas"]["EstimateStandbyRequest"];
         };
         /**
@@ -3851,7 +3851,7 @@ export interface components {
              * @description Gap left at each end of the tread, mm. Default 20 (common practice).
              * @default 20
              */
-            endClearanceMm: number;
+            endClearanceMm?: number;
             /** @description SKU of this part in the catalog, when one is sent. */
             sku?: string;
         };
@@ -3905,12 +3905,12 @@ export interface components {
              * @description Added field: longest unbuffered data lead from a data output to the first pixel, m. Default 2 (one-wire data kept to about 1–2 m, from memory); a built-in buffer or differential output allows more.
              * @default 2
              */
-            maxDataLeadM: number;
+            maxDataLeadM?: number;
             /**
              * @description Added field: motion-sensor inputs on one controller. Default 2 (foot and head; common practice, from memory).
              * @default 2
              */
-            sensorInputs: number;
+            sensorInputs?: number;
         };
         /**
          * @description The controller's motion-sensor input.
@@ -3959,18 +3959,18 @@ export interface components {
              * @default 5
              * @example 5
              */
-            maxDropPercent: number;
+            maxDropPercent?: number;
             /**
              * @description Never recommend a thinner conductor, mm² (for an AWG table the gauge’s ASTM B258 area is compared). Default 0.5: common practice, no published source.
              * @default 0.5
              * @example 0.5
              */
-            minCrossSectionMm2: number;
+            minCrossSectionMm2?: number;
             /**
              * @description Added to every run for the drop to the strip’s feed end, m. Default 0.5.
              * @default 0.5
              */
-            serviceAllowanceM: number;
+            serviceAllowanceM?: number;
             /**
              * @description Conductor temperature, °C, for R′ = R_ref · (1 + α · (T − T_ref)) (IEC 60028). Default: none — estimates take the IEC 60364-5-52 Annex G resistivity in service, R′ = 1.25 × R′20 (from memory), and say so in the trace.
              * @example 20
@@ -3980,7 +3980,7 @@ export interface components {
              * @description Added field: the part of each feeder that is not along the run — from the driver to the stringer or rail and the connections, m; each feeder adds its distance along the run from the driver (drivers.positionsM) to its controller or feed point. Default 2.
              * @default 2
              */
-            feederLengthM: number;
+            feederLengthM?: number;
             /**
              * @description Added field: wiring rules to apply. iec / uk: the ELV lighting section’s minimum conductor, 1.5 mm² (1 mm² for flexible cable up to 3 m; IEC 60364-7-715 / BS 7671 715.524, from memory), unless minCrossSectionMm2 is given. us: NEC practice — Class 2 limits apply where drivers.class2 asks for them. Default: none (trade practice, 0.5 mm² minimum). The 5 % end-to-end drop default is the ELV lighting section’s (IEC 60364-7-715 / BS 7671 715.525, from memory) in every case.
              * @enum {string}
@@ -4006,7 +4006,7 @@ export interface components {
              * @description Load each driver to at most this % of its rating. Default 80.
              * @default 80
              */
-            maxLoadingPercent: number;
+            maxLoadingPercent?: number;
             /** @description Ratings to choose from, W. With a catalog, only its drivers of these ratings. Default: the catalog’s drivers at the rail voltage, else 30–480 W. */
             availableRatingsW?: number[];
             /** @description Cap each supply at the NEC Chapter 9 Table 11 Class 2 limit for its voltage. */
@@ -4017,17 +4017,17 @@ export interface components {
              * @description Mains voltage, V AC. Default 230.
              * @default 230
              */
-            mainsVoltageV: number;
+            mainsVoltageV?: number;
             /**
              * @description Added field: driver input power factor. Default 0.9 (assumed).
              * @default 0.9
              */
-            powerFactor: number;
+            powerFactor?: number;
             /**
              * @description Added field: separate power inputs on each controller, each feeding its own group of CV outputs (from the controller’s datasheet). Each input is a feed of its own, so its group may have a driver of its own. Default 1: a controller with one power input gets one driver.
              * @default 1
              */
-            powerInputsPerController: number;
+            powerInputsPerController?: number;
             /**
              * @description Added field: where the drivers sit, m along the run from its start (a stair: along the stringer from tread 1, landings included; a rail or corridor: from the rail’s start). Each circuit’s driver sits at the listed place nearest its feeds; several places spread the drivers along the run. Default: one place, midway between the farthest feeds. Every feeder is cable.feederLengthM plus its distance along the run.
              * @example [
@@ -4039,7 +4039,7 @@ export interface components {
              * @description Added field: the driver’s output current limit (overload protection), % of its rated current. Default 150 (constant-voltage LED driver datasheets commonly give 105–150 %, from memory). A cable that could carry less than this limit relies on a fuse the limited driver may never blow, so it is sized for the limit instead.
              * @default 150
              */
-            currentLimitPercent: number;
+            currentLimitPercent?: number;
         };
         /**
          * @description Motion and daylight sensing.
@@ -4069,12 +4069,12 @@ export interface components {
              * @description The lights run only below this ambient level, lx. Default 50 (below a lit hallway and EN 12464-1’s 100 / 150 lx).
              * @default 50
              */
-            daylightCutoffLux: number;
+            daylightCutoffLux?: number;
             /**
              * @description Added field: fit an ambient-light sensor for the cut-off (one per controller). Default true.
              * @default true
              */
-            useDaylightCutoff: boolean;
+            useDaylightCutoff?: boolean;
             /** @description Added field: landings where people join the stair (1 = the landing above flight 1); each gets its own sensor. */
             joinedLandings?: number[];
             /** @description Added field: side entrances along a corridor (rail-pixels without a staircase); each gets its own sensor. Default 0. */
@@ -4091,7 +4091,7 @@ export interface components {
              * @description Reel length, mm. Default: the catalog item’s, else 5000.
              * @default 5000
              */
-            reelLengthMm: number;
+            reelLengthMm?: number;
         };
         /**
          * @description An inline catalog: the estimate matches SKUs to its bill of materials by kind and fields (strip by SKU or voltage and power, drivers by rating and voltage, cable by size, controller by profileId) and prices the lines in integer minor units.
@@ -4134,7 +4134,7 @@ export interface components {
              * @default 0
              * @example 20
              */
-            taxRatePercent: number;
+            taxRatePercent?: number;
             /** @description The catalog's items, at most 1000. */
             items: components["schemas"]["CatalogItem"][];
         };
@@ -4189,7 +4189,7 @@ export interface components {
              * @description Length of one reel, mm. Default 5000.
              * @default 5000
              */
-            reelLengthMm: number;
+            reelLengthMm?: number;
         };
         /**
          * @description Addressable pixel strip, sold by the reel.
@@ -4230,7 +4230,7 @@ export interface components {
              * @description Length of one reel, mm. Default 5000.
              * @default 5000
              */
-            reelLengthMm: number;
+            reelLengthMm?: number;
         };
         /**
          * @description LED driver (constant-voltage power supply).
@@ -4300,7 +4300,7 @@ export interface components {
              * @description Conductors in the cable. Default 2.
              * @default 2
              */
-            cores: number;
+            cores?: number;
         };
         /**
          * @description A stair controller and its profile.
@@ -4532,27 +4532,27 @@ export interface components {
              * @description Minutes a day the lights are on, for the yearly energy. Default 30 (an assumption for a dwelling’s stair).
              * @default 30
              */
-            litMinutesPerDay: number;
+            litMinutesPerDay?: number;
             /**
              * @description A controller’s own standby draw, W. Default 0.5 (from memory; use the datasheet).
              * @default 0.5
              */
-            controllerW: number;
+            controllerW?: number;
             /**
              * @description A driver’s no-load input, W. Default 0.5 (the EU standby limit for control gear, from memory).
              * @default 0.5
              */
-            driverNoLoadW: number;
+            driverNoLoadW?: number;
             /**
              * @description Current of a dark pixel IC, mA. Default 1 (0.5–1 mA typical, from memory).
              * @default 1
              */
-            darkPixelMa: number;
+            darkPixelMa?: number;
             /**
              * @description An ambient-light sensor’s draw, W. Default 0.05 (from memory).
              * @default 0.05
              */
-            daylightSensorW: number;
+            daylightSensorW?: number;
         };
         /**
          * @description An addressable pixel run along a rail or corridor; `staircase` is optional (without it the run is a corridor with a sensor at each end).
@@ -4602,12 +4602,12 @@ export interface components {
              * @description Without an inline `catalog`, the estimate is priced from the organisation’s stored catalog (its active items). false: leave it unpriced. Default true.
              * @default true
              */
-            useStoredCatalog: boolean;
+            useStoredCatalog?: boolean;
             /**
              * @description true: add aluminium profile bars and end caps for every lit tread piece, from the catalog. Default false.
              * @default false
              */
-            profiles: boolean;
+            profiles?: boolean;
             standby?: components["schemas"]["EstimateStandbyRequest"];
         };
         /**
@@ -4633,17 +4633,17 @@ export interface components {
              * @default 24
              * @enum {integer}
              */
-            bitsPerPixel: 24 | 32;
+            bitsPerPixel?: 24 | 32;
             /**
              * @description Current of one pixel at full white, mA (at most 300). Default 60 (a 5 V RGB pixel).
              * @default 60
              */
-            currentPerPixelMa: number;
+            currentPerPixelMa?: number;
             /**
              * @description Added field: brightness cap the controller enforces; current scales linearly. Default 100.
              * @default 100
              */
-            brightnessPercent: number;
+            brightnessPercent?: number;
             /** @description Longest strip the datasheet allows from one feed point, m (at least 0.5). Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory). */
             maxFeedLengthM?: number;
             /** @description SKU of this part in the catalog, when one is sent. */
@@ -4654,29 +4654,29 @@ export interface components {
              * @description Added field: with a brightness cap, size drivers and cables for full white (true) or for the cap (false, the default: the cap must then be enforced in the controller and the supply overload-protected, as the brightness-cap check says).
              * @default false
              */
-            sizeForFullWhite: boolean;
+            sizeForFullWhite?: boolean;
             /**
              * @description Added field: clock rate of a clocked (data + clock) strip, Hz. Default 1 MHz.
              * @default 1000000
              */
-            clockHz: number;
+            clockHz?: number;
             /** @description Added field: latch time after each frame, µs: one-wire reset (default 280); clocked parts that latch on a pause (default 0). */
             resetUs?: number;
             /**
              * @description Added field: longest unbuffered one-wire data gap from one pixel to the next (tread to tread), m. Default 2 (about 1–2 m, from memory).
              * @default 2
              */
-            maxDataLinkM: number;
+            maxDataLinkM?: number;
             /**
              * @description Added field: most current one feed point may push into the strip copper, A (strip datasheet; at least 1). Default 5 A (common practice, from memory).
              * @default 5
              */
-            maxFeedCurrentA: number;
+            maxFeedCurrentA?: number;
             /**
              * @description Added field: data lead from the controller to the start of the rail, m. Default 0.5 (controller beside the rail’s start); each further data output’s lead runs on to the start of its stretch.
              * @default 0.5
              */
-            dataLeadM: number;
+            dataLeadM?: number;
         };
         /**
          * @description Tread strips and a rail pixel run that moves in step with them (two pixel groups per tread).
@@ -4744,12 +4744,12 @@ export interface components {
              * @description Without an inline `catalog`, the estimate is priced from the organisation’s stored catalog (its active items). false: leave it unpriced. Default true.
              * @default true
              */
-            useStoredCatalog: boolean;
+            useStoredCatalog?: boolean;
             /**
              * @description true: add aluminium profile bars and end caps for every lit tread piece, from the catalog. Default false.
              * @default false
              */
-            profiles: boolean;
+            profiles?: boolean;
             standby?: components["schemas"]["EstimateStandbyRequest"];
         };
         /**
@@ -4811,12 +4811,12 @@ export interface components {
              * @description Without an inline `catalog`, the estimate is priced from the organisation’s stored catalog (its active items). false: leave it unpriced. Default true.
              * @default true
              */
-            useStoredCatalog: boolean;
+            useStoredCatalog?: boolean;
             /**
              * @description true: add aluminium profile bars and end caps for every lit tread piece, from the catalog. Default false.
              * @default false
              */
-            profiles: boolean;
+            profiles?: boolean;
             standby?: components["schemas"]["EstimateStandbyRequest"];
         };
         /**
@@ -4840,17 +4840,17 @@ export interface components {
              * @default 24
              * @enum {integer}
              */
-            bitsPerPixel: 24 | 32;
+            bitsPerPixel?: 24 | 32;
             /**
              * @description Current of one pixel at full white, mA (at most 300). Default 60 (a 5 V RGB pixel).
              * @default 60
              */
-            currentPerPixelMa: number;
+            currentPerPixelMa?: number;
             /**
              * @description Added field: brightness cap the controller enforces; current scales linearly. Default 100.
              * @default 100
              */
-            brightnessPercent: number;
+            brightnessPercent?: number;
             /** @description Longest strip the datasheet allows from one feed point, m (at least 0.5). Default 2.5 m at 5 V, 5 m at 12 / 24 V (from memory). */
             maxFeedLengthM?: number;
             /** @description SKU of this part in the catalog, when one is sent. */
@@ -4861,31 +4861,31 @@ export interface components {
              * @description Added field: with a brightness cap, size drivers and cables for full white (true) or for the cap (false, the default: the cap must then be enforced in the controller and the supply overload-protected, as the brightness-cap check says).
              * @default false
              */
-            sizeForFullWhite: boolean;
+            sizeForFullWhite?: boolean;
             /**
              * @description Added field: clock rate of a clocked (data + clock) strip, Hz. Default 1 MHz.
              * @default 1000000
              */
-            clockHz: number;
+            clockHz?: number;
             /** @description Added field: latch time after each frame, µs: one-wire reset (default 280); clocked parts that latch on a pause (default 0). */
             resetUs?: number;
             /**
              * @description Added field: longest unbuffered one-wire data gap from one pixel to the next (tread to tread), m. Default 2 (about 1–2 m, from memory).
              * @default 2
              */
-            maxDataLinkM: number;
+            maxDataLinkM?: number;
             /**
              * @description Added field: most current one feed point may push into the strip copper, A (strip datasheet; at least 1). Default 5 A (common practice, from memory).
              * @default 5
              */
-            maxFeedCurrentA: number;
+            maxFeedCurrentA?: number;
             /** @description Cut pitch, mm. Default: every pixel is a cut point. */
             cutPitchMm?: number;
             /**
              * @description Gap left at each end of the tread, mm. Default 20 (common practice).
              * @default 20
              */
-            endClearanceMm: number;
+            endClearanceMm?: number;
         };
         ApiKeyPage: {
             items: components["schemas"]["ApiKey"][];
@@ -4952,7 +4952,7 @@ export interface components {
              * @default server
              * @enum {string}
              */
-            kind: "server" | "embed";
+            kind?: "server" | "embed";
             /** @description Defaults to ["sizing:run"]. Never more than the creator holds; embed keys get only sizing:run and catalog:read (reading active catalog items). */
             scopes?: components["schemas"]["Scope"][];
             /** @description Embed keys only (required there): page origins allowed to use the key; one leading `*.` label matches sub-domains. */
@@ -4974,7 +4974,7 @@ export interface components {
              * @default 24
              * @example 2
              */
-            overlapHours: number;
+            overlapHours?: number;
         };
         /**
          * @description A signed-in session: an access token and the refresh token that renews it.
@@ -5719,12 +5719,12 @@ export interface components {
              * @description Length of one reel, mm. Default 5000.
              * @default 5000
              */
-            reelLengthMm: number;
+            reelLengthMm?: number;
             /**
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogPixelStrip: {
             /**
@@ -5753,12 +5753,12 @@ export interface components {
              * @description Length of one reel, mm. Default 5000.
              * @default 5000
              */
-            reelLengthMm: number;
+            reelLengthMm?: number;
             /**
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogDriver: {
             /**
@@ -5786,7 +5786,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogCable: {
             /**
@@ -5814,12 +5814,12 @@ export interface components {
              * @description Conductors in the cable. Default 2.
              * @default 2
              */
-            cores: number;
+            cores?: number;
             /**
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogController: {
             /**
@@ -5846,7 +5846,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogMotionSensor: {
             /**
@@ -5879,7 +5879,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogDaylightSensor: {
             /**
@@ -5903,7 +5903,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogAluminiumProfile: {
             /**
@@ -5929,7 +5929,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogEndCaps: {
             /**
@@ -5953,7 +5953,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogFuse: {
             /**
@@ -5979,7 +5979,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         StoredCatalogDataLine: {
             /**
@@ -6008,7 +6008,7 @@ export interface components {
              * @description False once the SKU is retired: kept for old estimates, never picked. Default true.
              * @default true
              */
-            active: boolean;
+            active?: boolean;
         };
         /**
          * @description Changes the price, name or active flag of one item.

@@ -12,7 +12,7 @@ const HEADER = '// Generated from openapi/openapi.json by `npm run api-types` (o
 /** The types file's text for the committed document, rendered in memory. */
 export async function renderApiTypes(): Promise<string> {
   const document = JSON.parse(readFileSync(DOCUMENT_FILE, 'utf8'));
-  const ast = await openapiTS(document, { alphabetize: false, exportType: false });
+  const ast = await openapiTS(document, { alphabetize: false, exportType: false, defaultNonNullable: false });
   return HEADER + astToString(ast);
 }
 
