@@ -33,7 +33,7 @@ async function rowId(api: ApiClient, idOrKeyId: string): Promise<string> {
   return key.id;
 }
 
-function keyFields(k: ApiKey): string {
+function keyFields(k: ApiKey, token?: string): string {
   return fields([
     ['Key id', `${k.keyId} (${k.kind})`],
     ['Id', k.id],
@@ -43,6 +43,7 @@ function keyFields(k: ApiKey): string {
     ...(k.allowedOrigins.length ? ([['Origins', k.allowedOrigins.join(', ')]] as [string, string][]) : []),
     ...(k.expiresAt ? ([['Expires', k.expiresAt]] as [string, string][]) : []),
     ...(k.previousSecretValidUntil ? ([['Old secret until', k.previousSecretValidUntil]] as [string, string][]) : []),
+    ...(token ? ([['Token', token]] as [string, string][]) : []),
   ]);
 }
 
@@ -52,8 +53,7 @@ function showToken(io: CliIo, json: boolean, answer: { key: ApiKey; token: strin
     io.out(JSON.stringify(answer));
     return;
   }
-  io.out(keyFields(answer.key));
-  io.out(`Token             ${answer.token}`);
+  io.out(keyFields(answer.key, answer.token));
   io.err('Store the token now: Treadwise keeps only an HMAC of it and cannot show it again.');
 }
 
