@@ -3,7 +3,7 @@ import path from 'node:path';
 import { Command } from 'commander';
 import type { components } from '../../openapi/api-types.js';
 import { createApiClient, unwrap } from '../api-client.js';
-import { CliError } from '../errors.js';
+import { CliError, EXIT } from '../errors.js';
 import type { CliIo } from '../io.js';
 import { apiOptionsSchema, withApiOptions, withExamples } from '../options.js';
 import { fields, table } from '../style.js';
@@ -44,20 +44,21 @@ function importCommand(io: CliIo): Command {
       }),
     );
     io.out(opts.json ? JSON.stringify(report) : reportText(report));
-    if (report.errors.length) throw new CliError(`${file}: ${report.errors.length} bad row(s) or column(s); nothing was imported`);
+    if (report.errors.length) throw new CliError(`${file}: ${report.errors.length} bad row(s) or column(s); nothing was imported`, EXIT.usage);
   });
 }
 
 function exportCommand(io: CliIo): Command {
-  const command = new Command('export').description('download the catalog as CSV (stdout, or -o file)').option('-o, --output <file>', 'write the CSV to this file');
+  const command = new Command('export').description('download the catalog as CSV (stdout, or -o file with the UTF-8 BOM spreadsheets want)').option('-o, --output <file>', 'write the CSV to this file');
   withExamples(withApiOptions(command), 'treadwise catalog export -o catalog.csv', 'treadwise catalog export | head -5');
   return command.action(async (raw: Record<string, unknown>) => {
     const opts = connection(raw);
     const api = createApiClient(io, requireKey(io, opts));
-    const csv = await unwrap(api.GET('/v1/catalog/export', { parseAs: 'text', headers: { accept: 'text/csv' } }));
-    const text = String(csv);
+    const bytes = Buffer.from((await unwrap(api.GET('/v1/catalog/export', { parseAs: 'arrayBuffer', headers: { accept: 'text/csv' } }))) as ArrayBuffer);
+    // The file keeps the API's bytes (with the UTF-8 BOM spreadsheets need); stdout gets plain text for pipes.
+    const text = new TextDecoder().decode(bytes);
     if (typeof raw.output === 'string') {
-      writeFileSync(raw.output, text);
+      writeFileSync(raw.output, bytes);
       const rows = text.split(/\r?\n/).filter(Boolean).length - 1;
       const summary = { file: raw.output, rows };
       if (opts.json) io.out(JSON.stringify(summary));
