@@ -175,6 +175,28 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/estimates/options": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Rank priced kits for a stair from the catalog
+         * @description Tries the catalog’s compatible choices for a stair — every active CV strip the constraints allow (SKUs, voltages, power per metre), every controller with CV outputs, the controller at the bottom, middle or top and the drivers at the bottom, middle or top — sizes each as a full estimate and answers the cheapest designs that pass every check (`limit`, default 3), each with its pricing (net, tax, gross), summary, cart, warnings and the `estimateRequest` that sizes it in full. Also answers how many candidates were sized, how many failed and on which checks (`failuresByCheck`), how many passed but cost more than the `budget`, and the catalog items left out before sizing (`pruned`: no cut pitch, no driver at the strip’s voltage).
+         *
+         *     Prices come from the inline `catalog`, else from the organisation’s stored catalog (active items; `catalogVersion` says which). At most 200 candidates are sized, the cheapest parts first (`capped` says when more were possible). Each call costs, against the per-key cost budget, 1 + 1 per 10 catalog items + (1 + treads + lit landings) per candidate sized. Every kit is an estimate from nominal data: mains work is for a licensed electrician, and local codes prevail.
+         */
+        post: operations["rankKitOptions"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/keys": {
         parameters: {
             query?: never;
@@ -4887,6 +4909,750 @@ export interface components {
              */
             endClearanceMm?: number;
         };
+        /** @description The cheapest designs that pass every check, and what the others failed on. */
+        KitOptionsResponse: {
+            /** @description Semver of the sizing engine that produced the result. */
+            engineVersion: string;
+            /** @enum {string} */
+            layout: "tread-strips";
+            currency: string;
+            /** @description How the designs are ordered. */
+            rankedBy: string;
+            designs: components["schemas"]["KitDesign"][];
+            /** @description Candidates the catalog and constraints allow (after pruning). */
+            possible: number;
+            /** @description Candidates sized (at most 200). */
+            candidates: number;
+            /** @description true when possible > 200: the candidates with the cheapest parts were sized, the rest not. Narrow the constraints to search them all. */
+            capped: boolean;
+            /** @description Candidates with no failing check, within the budget. */
+            passed: number;
+            /** @description Candidates with at least one failing check. */
+            failed: number;
+            /** @description Candidates that pass every check but cost more than the budget. */
+            overBudget: number;
+            /**
+             * @description For each check id, how many candidates it failed.
+             * @example {
+             *       "output-current": 9
+             *     }
+             */
+            failuresByCheck: {
+                [key: string]: number;
+            };
+            /** @description Catalog items left out before sizing, and why. */
+            pruned: {
+                sku: string;
+                /** @enum {string} */
+                kind: "strip" | "controller";
+                reason: string;
+            }[];
+            /** @description The safety and scope notes of the listed designs (each once): mains work, overloaded drivers, hot cables — local codes and licensed practice prevail. */
+            cautions: components["schemas"]["Caution"][];
+            /** @enum {string} */
+            pricingSource: "inline" | "stored";
+            catalogVersion: number | null;
+            trace: components["schemas"]["TraceEntry"][];
+        };
+        /** @description One design that passes every check, with its price and cart. `estimateRequest` is the body that sizes it in full with POST /v1/estimates (send the inline catalog again if the options were priced from one). */
+        KitDesign: {
+            /** @description 1 = cheapest. */
+            rank: number;
+            choices: components["schemas"]["KitChoices"];
+            pricing: components["schemas"]["EstimatePricing"];
+            summary: components["schemas"]["EstimateSummary"];
+            /** @description The priced lines as a shop’s basket takes them. */
+            cart: components["schemas"]["CartLine"][];
+            /** @description true when the catalog holds an active item for every line; false when some line names a `missing` part (such kits rank after the fillable ones). */
+            fillable: boolean;
+            /** @description Lines the catalog does not price (no active item fits, or it has no price): they are not in the total. */
+            unpriced: {
+                category: string;
+                description: string;
+                quantity: number;
+                note?: string;
+                /** @description The item the catalog lacks for this line: its kind and fields. */
+                missing?: {
+                    kind: string;
+                    fields: {
+                        [key: string]: string | number | boolean;
+                    };
+                };
+            }[];
+            /** @description The checks of this design that warn (none fails). */
+            warnings: {
+                id: string;
+                message: string;
+                suggestion?: string;
+            }[];
+            estimateRequest: components["schemas"]["TreadStripsEstimateRequest"];
+        };
+        /**
+         * @description What makes this design: the strip, the controller and where the controller and the drivers sit.
+         * @example {
+         *       "stripSku": "HL-S24-10",
+         *       "voltageV": 24,
+         *       "powerWPerM": 10,
+         *       "cutPitchMm": 50,
+         *       "controllerSku": "HL-K20",
+         *       "controllerPosition": "middle",
+         *       "driverPosition": "middle"
+         *     }
+         */
+        KitChoices: {
+            stripSku: string;
+            voltageV: number;
+            powerWPerM: number;
+            cutPitchMm: number;
+            controllerSku: string;
+            /** @enum {string} */
+            controllerPosition: "bottom" | "middle" | "top";
+            /**
+             * @description `given`: the request fixed drivers.positionsM.
+             * @enum {string}
+             */
+            driverPosition: "bottom" | "middle" | "top" | "given";
+        };
+        /**
+         * @description Which catalog priced the estimate, and its totals net, tax and gross.
+         * @example {
+         *       "source": "stored",
+         *       "catalogVersion": 21,
+         *       "currency": "EUR",
+         *       "taxRatePercent": 20,
+         *       "net": 250.5,
+         *       "tax": 50.1,
+         *       "gross": 300.6,
+         *       "complete": true,
+         *       "unpricedLines": 0
+         *     }
+         */
+        EstimatePricing: {
+            /**
+             * @description `inline`: the request’s catalog; `stored`: the organisation’s stored catalog.
+             * @enum {string}
+             */
+            source: "inline" | "stored";
+            /** @description Version of the stored catalog that priced the estimate; null for an inline catalog. */
+            catalogVersion: number | null;
+            currency: string;
+            taxRatePercent: number;
+            /** @description Sum of the priced lines, net, computed in integer minor units. */
+            net: number;
+            /** @description Tax on the net total, rounded half up to the minor unit. */
+            tax: number;
+            /** @description net + tax. */
+            gross: number;
+            /** @description false when some lines are not priced (see their `missing` and `note`). */
+            complete: boolean;
+            unpricedLines: number;
+        };
+        /**
+         * @description A stair and the shopper’s constraints. Every compatible choice of the catalog — strip, controller, controller position, driver position — is sized as a full estimate; the cheapest designs that pass every check are answered.
+         * @example {
+         *       "layout": "tread-strips",
+         *       "staircase": {
+         *         "treads": 14,
+         *         "treadWidthMm": 900,
+         *         "riserHeightMm": 185,
+         *         "goingMm": 250
+         *       },
+         *       "sensors": {
+         *         "motion": {
+         *           "outputType": "pnp",
+         *           "supplyV": 5,
+         *           "currentMa": 8
+         *         }
+         *       },
+         *       "budget": {
+         *         "maxTotal": 450,
+         *         "basis": "gross"
+         *       },
+         *       "catalog": {
+         *         "currency": "EUR",
+         *         "items": [
+         *           {
+         *             "sku": "HL-S24-10",
+         *             "kind": "strip",
+         *             "description": "CV strip 24 V 10 W/m, 5 m reel",
+         *             "unitPrice": 39,
+         *             "voltageV": 24,
+         *             "powerWPerM": 10,
+         *             "cutPitchMm": 50,
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-S12-07",
+         *             "kind": "strip",
+         *             "description": "CV strip 12 V 7.2 W/m, 5 m reel",
+         *             "unitPrice": 29,
+         *             "voltageV": 12,
+         *             "powerWPerM": 7.2,
+         *             "cutPitchMm": 25,
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-P05-60",
+         *             "kind": "pixel-strip",
+         *             "description": "Pixel strip 5 V 60 pixels/m, 5 m reel",
+         *             "unitPrice": 45,
+         *             "voltageV": 5,
+         *             "pixelsPerM": 60,
+         *             "protocol": "one-wire-800k",
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-P24-20",
+         *             "kind": "pixel-strip",
+         *             "description": "Pixel strip 24 V 20 pixels/m, 5 m reel",
+         *             "unitPrice": 52,
+         *             "voltageV": 24,
+         *             "pixelsPerM": 20,
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-D24-060",
+         *             "kind": "driver",
+         *             "unitPrice": 24,
+         *             "voltageV": 24,
+         *             "ratingW": 60
+         *           },
+         *           {
+         *             "sku": "HL-D24-100",
+         *             "kind": "driver",
+         *             "unitPrice": 34,
+         *             "voltageV": 24,
+         *             "ratingW": 100
+         *           },
+         *           {
+         *             "sku": "HL-D24-150",
+         *             "kind": "driver",
+         *             "unitPrice": 46,
+         *             "voltageV": 24,
+         *             "ratingW": 150
+         *           },
+         *           {
+         *             "sku": "HL-D24-240",
+         *             "kind": "driver",
+         *             "unitPrice": 71,
+         *             "voltageV": 24,
+         *             "ratingW": 240
+         *           },
+         *           {
+         *             "sku": "HL-D12-100",
+         *             "kind": "driver",
+         *             "unitPrice": 33,
+         *             "voltageV": 12,
+         *             "ratingW": 100
+         *           },
+         *           {
+         *             "sku": "HL-D05-200",
+         *             "kind": "driver",
+         *             "unitPrice": 49,
+         *             "voltageV": 5,
+         *             "ratingW": 200
+         *           },
+         *           {
+         *             "sku": "HL-C050",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 0.5 mm²",
+         *             "unitPrice": 0.6,
+         *             "crossSectionMm2": 0.5
+         *           },
+         *           {
+         *             "sku": "HL-C075",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 0.75 mm²",
+         *             "unitPrice": 0.8,
+         *             "crossSectionMm2": 0.75
+         *           },
+         *           {
+         *             "sku": "HL-C100",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 1.0 mm²",
+         *             "unitPrice": 1,
+         *             "crossSectionMm2": 1
+         *           },
+         *           {
+         *             "sku": "HL-C150",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 1.5 mm²",
+         *             "unitPrice": 1.4,
+         *             "crossSectionMm2": 1.5
+         *           },
+         *           {
+         *             "sku": "HL-C3-050",
+         *             "kind": "cable",
+         *             "description": "3-core flexible copper 0.5 mm² (sensor cable)",
+         *             "unitPrice": 0.9,
+         *             "crossSectionMm2": 0.5,
+         *             "cores": 3
+         *           },
+         *           {
+         *             "sku": "HL-K20",
+         *             "kind": "controller",
+         *             "description": "Stair controller, 20 outputs",
+         *             "unitPrice": 119,
+         *             "profile": {
+         *               "outputs": 20,
+         *               "maxCurrentPerOutputA": 1.5,
+         *               "dataOutputs": 1,
+         *               "maxPixelsPerOutput": 800,
+         *               "sensorInput": {
+         *                 "type": "pnp",
+         *                 "supplyV": 5,
+         *                 "maxCurrentMa": 12
+         *               },
+         *               "sensorInputs": 2
+         *             }
+         *           },
+         *           {
+         *             "sku": "HL-K36",
+         *             "kind": "controller",
+         *             "description": "Stair controller, 36 outputs",
+         *             "unitPrice": 179,
+         *             "profile": {
+         *               "outputs": 36,
+         *               "maxCurrentPerOutputA": 1.2,
+         *               "dataOutputs": 2,
+         *               "maxPixelsPerOutput": 600
+         *             }
+         *           },
+         *           {
+         *             "sku": "HL-M05",
+         *             "kind": "motion-sensor",
+         *             "description": "PIR sensor 5 V PNP",
+         *             "unitPrice": 12.5,
+         *             "outputType": "pnp",
+         *             "supplyV": 5,
+         *             "currentMa": 8
+         *           },
+         *           {
+         *             "sku": "HL-L01",
+         *             "kind": "daylight-sensor",
+         *             "description": "Daylight sensor",
+         *             "unitPrice": 9.9
+         *           },
+         *           {
+         *             "sku": "HL-F06",
+         *             "kind": "fuse",
+         *             "description": "Inline fuse holder with 6.3 A fuse",
+         *             "unitPrice": 3.2,
+         *             "ratingA": 6.3
+         *           },
+         *           {
+         *             "sku": "HL-F10",
+         *             "kind": "fuse",
+         *             "description": "Inline fuse holder with 10 A fuse",
+         *             "unitPrice": 3.6,
+         *             "ratingA": 10
+         *           },
+         *           {
+         *             "sku": "HL-DL2",
+         *             "kind": "data-line",
+         *             "description": "Differential data link, transmitter and receiver",
+         *             "unitPrice": 14,
+         *             "part": "differential-link"
+         *           },
+         *           {
+         *             "sku": "HL-LS1",
+         *             "kind": "data-line",
+         *             "description": "Level shifter 3.3 V to 5 V, one output",
+         *             "unitPrice": 6.5,
+         *             "part": "level-shifter"
+         *           },
+         *           {
+         *             "sku": "HL-A100",
+         *             "kind": "aluminium-profile",
+         *             "description": "Aluminium profile with diffuser, 1 m",
+         *             "unitPrice": 8.5,
+         *             "lengthMm": 1000
+         *           },
+         *           {
+         *             "sku": "HL-E02",
+         *             "kind": "end-caps",
+         *             "description": "End caps, pair",
+         *             "unitPrice": 0.9
+         *           }
+         *         ],
+         *         "taxRatePercent": 20
+         *       }
+         *     }
+         * @example {
+         *       "layout": "tread-strips",
+         *       "staircase": {
+         *         "treads": 14,
+         *         "treadWidthMm": 900,
+         *         "riserHeightMm": 185,
+         *         "goingMm": 250
+         *       },
+         *       "sensors": {
+         *         "motion": {
+         *           "outputType": "pnp",
+         *           "supplyV": 5,
+         *           "currentMa": 8
+         *         }
+         *       },
+         *       "budget": {
+         *         "maxTotal": 450,
+         *         "basis": "gross"
+         *       },
+         *       "catalog": {
+         *         "currency": "EUR",
+         *         "items": [
+         *           {
+         *             "sku": "HL-S24-10",
+         *             "kind": "strip",
+         *             "description": "CV strip 24 V 10 W/m, 5 m reel",
+         *             "unitPrice": 39,
+         *             "voltageV": 24,
+         *             "powerWPerM": 10,
+         *             "cutPitchMm": 50,
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-S12-07",
+         *             "kind": "strip",
+         *             "description": "CV strip 12 V 7.2 W/m, 5 m reel",
+         *             "unitPrice": 29,
+         *             "voltageV": 12,
+         *             "powerWPerM": 7.2,
+         *             "cutPitchMm": 25,
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-P05-60",
+         *             "kind": "pixel-strip",
+         *             "description": "Pixel strip 5 V 60 pixels/m, 5 m reel",
+         *             "unitPrice": 45,
+         *             "voltageV": 5,
+         *             "pixelsPerM": 60,
+         *             "protocol": "one-wire-800k",
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-P24-20",
+         *             "kind": "pixel-strip",
+         *             "description": "Pixel strip 24 V 20 pixels/m, 5 m reel",
+         *             "unitPrice": 52,
+         *             "voltageV": 24,
+         *             "pixelsPerM": 20,
+         *             "reelLengthMm": 5000
+         *           },
+         *           {
+         *             "sku": "HL-D24-060",
+         *             "kind": "driver",
+         *             "unitPrice": 24,
+         *             "voltageV": 24,
+         *             "ratingW": 60
+         *           },
+         *           {
+         *             "sku": "HL-D24-100",
+         *             "kind": "driver",
+         *             "unitPrice": 34,
+         *             "voltageV": 24,
+         *             "ratingW": 100
+         *           },
+         *           {
+         *             "sku": "HL-D24-150",
+         *             "kind": "driver",
+         *             "unitPrice": 46,
+         *             "voltageV": 24,
+         *             "ratingW": 150
+         *           },
+         *           {
+         *             "sku": "HL-D24-240",
+         *             "kind": "driver",
+         *             "unitPrice": 71,
+         *             "voltageV": 24,
+         *             "ratingW": 240
+         *           },
+         *           {
+         *             "sku": "HL-D12-100",
+         *             "kind": "driver",
+         *             "unitPrice": 33,
+         *             "voltageV": 12,
+         *             "ratingW": 100
+         *           },
+         *           {
+         *             "sku": "HL-D05-200",
+         *             "kind": "driver",
+         *             "unitPrice": 49,
+         *             "voltageV": 5,
+         *             "ratingW": 200
+         *           },
+         *           {
+         *             "sku": "HL-C050",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 0.5 mm²",
+         *             "unitPrice": 0.6,
+         *             "crossSectionMm2": 0.5
+         *           },
+         *           {
+         *             "sku": "HL-C075",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 0.75 mm²",
+         *             "unitPrice": 0.8,
+         *             "crossSectionMm2": 0.75
+         *           },
+         *           {
+         *             "sku": "HL-C100",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 1.0 mm²",
+         *             "unitPrice": 1,
+         *             "crossSectionMm2": 1
+         *           },
+         *           {
+         *             "sku": "HL-C150",
+         *             "kind": "cable",
+         *             "description": "2-core flexible copper 1.5 mm²",
+         *             "unitPrice": 1.4,
+         *             "crossSectionMm2": 1.5
+         *           },
+         *           {
+         *             "sku": "HL-C3-050",
+         *             "kind": "cable",
+         *             "description": "3-core flexible copper 0.5 mm² (sensor cable)",
+         *             "unitPrice": 0.9,
+         *             "crossSectionMm2": 0.5,
+         *             "cores": 3
+         *           },
+         *           {
+         *             "sku": "HL-K20",
+         *             "kind": "controller",
+         *             "description": "Stair controller, 20 outputs",
+         *             "unitPrice": 119,
+         *             "profile": {
+         *               "outputs": 20,
+         *               "maxCurrentPerOutputA": 1.5,
+         *               "dataOutputs": 1,
+         *               "maxPixelsPerOutput": 800,
+         *               "sensorInput": {
+         *                 "type": "pnp",
+         *                 "supplyV": 5,
+         *                 "maxCurrentMa": 12
+         *               },
+         *               "sensorInputs": 2
+         *             }
+         *           },
+         *           {
+         *             "sku": "HL-K36",
+         *             "kind": "controller",
+         *             "description": "Stair controller, 36 outputs",
+         *             "unitPrice": 179,
+         *             "profile": {
+         *               "outputs": 36,
+         *               "maxCurrentPerOutputA": 1.2,
+         *               "dataOutputs": 2,
+         *               "maxPixelsPerOutput": 600
+         *             }
+         *           },
+         *           {
+         *             "sku": "HL-M05",
+         *             "kind": "motion-sensor",
+         *             "description": "PIR sensor 5 V PNP",
+         *             "unitPrice": 12.5,
+         *             "outputType": "pnp",
+         *             "supplyV": 5,
+         *             "currentMa": 8
+         *           },
+         *           {
+         *             "sku": "HL-L01",
+         *             "kind": "daylight-sensor",
+         *             "description": "Daylight sensor",
+         *             "unitPrice": 9.9
+         *           },
+         *           {
+         *             "sku": "HL-F06",
+         *             "kind": "fuse",
+         *             "description": "Inline fuse holder with 6.3 A fuse",
+         *             "unitPrice": 3.2,
+         *             "ratingA": 6.3
+         *           },
+         *           {
+         *             "sku": "HL-F10",
+         *             "kind": "fuse",
+         *             "description": "Inline fuse holder with 10 A fuse",
+         *             "unitPrice": 3.6,
+         *             "ratingA": 10
+         *           },
+         *           {
+         *             "sku": "HL-DL2",
+         *             "kind": "data-line",
+         *             "description": "Differential data link, transmitter and receiver",
+         *             "unitPrice": 14,
+         *             "part": "differential-link"
+         *           },
+         *           {
+         *             "sku": "HL-LS1",
+         *             "kind": "data-line",
+         *             "description": "Level shifter 3.3 V to 5 V, one output",
+         *             "unitPrice": 6.5,
+         *             "part": "level-shifter"
+         *           },
+         *           {
+         *             "sku": "HL-A100",
+         *             "kind": "aluminium-profile",
+         *             "description": "Aluminium profile with diffuser, 1 m",
+         *             "unitPrice": 8.5,
+         *             "lengthMm": 1000
+         *           },
+         *           {
+         *             "sku": "HL-E02",
+         *             "kind": "end-caps",
+         *             "description": "End caps, pair",
+         *             "unitPrice": 0.9
+         *           }
+         *         ],
+         *         "taxRatePercent": 20
+         *       }
+         *     }
+         * @example {
+         *       "layout": "tread-strips",
+         *       "staircase": {
+         *         "treads": 14,
+         *         "treadWidthMm": 900,
+         *         "riserHeightMm": 185,
+         *         "goingMm": 250
+         *       },
+         *       "constraints": {
+         *         "voltagesV": [
+         *           24
+         *         ],
+         *         "controllerPositions": [
+         *           "bottom",
+         *           "middle"
+         *         ]
+         *       },
+         *       "limit": 5
+         *     }
+         */
+        KitOptionsRequest: {
+            /**
+             * @description What is fitted. Kit options size one constant-voltage strip per tread.
+             * @enum {string}
+             */
+            layout: "tread-strips";
+            staircase: components["schemas"]["Staircase"];
+            /**
+             * @description Gap left at each end of the tread, mm. Default 20 (common practice).
+             * @default 20
+             */
+            endClearanceMm?: number;
+            constraints?: components["schemas"]["KitConstraints"];
+            budget?: components["schemas"]["KitBudget"];
+            /**
+             * @description Designs to answer, cheapest first (at most 10). Default 3.
+             * @default 3
+             */
+            limit?: number;
+            cable?: components["schemas"]["EstimateCable"];
+            drivers?: components["schemas"]["EstimateDrivers"];
+            sensors?: components["schemas"]["EstimateSensors"];
+            reels?: components["schemas"]["EstimateReelLength"];
+            /**
+             * @description true: add aluminium profile bars and end caps to every kit. Default false.
+             * @default false
+             */
+            profiles?: boolean;
+            standby?: components["schemas"]["EstimateStandbyRequest"];
+            /**
+             * @description An inline catalog to build the kits from. Default: the organisation’s stored catalog (its active items).
+             * @example {
+             *       "currency": "EUR",
+             *       "items": [
+             *         {
+             *           "sku": "HL-S24-10",
+             *           "kind": "strip",
+             *           "unitPrice": 39,
+             *           "voltageV": 24,
+             *           "powerWPerM": 10,
+             *           "cutPitchMm": 50,
+             *           "reelLengthMm": 5000
+             *         },
+             *         {
+             *           "sku": "HL-D24-150",
+             *           "kind": "driver",
+             *           "unitPrice": 46,
+             *           "voltageV": 24,
+             *           "ratingW": 150
+             *         },
+             *         {
+             *           "sku": "HL-C050",
+             *           "kind": "cable",
+             *           "unitPrice": 0.6,
+             *           "crossSectionMm2": 0.5
+             *         }
+             *       ]
+             *     }
+             */
+            catalog?: {
+                /**
+                 * @description ISO 4217 currency of every unitPrice.
+                 * @example EUR
+                 */
+                currency: string;
+                /**
+                 * @description Tax added to the net total, percent (20 = 20 %). Default 0.
+                 * @default 0
+                 * @example 20
+                 */
+                taxRatePercent?: number;
+                /** @description The catalog's items, at most 1000. */
+                items: components["schemas"]["CatalogItem"][];
+            };
+        };
+        /**
+         * @description What the shopper has chosen already; every choice left open is searched over the catalog.
+         * @example {
+         *       "voltagesV": [
+         *         24
+         *       ],
+         *       "controllerPositions": [
+         *         "bottom",
+         *         "middle"
+         *       ]
+         *     }
+         */
+        KitConstraints: {
+            /** @description Only these strips (a strip family, a colour temperature the shop sells under these SKUs). At most 50. Default: every active strip of the catalog. */
+            stripSkus?: string[];
+            /** @description Only strips of these voltages, V DC. */
+            voltagesV?: number[];
+            /** @description Only strips of at least this power per metre, W/m. */
+            minPowerWPerM?: number;
+            /** @description Only strips of at most this power per metre, W/m. */
+            maxPowerWPerM?: number;
+            /** @description Only these controllers. Default: every active controller of the catalog with constant-voltage outputs. */
+            controllerSkus?: string[];
+            /**
+             * @description Where the controller may sit: bottom (tread 1), middle (⌈n/2⌉) or top (tread n). Default: all three.
+             * @example [
+             *       "bottom",
+             *       "middle"
+             *     ]
+             */
+            controllerPositions?: ("bottom" | "middle" | "top")[];
+            /** @description Where the drivers may sit along the stringer: bottom (beside tread 1), top (beside the last tread) or middle (midway between the farthest feeds). Ignored when drivers.positionsM is given. Default: all three. */
+            driverPositions?: ("bottom" | "middle" | "top")[];
+        };
+        /**
+         * @description A cap on the kit’s price: designs above it are counted in overBudget, not listed.
+         * @example {
+         *       "maxTotal": 400,
+         *       "basis": "gross"
+         *     }
+         */
+        KitBudget: {
+            /** @description Most the kit may cost, in the catalog currency. */
+            maxTotal: number;
+            /**
+             * @description gross: tax included (what the shopper pays); net: before tax. Default gross.
+             * @default gross
+             * @enum {string}
+             */
+            basis?: "gross" | "net";
+        };
         ApiKeyPage: {
             items: components["schemas"]["ApiKey"][];
             /** @description Pass as `cursor` for the next page; `null` on the last page. */
@@ -6504,6 +7270,75 @@ export interface operations {
                 };
             };
             /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. The cost budget counts work units per key and minute: 1 per call, plus 1 per tread or lit landing, per 10 pixels, per 10 catalog items and per reel piece sized (the "cost" entry of RateLimit-Policy). */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    rankKitOptions: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["KitOptionsRequest"];
+            };
+        };
+        responses: {
+            /** @description The ranked designs, and what the other candidates failed on. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["KitOptionsResponse"];
+                };
+            };
+            /** @description Malformed JSON or input outside the schema (`code: validation_failed`, with `errors[].path`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key lacks sizing:run, its origin is not allowed, or the user is not an estimator. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No inline catalog and no active item in the stored one (`catalog_empty`), or an answer over the 2097152-byte ceiling (`answer_too_large`). */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
             429: {
                 headers: {
                     [name: string]: unknown;

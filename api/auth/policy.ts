@@ -36,6 +36,8 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/calculations/pixels': sizing,
   'POST /v1/calculations/reels': sizing,
   'POST /v1/estimates': sizing,
+  // Ranked kits from the catalog: sizing, and the embeddable estimator needs it (embed keys).
+  'POST /v1/estimates/options': sizing,
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,

@@ -1,6 +1,7 @@
 import { catalogRoutes } from './catalog.js';
 import { calculationRoutes } from './calculations.js';
 import { estimateRoutes } from './estimates.js';
+import { estimateOptionRoutes } from './estimate-options.js';
 import { healthRoutes } from './health.js';
 import { keyRoutes } from './keys.js';
 import { auditRoutes } from './audit.js';
@@ -12,4 +13,4 @@ import { usageRoutes } from './usage.js';
 import type { RouteModule } from './route-module.js';
 
 /** Every resource the API mounts, in one list: the app and the OpenAPI document both use it. */
-export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes];
+export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes];

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { MAX_USAGE_RANGE_DAYS, quotaStandingSchema, usageQuerySchema, usageReportSchema, type UsageQuery } from '../../shared/schemas/usage.js';
 import { organizationOf } from '../auth/principal.js';
 import { organizations } from '../db/schema.js';
+import { writeCsv, type CsvRow } from '../exports/csv.js';
 import type { AppDeps } from '../deps.js';
 import { validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
@@ -42,12 +43,7 @@ function quotaView(s: QuotaStanding): z.infer<typeof quotaStandingSchema> {
 const BUCKET_COLUMNS = [...LATENCY_BOUNDS_MS.map((b) => `le_${b}ms`), `gt_${LATENCY_BOUNDS_MS[LATENCY_BOUNDS_MS.length - 1]}ms`];
 const CSV_HEADER = ['day', 'key_id', 'route', 'status_class', 'requests', 'limited', 'latency_ms_total', 'p50_latency_ms', 'p95_latency_ms', ...BUCKET_COLUMNS];
 
-function csvField(value: string | number | null): string {
-  const text = value === null ? '' : String(value);
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
-function csvRow(row: UsageCounterRow): string {
+function csvRow(row: UsageCounterRow): CsvRow {
   return [
     row.day,
     row.keyId,
@@ -59,9 +55,7 @@ function csvRow(row: UsageCounterRow): string {
     estimatePercentile(row.latencyBuckets, 50),
     estimatePercentile(row.latencyBuckets, 95),
     ...BUCKET_COLUMNS.map((_, i) => row.latencyBuckets[i] ?? 0),
-  ]
-    .map(csvField)
-    .join(',');
+  ];
 }
 
 /** Both usage routes read what was just served: the meter's buffer is written first. */
@@ -98,7 +92,8 @@ export const usageRoutes: RouteModule = {
       const filename = `treadwise-usage-${org?.slug ?? 'organisation'}-${range.from}-to-${range.to}.csv`;
       res.setHeader('Cache-Control', 'no-store');
       res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
-      res.type('text/csv; charset=utf-8').send([CSV_HEADER.join(','), ...rows.map(csvRow)].join('\r\n') + '\r\n');
+      // No byte-order mark: the export is ASCII and has always been read by scripts without one.
+      res.type('text/csv; charset=utf-8').send(writeCsv([CSV_HEADER, ...rows.map(csvRow)], { byteOrderMark: false }));
     });
 
     return router;

@@ -1,16 +1,16 @@
 import { parse } from 'csv-parse/sync';
-import { stringify } from 'csv-stringify/sync';
 import type { z } from 'zod';
 import { storedCatalogItemSchema, toMinorUnits, type StoredCatalogItem } from '../../shared/schemas/catalog-store.js';
 import { catalogItemSchema } from '../../shared/schemas/catalog.js';
 import { hasControlCharacter } from '../../shared/schemas/text.js';
+import { unguardCell, writeCsv, type CsvCell } from '../exports/csv.js';
 import { zodFieldErrors } from '../middleware/validate.js';
 
 /**
  * The catalog as CSV: one row per item, one column per field of any kind (nested fields such as a
  * controller's profile as `profile.outputs`). Cells of fields an item's kind lacks stay empty.
- * Written with csv-stringify (RFC 4180, CRLF, UTF-8 with BOM so spreadsheets read accents) and
- * read back with csv-parse.
+ * Written by the shared CSV writer (api/exports/csv.ts: RFC 4180, CRLF, UTF-8 with BOM, the
+ * formula-injection guard) and read back with csv-parse, which strips the guard again.
  */
 
 type CellType = 'text' | 'number' | 'boolean';
@@ -50,23 +50,6 @@ export const CATALOG_CSV_COLUMNS: readonly CsvColumn[] = (() => {
 })();
 const COLUMN_BY_NAME = new Map(CATALOG_CSV_COLUMNS.map((c) => [c.name, c]));
 
-/**
- * Formula-injection guard: a text cell a spreadsheet would run as a formula (starting with
- * = + - @, tab or CR) gets a leading apostrophe. A text that already starts with an apostrophe
- * before such a character gets one more, so stripping exactly one on import gives back the text.
- * Numbers are written as numbers and never guarded.
- */
-const FORMULA_START = /^[=+\-@\t\r]/;
-function needsGuard(text: string): boolean {
-  return FORMULA_START.test(text) || /^'[=+\-@\t\r']/.test(text);
-}
-export function guardCell(text: string): string {
-  return needsGuard(text) ? `'${text}` : text;
-}
-export function unguardCell(text: string): string {
-  return text.startsWith("'") && needsGuard(text.slice(1)) ? text.slice(1) : text;
-}
-
 function flatten(value: Record<string, unknown>, prefix = '', out: Record<string, unknown> = {}): Record<string, unknown> {
   for (const [key, v] of Object.entries(value)) {
     if (v !== null && typeof v === 'object' && !Array.isArray(v)) flatten(v as Record<string, unknown>, `${prefix}${key}.`, out);
@@ -75,22 +58,20 @@ function flatten(value: Record<string, unknown>, prefix = '', out: Record<string
   return out;
 }
 
-const BOM = '\uFEFF';
-
 /** Every kind's schema, in the order of the inline catalog's union. */
 const KIND_SCHEMAS = catalogItemSchema.options;
 
 export function catalogCsv(items: readonly StoredCatalogItem[]): string {
   const rows = items.map((item) => {
     const flat = flatten(item as Record<string, unknown>);
-    return CATALOG_CSV_COLUMNS.map(({ name, type }) => {
+    return CATALOG_CSV_COLUMNS.map(({ name, type }): CsvCell => {
       const v = flat[name];
-      if (v === undefined || v === null) return '';
-      if (type === 'text') return guardCell(String(v));
-      return String(v);
+      if (v === undefined || v === null) return null;
+      // A text column's value is always written (and guarded) as text, even one that looks like a number.
+      return type !== 'text' && (typeof v === 'number' || typeof v === 'boolean') ? v : String(v);
     });
   });
-  return BOM + stringify([CATALOG_CSV_COLUMNS.map((c) => c.name), ...rows], { record_delimiter: '\r\n' });
+  return writeCsv([CATALOG_CSV_COLUMNS.map((c) => c.name), ...rows]);
 }
 
 /** The template: the header and one example row per kind (the kinds' documented examples). */

@@ -23,6 +23,7 @@ import { driverRequestSchema } from '../../shared/schemas/driver.js';
 import { estimateRequestSchema } from '../../shared/schemas/estimate.js';
 import { catalogImportQuerySchema, catalogItemQuerySchema, patchCatalogItemSchema, patchCatalogSchema, storedCatalogItemSchema } from '../../shared/schemas/catalog-store.js';
 import { estimateExamples, harborLaneCatalog } from '../../shared/schemas/estimate-examples.js';
+import { alderRowKitOptions, harborLaneKitOptions, kitOptionsRequestSchema } from '../../shared/schemas/estimate-options.js';
 import { pageQuerySchema } from '../../shared/schemas/page.js';
 import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
 import { reelsRequestSchema } from '../../shared/schemas/reels.js';
@@ -128,6 +129,7 @@ const bodySchemas: { name: string; schema: z.ZodType; seeds: Json[] }[] = [
   { name: 'pixels', schema: pixelsRequestSchema, seeds: [{ pixels: 1080, protocol: 'one-wire-800k', bitsPerPixel: 32 }, { pixels: 300, protocol: 'clocked', clockHz: 2_000_000 }] },
   { name: 'reels', schema: reelsRequestSchema, seeds: [{ piecesMm: [850, 850, 1200, 400], reelLengthMm: 5000, cutPitchMm: 50 }] },
   { name: 'estimate', schema: estimateRequestSchema, seeds: Object.values(estimateExamples) },
+  { name: 'kit-options', schema: kitOptionsRequestSchema, seeds: [harborLaneKitOptions, alderRowKitOptions] },
   { name: 'sign-in', schema: signInRequestSchema, seeds: [seedOf(signInRequestSchema)] },
   { name: 'refresh', schema: refreshRequestSchema, seeds: [seedOf(refreshRequestSchema)] },
   { name: 'switch-organization', schema: switchOrganizationRequestSchema, seeds: [{ organization: 'harbor-lane' }] },
@@ -243,6 +245,7 @@ const routes: { method: 'post' | 'patch'; path: string; schema: string; token?: 
   { method: 'post', path: '/v1/calculations/reels', schema: 'reels', token: () => sizing },
   { method: 'post', path: '/v1/estimates', schema: 'estimate', token: () => sizing },
   { method: 'post', path: '/v1/estimates', schema: 'estimate', token: () => sizing },
+  { method: 'post', path: '/v1/estimates/options', schema: 'kit-options', token: () => sizing },
   { method: 'post', path: '/v1/auth/sign-in', schema: 'sign-in' },
   { method: 'post', path: '/v1/auth/refresh', schema: 'refresh' },
   { method: 'post', path: '/v1/auth/invitations/accept', schema: 'accept-invitation' },

@@ -4,6 +4,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openApiDocument } from '../../api/openapi/spec.js';
 import { estimateExamples } from '../../shared/schemas/estimate-examples.js';
+import { harborLaneKitOptions } from '../../shared/schemas/estimate-options.js';
 import { bearer, createMember, createOperator, signIn, TEST_PASSWORD } from '../support/accounts.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
@@ -189,6 +190,14 @@ describe('real answers match the documented schema of their route and status', (
       layouts.add(example.layout);
     }
     expect([...layouts].sort()).toEqual(['rail-pixels', 'tread-pixels', 'tread-strips', 'treads-and-rail']);
+  });
+
+  it('kit options: ranked designs and an empty stored catalog', async () => {
+    const ranked = await request(t.app).post('/v1/estimates/options').set(bearer(server)).send(harborLaneKitOptions);
+    expect(ranked.body.designs?.length).toBeGreaterThan(0);
+    expectConforms(ranked, 'POST', '/v1/estimates/options', 200, harborLaneKitOptions);
+    const { catalog: _inline, ...stored } = harborLaneKitOptions;
+    expectConforms(await request(t.app).post('/v1/estimates/options').set(bearer(server)).send(stored), 'POST', '/v1/estimates/options', 422, stored);
   });
 
   it('keys: create, list, show, rotate, revoke', async () => {
