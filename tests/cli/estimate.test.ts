@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { stringify } from 'yaml';
-import { alderRowTownhouse } from '../../shared/schemas/estimate-examples.js';
+import { alderRowTownhouse, quaysideCorridor } from '../../shared/schemas/estimate-examples.js';
 import { runCli } from '../support/cli-run.js';
 import { startCliServer, type CliServer } from '../support/cli-server.js';
 
@@ -93,6 +93,18 @@ describe('treadwise estimate', () => {
     expect(run.stdout).toMatch(/^Tax \d+ % +\d+\.\d\d \w{3}$/m);
     expect(run.stdout).toMatch(/^Gross +\d+\.\d\d \w{3}$/m);
     expect(run.stdout).toMatch(/Priced from the stored catalog v\d+/);
+  });
+
+  it('reports a corridor’s rail pixel run (no treads) with its data outputs and refresh rate', async () => {
+    const run = await runCli(['estimate', '-', ...key], { stdin: stringify(quaysideCorridor) });
+    // The second data output's lead runs 9.5 m to the middle of the rail, past the ~2 m one-wire gap (the API docs' example answer): a failing check.
+    expect(run.code).toBe(3);
+    expect(run.stdout).toMatch(/^ {2}FAIL {2}data-line-length: /m);
+    expect(run.stdout).toMatch(/^Estimate +rail-pixels, engine /m);
+    expect(run.stdout).not.toContain('\nTreads\n');
+    // 18 m × 60 pixels/m = 1080 pixels (the request); the engine splits them over the HL-K36 profile's 2 data outputs of ≤ 600
+    expect(run.stdout).toMatch(/^ {2}rail: 1080 pixels, 2 data output\(s\) of 540, [\d.]+ Hz, /m);
+    expect(run.stdout).toContain('Cautions');
   });
 
   it('turns malformed input into a usage error naming the fields, on one line', async () => {

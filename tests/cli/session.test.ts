@@ -2,6 +2,7 @@ import { mkdtempSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createMember, signIn } from '../support/accounts.js';
 import { createKey } from '../support/fixtures.js';
 import { runCli } from '../support/cli-run.js';
 import { startCliServer, type CliServer } from '../support/cli-server.js';
@@ -77,6 +78,16 @@ describe('treadwise login, whoami, logout', () => {
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(new RegExp(`^Key +${key.keyId} \\(server key\\)$`, 'm'));
     expect(run.stdout).toMatch(/^Not shown +organisation \(needs usage:read\); name and scopes \(needs keys:manage\)$/m);
+  });
+
+  it('tells a signed-in user’s access token apart from a key', async () => {
+    const { email } = await createMember(s.t.app, s.organization.id, 'viewer');
+    const session = await signIn(s.t.app, email);
+    const run = await runCli(['whoami', '--api-url', s.apiUrl, '--api-key', session.accessToken]);
+    expect(run.code).toBe(0);
+    expect(run.stdout).toMatch(/^Credential +access token of a signed-in user$/m);
+    expect(run.stdout).toMatch(new RegExp(`^User +${email}$`, 'm'));
+    expect(run.stdout).toMatch(new RegExp(`^Organisation +${s.organization.name} \\(${s.organization.slug}\\), viewer$`, 'm'));
   });
 
   it('prints a revoked key’s problem as one line with the request id', async () => {
