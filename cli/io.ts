@@ -1,5 +1,7 @@
 import { readFileSync } from 'node:fs';
+import { createInterface } from 'node:readline';
 import envPaths from 'env-paths';
+import { CliError } from './errors.js';
 
 /**
  * Everything a command touches outside itself: stdout for results (pipeable), stderr for progress
@@ -16,6 +18,30 @@ export interface CliIo {
   stdoutIsTTY: boolean;
   /** Where `login` keeps the API URL and key. */
   configDir(): string;
+  /** Asks on the terminal without echoing; absent when stdin is not a terminal (pipes, tests). */
+  promptSecret?(question: string): Promise<string>;
+}
+
+/** Reads one line from the terminal with echo off, so a pasted key never shows on screen. */
+function promptHidden(question: string): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const rl = createInterface({ input: process.stdin, output: process.stderr, terminal: true });
+    let asked = false;
+    // readline echoes through _writeToOutput: print the question, swallow what is typed.
+    (rl as unknown as { _writeToOutput(s: string): void })._writeToOutput = (s: string) => {
+      if (!asked) process.stderr.write(s);
+      asked = true;
+    };
+    rl.question(question, (answer) => {
+      rl.close();
+      process.stderr.write('\n');
+      resolve(answer.trim());
+    });
+    rl.on('SIGINT', () => {
+      rl.close();
+      reject(new CliError('cancelled'));
+    });
+  });
 }
 
 async function readAll(stream: NodeJS.ReadableStream): Promise<string> {
@@ -33,6 +59,7 @@ export const processIo: CliIo = {
   stdoutIsTTY: Boolean(process.stdout.isTTY),
   // No "-nodejs" suffix: the folder is ~/.config/treadwise on Linux.
   configDir: () => envPaths('treadwise', { suffix: '' }).config,
+  promptSecret: process.stdin.isTTY ? promptHidden : undefined,
 };
 
 /** A file's text, or stdin's for `-`; a missing file is a readable error. */

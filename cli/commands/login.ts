@@ -10,7 +10,7 @@ export function loginCommand(io: CliIo): Command {
   const command = new Command('login').description('check an API key and remember it with the API URL (file mode 0600)');
   withExamples(
     withApiOptions(command),
-    'treadwise login --api-url https://api.example.test --api-key tw_server_…',
+    'treadwise login --api-url https://api.example.test        # asks for the key without echoing it',
     'printf %s "$KEY" | treadwise login --api-url https://api.example.test --api-key -   # keeps the key out of shell history',
   );
   return command.action(async (raw: Record<string, unknown>) => {
@@ -18,6 +18,7 @@ export function loginCommand(io: CliIo): Command {
     const apiUrl = opts.apiUrl ?? (io.env.TREADWISE_API_URL || DEFAULT_API_URL);
     let apiKey = opts.apiKey ?? (io.env.TREADWISE_API_KEY || undefined);
     if (apiKey === '-') apiKey = (await io.readStdin()).trim();
+    else if (!apiKey && io.promptSecret) apiKey = await io.promptSecret(`API key for ${apiUrl}: `);
     if (!apiKey) throw new CliError('give the key: --api-key <key>, --api-key - to read it from stdin, or TREADWISE_API_KEY', EXIT.usage);
 
     // A key the API refuses (401) is never stored.

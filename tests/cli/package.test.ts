@@ -16,7 +16,7 @@ let unpacked: string;
 let packedFiles: string[];
 beforeAll(async () => {
   s = await startCliServer();
-  // npm pack runs prepack (npm run build:cli), as a publish would.
+  // npm pack runs prepare (npm run build:cli), as a publish would.
   const dest = mkdtempSync(path.join(tmpdir(), 'treadwise-pack-'));
   const { stdout } = await run('npm', ['pack', '--json', '--pack-destination', dest], { cwd: root });
   const [pack] = JSON.parse(stdout.slice(stdout.indexOf('[')));
