@@ -93,3 +93,15 @@ export async function unwrap<T>(call: Promise<{ data?: T; error?: unknown; respo
   if (response.ok && error === undefined) return data as T;
   throw new CliError(problemLine(error, response), response.status === 400 ? EXIT.usage : EXIT.failure);
 }
+
+/** Every item of a cursor-paginated list (`{ items, nextCursor }`), page by page. */
+export async function everyPage<T>(page: (query: { limit: number; cursor?: string }) => Promise<{ items: T[]; nextCursor: string | null }>): Promise<T[]> {
+  const items: T[] = [];
+  let cursor: string | undefined;
+  do {
+    const answer = await page({ limit: 200, ...(cursor ? { cursor } : {}) });
+    items.push(...answer.items);
+    cursor = answer.nextCursor ?? undefined;
+  } while (cursor);
+  return items;
+}

@@ -1,7 +1,7 @@
 import { Command } from 'commander';
 import { z } from 'zod';
 import type { components } from '../../openapi/api-types.js';
-import { createApiClient, unwrap, type ApiClient } from '../api-client.js';
+import { createApiClient, everyPage, unwrap, type ApiClient } from '../api-client.js';
 import { CliError } from '../errors.js';
 import type { CliIo } from '../io.js';
 import { apiOptionsSchema, withApiOptions, withExamples } from '../options.js';
@@ -14,16 +14,7 @@ type Scope = components['schemas']['Scope'];
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const connection = (raw: Record<string, unknown>) => apiOptionsSchema.parse({ apiUrl: raw.apiUrl, apiKey: raw.apiKey, json: raw.json, color: raw.color });
 
-async function allKeys(api: ApiClient): Promise<ApiKey[]> {
-  const keys: ApiKey[] = [];
-  let cursor: string | undefined;
-  do {
-    const page = await unwrap(api.GET('/v1/keys', { params: { query: { limit: 200, ...(cursor ? { cursor } : {}) } } }));
-    keys.push(...page.items);
-    cursor = page.nextCursor ?? undefined;
-  } while (cursor);
-  return keys;
-}
+const allKeys = (api: ApiClient): Promise<ApiKey[]> => everyPage((query) => unwrap(api.GET('/v1/keys', { params: { query } })));
 
 /** Users know a key by its public key id (the one in logs); the API addresses it by its row id. */
 async function rowId(api: ApiClient, idOrKeyId: string): Promise<string> {
