@@ -18,12 +18,20 @@ export type Policy =
       operator?: true;
       /** Browser (embed) keys may call it: sizing, and reading active catalog items. */
       embed?: true;
+      /** Runs the sizing engine though its scope is another: signed-in users' calls are metered as sizing. */
+      sizing?: true;
     };
 
 const sizing: Policy = { scope: 'sizing:run', role: 'estimator', embed: true };
 const keysAdmin: Policy = { scope: 'keys:manage', role: 'admin' };
 const catalogRead: Policy = { scope: 'catalog:read', role: 'viewer' };
 const catalogWrite: Policy = { scope: 'catalog:write', role: 'admin' };
+const projectsRead: Policy = { scope: 'projects:read', role: 'viewer' };
+const projectsWrite: Policy = { scope: 'projects:write', role: 'estimator' };
+/** Deleting throws away stored quotes: an admin's call (keys: projects:write). */
+const projectsDelete: Policy = { scope: 'projects:write', role: 'admin' };
+/** Running a stored design: a projects write that runs the engine, metered and charged as sizing. */
+const projectsRun: Policy = { ...projectsWrite, sizing: true };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
 export const POLICIES: Record<string, Policy> = {
@@ -85,6 +93,26 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/catalog/template': catalogRead,
   'GET /v1/catalog/export': catalogRead,
   'POST /v1/catalog/imports': catalogWrite,
+
+  // Projects, their stairs and stored estimates: viewers read, estimators write and run, admins
+  // delete. Embed keys never reach any of it (no `embed`).
+  'GET /v1/projects': projectsRead,
+  'POST /v1/projects': projectsWrite,
+  'GET /v1/projects/:id': projectsRead,
+  'PATCH /v1/projects/:id': projectsWrite,
+  'DELETE /v1/projects/:id': projectsDelete,
+  'GET /v1/projects/:id/stairs': projectsRead,
+  'POST /v1/projects/:id/stairs': projectsWrite,
+  'GET /v1/projects/:id/stairs/:stairId': projectsRead,
+  'PATCH /v1/projects/:id/stairs/:stairId': projectsWrite,
+  'DELETE /v1/projects/:id/stairs/:stairId': projectsDelete,
+  'GET /v1/projects/:id/stairs/:stairId/estimates': projectsRead,
+  'POST /v1/projects/:id/stairs/:stairId/estimates': projectsRun,
+  'GET /v1/estimates/:estimateId': projectsRead,
+  'POST /v1/estimates/:estimateId/rerun': projectsRun,
+  'GET /v1/estimates/:estimateId/wiring-schedule.csv': projectsRead,
+  'GET /v1/estimates/:estimateId/bom.csv': projectsRead,
+  'GET /v1/estimates/:estimateId/document.pdf': projectsRead,
 };
 
 /** A malformed %-escape is just a path that matches nothing (404), not an error. */

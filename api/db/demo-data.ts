@@ -1,5 +1,5 @@
 import type { Scope } from '../auth/scopes.js';
-import { harborLaneCatalog } from '../../shared/schemas/estimate-examples.js';
+import { harborLaneCatalog, hlM05Motion, hlS2410Strip } from '../../shared/schemas/estimate-examples.js';
 
 /** The invented demo scenario (see DEVELOPERS.md); every name here is made up. */
 export const demoOrganizations = [
@@ -36,3 +36,31 @@ export const demoEmbedKeyScopes: Scope[] = ['sizing:run', 'catalog:read'];
  * invented for the demo so net, tax and gross differ.
  */
 export const demoCatalogs = [{ organization: 'harbor-lane', currency: harborLaneCatalog.currency, taxRatePercent: 20, items: harborLaneCatalog.items }] as const;
+
+/**
+ * A demo project of Harbor Lane: a customer's stair kept to run, re-run after a price change and
+ * hand over. Client, site and stair are invented.
+ */
+export const demoProjects = [
+  {
+    organization: 'harbor-lane',
+    createdBy: 'theo@harborlane.test',
+    name: 'Saltmarsh Cottage staircase',
+    clientName: 'Wren & Tansy Holiday Lets',
+    siteAddress: '4 Saltmarsh Row\nPort Aster',
+    notes: 'Oak treads, warm white. Mains side of the drivers by the client’s electrician.',
+    stairs: [
+      {
+        name: 'Main stair',
+        input: {
+          layout: 'tread-strips',
+          staircase: { treads: 12, treadWidthMm: 1000, riserHeightMm: 180, goingMm: 260 },
+          treadStrip: hlS2410Strip,
+          // The shop's controller by SKU: the stored catalog gives its profile and prices it.
+          controller: { profileId: 'HL-K20' },
+          sensors: { motion: hlM05Motion },
+        },
+      },
+    ],
+  },
+] as const;

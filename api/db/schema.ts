@@ -13,6 +13,7 @@ import {
   timestamp,
   uniqueIndex,
   uuid,
+  type AnyPgColumn,
 } from 'drizzle-orm/pg-core';
 
 /** An older secret of a rotated key, valid until `validUntil` (ISO time). */
@@ -276,4 +277,83 @@ export const catalogItems = pgTable(
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [uniqueIndex('catalog_items_org_sku').on(t.organizationId, t.sku), index('catalog_items_org_kind').on(t.organizationId, t.kind, t.sku)],
+);
+
+/** Who created or ran something: a user (id) or an API key (its public key id). */
+type ActorType = 'user' | 'api_key';
+
+/**
+ * An installer's job: client, site and notes. Deleting a project (an admin's call) deletes its
+ * stairs and their stored estimates with it; the audit trail keeps that it happened.
+ */
+export const projects = pgTable(
+  'projects',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    clientName: text('client_name'),
+    siteAddress: text('site_address'),
+    notes: text('notes'),
+    createdByType: text('created_by_type').$type<ActorType>().notNull(),
+    createdById: text('created_by_id').notNull(),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  // The list: an organisation's projects, newest first.
+  (t) => [index('projects_org_created').on(t.organizationId, t.createdAt, t.id)],
+);
+
+/** A named stair of a project: the estimate request it runs (validated by estimateRequestSchema). */
+export const projectStairs = pgTable(
+  'project_stairs',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    projectId: uuid('project_id')
+      .notNull()
+      .references(() => projects.id, { onDelete: 'cascade' }),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    notes: text('notes'),
+    input: jsonb('input').$type<Record<string, unknown>>().notNull(),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('project_stairs_project_created').on(t.projectId, t.createdAt, t.id)],
+);
+
+/**
+ * A stair's estimate as it was run: the input, the whole result, the engine and catalog versions
+ * that made it and who ran it, so it can be shown, exported and re-run later. A re-run names the
+ * estimate it re-ran (`rerunOf`).
+ */
+export const storedEstimates = pgTable(
+  'estimates',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    projectId: uuid('project_id')
+      .notNull()
+      .references(() => projects.id, { onDelete: 'cascade' }),
+    stairId: uuid('stair_id')
+      .notNull()
+      .references(() => projectStairs.id, { onDelete: 'cascade' }),
+    input: jsonb('input').$type<Record<string, unknown>>().notNull(),
+    result: jsonb('result').$type<Record<string, unknown>>().notNull(),
+    engineVersion: text('engine_version').notNull(),
+    catalogVersion: integer('catalog_version'),
+    pricingSource: text('pricing_source').$type<'inline' | 'stored'>(),
+    ranByType: text('ran_by_type').$type<ActorType>().notNull(),
+    ranById: text('ran_by_id').notNull(),
+    rerunOf: uuid('rerun_of').references((): AnyPgColumn => storedEstimates.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  // The list: a stair's estimates, newest first.
+  (t) => [index('estimates_stair_created').on(t.stairId, t.createdAt, t.id), index('estimates_org').on(t.organizationId)],
 );

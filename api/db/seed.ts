@@ -1,12 +1,13 @@
 import { count } from 'drizzle-orm';
 import { formatKey, generateKey, hashSecret, type KeyKind } from '../auth/key-format.js';
 import type { Database } from './client.js';
-import { apiKeys, catalogItems, catalogs, organizations } from './schema.js';
+import { apiKeys, catalogItems, catalogs, organizations, projects, projectStairs } from './schema.js';
 import { itemColumns } from '../services/catalog.js';
 import { storedCatalogItemSchema } from '../../shared/schemas/catalog-store.js';
+import { estimateRequestSchema } from '../../shared/schemas/estimate.js';
 import { addMember } from '../services/members.js';
 import { createUserService } from '../services/users.js';
-import { DEMO_PASSWORD, demoCatalogs, demoEmbedKeyScopes, demoMembers, demoOperator, demoOrganizations, demoServerKeyScopes } from './demo-data.js';
+import { DEMO_PASSWORD, demoCatalogs, demoProjects, demoEmbedKeyScopes, demoMembers, demoOperator, demoOrganizations, demoServerKeyScopes } from './demo-data.js';
 
 const SEED_LOCK = 740_312;
 
@@ -39,8 +40,10 @@ export async function seedDemo(database: Database, enabled: boolean, pepper: Buf
       await users.createUser({ ...demoOperator, password: DEMO_PASSWORD, operator: true });
       for (const demo of demoOrganizations) {
         const [org] = await tx.insert(organizations).values({ slug: demo.slug, name: demo.name, planId: demo.planId }).returning();
+        const userIds = new Map<string, string>();
         for (const person of demoMembers.filter((m) => m.organization === demo.slug)) {
           const user = await users.createUser({ email: person.email, name: person.name, password: DEMO_PASSWORD });
+          userIds.set(person.email, user.id);
           await addMember(tx, { organizationId: org.id, userId: user.id, role: person.role });
         }
         for (const kind of ['server', 'embed'] as const) {
@@ -62,6 +65,17 @@ export async function seedDemo(database: Database, enabled: boolean, pepper: Buf
           await tx.insert(catalogs).values({ organizationId: org.id, currency: catalog.currency, taxRateBasisPoints: Math.round(catalog.taxRatePercent * 100), version: 1 });
           for (const item of catalog.items) {
             await tx.insert(catalogItems).values({ organizationId: org.id, ...itemColumns(storedCatalogItemSchema.parse(item), catalog.currency) });
+          }
+        }
+        for (const demoProject of demoProjects.filter((p) => p.organization === demo.slug)) {
+          const { stairs, organization: _, createdBy, ...fields } = demoProject;
+          const [project] = await tx
+            .insert(projects)
+            .values({ organizationId: org.id, ...fields, createdByType: 'user', createdById: userIds.get(createdBy)! })
+            .returning();
+          for (const stair of stairs) {
+            estimateRequestSchema.parse(stair.input); // the demo stair is a valid request
+            await tx.insert(projectStairs).values({ projectId: project.id, organizationId: org.id, name: stair.name, input: stair.input });
           }
         }
       }

@@ -36,7 +36,7 @@ function meteredAs(res: Response): { organizationId: string; keyId: string; apiK
   const p = principalOf(res);
   if (p.type === 'api_key') return { organizationId: p.organizationId, keyId: p.keyId, apiKeyId: p.apiKeyId };
   const policy = locals(res).routePolicy;
-  if (p.type === 'user' && p.organizationId && policy && !policy.public && policy.scope === 'sizing:run') return { organizationId: p.organizationId, keyId: CONSOLE_KEY_ID, apiKeyId: null };
+  if (p.type === 'user' && p.organizationId && policy && !policy.public && (policy.scope === 'sizing:run' || policy.sizing)) return { organizationId: p.organizationId, keyId: CONSOLE_KEY_ID, apiKeyId: null };
   return null;
 }
 

@@ -8,9 +8,11 @@ import { auditRoutes } from './audit.js';
 import { authRoutes } from './auth.js';
 import { memberRoutes } from './members.js';
 import { organizationRoutes } from './organizations.js';
+import { projectRoutes } from './projects.js';
+import { storedEstimateRoutes } from './stored-estimates.js';
 import { outboxRoutes } from './outbox.js';
 import { usageRoutes } from './usage.js';
 import type { RouteModule } from './route-module.js';
 
 /** Every resource the API mounts, in one list: the app and the OpenAPI document both use it. */
-export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes];
+export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes, projectRoutes, storedEstimateRoutes];

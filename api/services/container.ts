@@ -7,6 +7,9 @@ import { createApiKeyService } from './api-keys.js';
 import { createAuditService } from './audit.js';
 import { createCatalogService } from './catalog.js';
 import { createPricedEstimates } from './priced-estimates.js';
+import { createProjectService } from './projects.js';
+import { createStairService } from './stairs.js';
+import { createStoredEstimateService } from './stored-estimates.js';
 import { createMailer } from './mailer.js';
 import { createEmailTokenService } from './email-tokens.js';
 import { createMemberService } from './members.js';
@@ -39,6 +42,11 @@ export function createServices(deps: AppDeps) {
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
   const catalog = createCatalogService({ db, clock });
+  const pricedEstimates = createPricedEstimates(catalog);
+  const projects = createProjectService({ db, clock });
+  const stairs = createStairService({ db, clock, projects });
+  // A stair runs as POST /v1/estimates does: priced from the stored catalog unless its input carries one.
+  const storedEstimates = createStoredEstimateService({ db, clock, stairs, runner: (organizationId, input) => pricedEstimates.run(organizationId, input) });
   return {
     apiKeys,
     keyCache,
@@ -54,7 +62,10 @@ export function createServices(deps: AppDeps) {
     allowedOrigins,
     audit: createAuditService({ db, clock }),
     catalog,
-    pricedEstimates: createPricedEstimates(catalog),
+    pricedEstimates,
+    projects,
+    stairs,
+    storedEstimates,
     mailer,
     plans,
     quotas,

@@ -55,6 +55,7 @@ export const catalogStripSchema = z
     voltageV: z.number().positive().max(1000).meta({ description: 'Strip voltage, V DC.' }),
     powerWPerM: z.number().positive().max(1000).meta({ description: 'Power per metre, W/m.' }),
     cutPitchMm: z.number().min(1).max(1000).optional().meta({ description: 'Cut pitch, mm.' }),
+    colourTemperatureK: z.int().min(1000).max(20_000).optional().meta({ description: 'Correlated colour temperature of white strip, K (kit options can ask for one).', example: 3000 }),
     reelLengthMm,
   })
   .meta({

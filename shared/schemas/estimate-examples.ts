@@ -56,8 +56,8 @@ export const quaysideCorridor = {
 export const harborLaneCatalog = {
   currency: 'EUR',
   items: [
-    { sku: 'HL-S24-10', kind: 'strip', description: 'CV strip 24 V 10 W/m, 5 m reel', unitPrice: 39, voltageV: 24, powerWPerM: 10, cutPitchMm: 50, reelLengthMm: 5000 },
-    { sku: 'HL-S12-07', kind: 'strip', description: 'CV strip 12 V 7.2 W/m, 5 m reel', unitPrice: 29, voltageV: 12, powerWPerM: 7.2, cutPitchMm: 25, reelLengthMm: 5000 },
+    { sku: 'HL-S24-10', kind: 'strip', description: 'CV strip 24 V 10 W/m, 3000 K, 5 m reel', unitPrice: 39, voltageV: 24, powerWPerM: 10, cutPitchMm: 50, colourTemperatureK: 3000, reelLengthMm: 5000 },
+    { sku: 'HL-S12-07', kind: 'strip', description: 'CV strip 12 V 7.2 W/m, 4000 K, 5 m reel', unitPrice: 29, voltageV: 12, powerWPerM: 7.2, cutPitchMm: 25, colourTemperatureK: 4000, reelLengthMm: 5000 },
     { sku: 'HL-P05-60', kind: 'pixel-strip', description: 'Pixel strip 5 V 60 pixels/m, 5 m reel', unitPrice: 45, voltageV: 5, pixelsPerM: 60, protocol: 'one-wire-800k', reelLengthMm: 5000 },
     { sku: 'HL-P24-20', kind: 'pixel-strip', description: 'Pixel strip 24 V 20 pixels/m, 5 m reel', unitPrice: 52, voltageV: 24, pixelsPerM: 20, reelLengthMm: 5000 },
     { sku: 'HL-D24-060', kind: 'driver', unitPrice: 24, voltageV: 24, ratingW: 60 },

@@ -47,6 +47,12 @@ export const kitConstraintsSchema = z
       .max(MAX_OPTION_VOLTAGES)
       .optional()
       .meta({ description: 'Only strips of these voltages, V DC.' }),
+    colourTemperatureK: z
+      .int()
+      .min(1000)
+      .max(20_000)
+      .optional()
+      .meta({ description: 'Only strips of this colour temperature, K (catalog strips that state `colourTemperatureK`).', example: 3000 }),
     minPowerWPerM: z.number().positive().max(200).optional().meta({ description: 'Only strips of at least this power per metre, W/m.' }),
     maxPowerWPerM: z.number().positive().max(200).optional().meta({ description: 'Only strips of at most this power per metre, W/m.' }),
     controllerSkus: z

@@ -25,6 +25,7 @@ import { catalogImportQuerySchema, catalogItemQuerySchema, patchCatalogItemSchem
 import { estimateExamples, harborLaneCatalog } from '../../shared/schemas/estimate-examples.js';
 import { alderRowKitOptions, harborLaneKitOptions, kitOptionsRequestSchema } from '../../shared/schemas/estimate-options.js';
 import { pageQuerySchema } from '../../shared/schemas/page.js';
+import { createProjectSchema, createStairSchema, patchProjectSchema, patchStairSchema, runStairSchema } from '../../shared/schemas/projects.js';
 import { pixelsRequestSchema } from '../../shared/schemas/pixels.js';
 import { reelsRequestSchema } from '../../shared/schemas/reels.js';
 import { usageQuerySchema } from '../../shared/schemas/usage.js';
@@ -39,7 +40,7 @@ import { organizations } from '../../api/db/schema.js';
 // middleware (cheap), a few thousand through HTTP on one in-memory app. Fixed seeds keep a run
 // reproducible; a failure prints the counterexample.
 
-const DIRECT_RUNS_PER_SCHEMA = 450; // × 20 schemas = 9 000
+const DIRECT_RUNS_PER_SCHEMA = 450; // × 26 schemas = 11 700
 const HTTP_RUNS = 2_000;
 let inputsSent = 0;
 
@@ -145,6 +146,11 @@ const bodySchemas: { name: string; schema: z.ZodType; seeds: Json[] }[] = [
   { name: 'catalog-item', schema: storedCatalogItemSchema, seeds: harborLaneCatalog.items.map((item) => ({ ...item, active: true })) },
   { name: 'patch-catalog-item', schema: patchCatalogItemSchema, seeds: [{ unitPrice: 36, description: 'Driver 24 V', active: false }, { unitPrice: null }] },
   { name: 'patch-catalog', schema: patchCatalogSchema, seeds: [{ currency: 'EUR', taxRatePercent: 20 }] },
+  { name: 'create-project', schema: createProjectSchema, seeds: [seedOf(createProjectSchema), { name: 'Quayside corridor', notes: 'Daylight cut-off at 40 lx.' }] },
+  { name: 'patch-project', schema: patchProjectSchema, seeds: [{ name: 'Alder Row, house 8', clientName: null, siteAddress: '8 Alder Row', notes: null }] },
+  { name: 'create-stair', schema: createStairSchema, seeds: Object.values(estimateExamples).map((input, i) => ({ name: `Stair ${i + 1}`, input })) },
+  { name: 'patch-stair', schema: patchStairSchema, seeds: [{ name: 'Loft stair', notes: null, input: estimateExamples.alderRowCornerUnit }] },
+  { name: 'run-stair', schema: runStairSchema, seeds: [{}] },
 ];
 const querySchemas: { name: string; schema: z.ZodType; seeds: Json[] }[] = [
   { name: 'page', schema: pageQuerySchema, seeds: [{ limit: '20', cursor: 'eyJ4IjoxfQ' }] },
@@ -251,6 +257,7 @@ const routes: { method: 'post' | 'patch'; path: string; schema: string; token?: 
   { method: 'post', path: '/v1/auth/invitations/accept', schema: 'accept-invitation' },
   { method: 'post', path: '/v1/members/invitations', schema: 'invitation', token: () => admin },
   { method: 'post', path: '/v1/keys', schema: 'create-key', token: () => admin },
+  { method: 'post', path: '/v1/projects', schema: 'create-project', token: () => admin },
 ];
 
 /** A body as raw JSON text, sometimes spelt the ways JSON.stringify never does. */

@@ -211,6 +211,35 @@ describe('real answers match the documented schema of their route and status', (
     expectConforms(await request(t.app).post(`/v1/keys/${id}/revoke`).set(bearer(admin)).send({}), 'POST', '/v1/keys/{id}/revoke', 200);
   });
 
+  it('projects: a project, a stair, a run, a re-run, their lists and problems', async () => {
+    const as = (r: request.Test) => r.set(bearer(admin));
+    const newProject = { name: 'Alder Row, house 7', clientName: 'Kestrel & Finch Builders', siteAddress: '7 Alder Row\nMillbrook' };
+    const project = await as(request(t.app).post('/v1/projects')).send(newProject);
+    expectConforms(project, 'POST', '/v1/projects', 201, newProject);
+    const p = `/v1/projects/${project.body.id}`;
+    expectConforms(await as(request(t.app).get('/v1/projects?limit=5')), 'GET', '/v1/projects', 200);
+    expectConforms(await as(request(t.app).get(p)), 'GET', '/v1/projects/{id}', 200);
+    expectConforms(await as(request(t.app).patch(p)).send({ notes: 'Warm white' }), 'PATCH', '/v1/projects/{id}', 200, { notes: 'Warm white' });
+    const newStair = { name: 'Main stair', input: estimateExamples.harborLaneCheckout };
+    const stair = await as(request(t.app).post(`${p}/stairs`)).send(newStair);
+    expectConforms(stair, 'POST', '/v1/projects/{id}/stairs', 201, newStair);
+    const s = `${p}/stairs/${stair.body.id}`;
+    expectConforms(await as(request(t.app).get(`${p}/stairs`)), 'GET', '/v1/projects/{id}/stairs', 200);
+    expectConforms(await as(request(t.app).get(s)), 'GET', '/v1/projects/{id}/stairs/{stairId}', 200);
+    expectConforms(await as(request(t.app).patch(s)).send({ name: 'Stair to the loft' }), 'PATCH', '/v1/projects/{id}/stairs/{stairId}', 200, { name: 'Stair to the loft' });
+    const run = await as(request(t.app).post(`${s}/estimates`)).send({});
+    expectConforms(run, 'POST', '/v1/projects/{id}/stairs/{stairId}/estimates', 201, {});
+    expectConforms(await as(request(t.app).get(`${s}/estimates`)), 'GET', '/v1/projects/{id}/stairs/{stairId}/estimates', 200);
+    expectConforms(await as(request(t.app).get(`/v1/estimates/${run.body.id}`)), 'GET', '/v1/estimates/{estimateId}', 200);
+    expectConforms(await as(request(t.app).post(`/v1/estimates/${run.body.id}/rerun`)).send({}), 'POST', '/v1/estimates/{estimateId}/rerun', 201, {});
+    expectConforms(await as(request(t.app).post('/v1/projects')).send({ name: '' }), 'POST', '/v1/projects', 400);
+    expectConforms(await as(request(t.app).get('/v1/estimates/00000000-0000-4000-8000-000000000000')), 'GET', '/v1/estimates/{estimateId}', 404);
+    expectConforms(await request(t.app).get('/v1/projects').set(bearer(server)), 'GET', '/v1/projects', 403);
+    // Deletions answer 204 without a body, as documented.
+    expect((await as(request(t.app).delete(s))).status).toBe(204);
+    expect((await as(request(t.app).delete(p))).status).toBe(204);
+  });
+
   it('members, invitations, usage, audit, organisations and the session', async () => {
     expectConforms(await request(t.app).get('/v1/members').set(bearer(admin)), 'GET', '/v1/members', 200);
     expectConforms(await request(t.app).post('/v1/members/invitations').set(bearer(admin)).send({ email: 'ines@conformance.test', role: 'viewer' }), 'POST', '/v1/members/invitations', 201);

@@ -261,6 +261,19 @@ describe('kit options: the search space', () => {
     }
   });
 
+  it('keeps to a colour temperature: only the demo catalog strips that state it', () => {
+    // Harbor Lane (invented): HL-S24-10 is 3000 K, HL-S12-07 is 4000 K.
+    const warm = run({ layout: 'tread-strips', staircase: alderRowStair, catalog: harborLaneCatalog, limit: 10, constraints: { colourTemperatureK: 3000 } });
+    const cool = run({ layout: 'tread-strips', staircase: alderRowStair, catalog: harborLaneCatalog, limit: 10, constraints: { colourTemperatureK: 4000 } });
+    expect(new Set(warm.designs.map((d) => d.choices.stripSku))).toEqual(new Set(['HL-S24-10']));
+    // the 4000 K strip alone: 1 strip × 2 controllers × 3 controller × 3 driver positions
+    expect(cool.possible).toBe(18);
+    for (const d of cool.designs) expect(d.choices.stripSku).toBe('HL-S12-07');
+    const none = run({ layout: 'tread-strips', staircase: alderRowStair, catalog: harborLaneCatalog, constraints: { colourTemperatureK: 6500 } });
+    expect(none.possible).toBe(0);
+    expect(none.designs).toEqual([]);
+  });
+
   it('fixes the driver position when the request gives drivers.positionsM', () => {
     const got = run({ layout: 'tread-strips', staircase: alderRowStair, catalog: smallShop, drivers: { positionsM: [1] }, limit: 10 });
     expect(got.possible).toBe(3 * 2 * 3); // strips × controllers × controller positions

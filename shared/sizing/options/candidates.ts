@@ -71,6 +71,7 @@ function eligibleStrips(input: KitOptionsInput, catalog: Catalog, pruned: Pruned
   for (const s of all) {
     if (c?.stripSkus && !c.stripSkus.includes(s.sku)) continue;
     if (c?.voltagesV && !c.voltagesV.some((v) => same(v, s.voltageV))) continue;
+    if (c?.colourTemperatureK !== undefined && s.colourTemperatureK !== c.colourTemperatureK) continue;
     if (c?.minPowerWPerM !== undefined && s.powerWPerM < c.minPowerWPerM - 1e-9) continue;
     if (c?.maxPowerWPerM !== undefined && s.powerWPerM > c.maxPowerWPerM + 1e-9) continue;
     if (s.cutPitchMm === undefined) {
