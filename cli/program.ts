@@ -7,6 +7,7 @@ import { healthCommand } from './commands/health.js';
 import { keysCommand } from './commands/keys.js';
 import { loginCommand } from './commands/login.js';
 import { logoutCommand } from './commands/logout.js';
+import { projectsCommand } from './commands/projects.js';
 import { usageCommand } from './commands/usage.js';
 import { whoamiCommand } from './commands/whoami.js';
 import type { CliIo } from './io.js';
@@ -36,6 +37,7 @@ export function createProgram(io: CliIo): Command {
   program.addCommand(calcCommand(io));
   program.addCommand(keysCommand(io));
   program.addCommand(catalogCommand(io));
+  program.addCommand(projectsCommand(io));
   program.addCommand(usageCommand(io));
   program.addCommand(healthCommand(io));
   configure(program, io);

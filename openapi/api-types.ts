@@ -666,7 +666,7 @@ export interface paths {
         };
         /**
          * Download the catalog CSV template
-         * @description The header and one example row per kind, to fill in and import. Columns: `sku` (text), `kind` (text), `description` (text), `unitPrice` (number), `active` (boolean), `voltageV` (number), `powerWPerM` (number), `cutPitchMm` (number), `reelLengthMm` (number), `pixelsPerM` (number), `protocol` (text), `ratingW` (number), `crossSectionMm2` (number), `awg` (number), `cores` (number), `profileId` (text), `profile.outputs` (number), `profile.maxCurrentPerOutputA` (number), `profile.dataOutputs` (number), `profile.maxPixelsPerOutput` (number), `profile.minTreads` (number), `profile.maxTreads` (number), `profile.maxInputCurrentA` (number), `profile.sensorInput.type` (text), `profile.sensorInput.supplyV` (number), `profile.sensorInput.maxCurrentMa` (number), `profile.dataLogicV` (number), `profile.maxDataLeadM` (number), `profile.sensorInputs` (number), `outputType` (text), `supplyV` (number), `currentMa` (number), `lengthMm` (number), `ratingA` (number), `part` (text). One row per item; a cell of a field the item's kind lacks stays empty; nested fields are dotted (`profile.outputs`); `unitPrice` in major units; `active` true or false (empty: true). UTF-8 with a BOM, RFC 4180 quoting, CRLF. A text cell starting with = + - @, tab or CR (or with an apostrophe before one) gets a leading apostrophe so a spreadsheet does not run it as a formula; numbers are never changed. An import removes that apostrophe again.
+         * @description The header and one example row per kind, to fill in and import. Columns: `sku` (text), `kind` (text), `description` (text), `unitPrice` (number), `active` (boolean), `voltageV` (number), `powerWPerM` (number), `cutPitchMm` (number), `colourTemperatureK` (number), `reelLengthMm` (number), `pixelsPerM` (number), `protocol` (text), `ratingW` (number), `crossSectionMm2` (number), `awg` (number), `cores` (number), `profileId` (text), `profile.outputs` (number), `profile.maxCurrentPerOutputA` (number), `profile.dataOutputs` (number), `profile.maxPixelsPerOutput` (number), `profile.minTreads` (number), `profile.maxTreads` (number), `profile.maxInputCurrentA` (number), `profile.sensorInput.type` (text), `profile.sensorInput.supplyV` (number), `profile.sensorInput.maxCurrentMa` (number), `profile.dataLogicV` (number), `profile.maxDataLeadM` (number), `profile.sensorInputs` (number), `outputType` (text), `supplyV` (number), `currentMa` (number), `lengthMm` (number), `ratingA` (number), `part` (text). One row per item; a cell of a field the item's kind lacks stays empty; nested fields are dotted (`profile.outputs`); `unitPrice` in major units; `active` true or false (empty: true). UTF-8 with a BOM, RFC 4180 quoting, CRLF. A text cell starting with = + - @, tab or CR (or with an apostrophe before one) gets a leading apostrophe so a spreadsheet does not run it as a formula; numbers are never changed. An import removes that apostrophe again.
          */
         get: operations["getCatalogTemplate"];
         put?: never;
@@ -686,7 +686,7 @@ export interface paths {
         };
         /**
          * Export the catalog as CSV
-         * @description Every item, active and retired, by SKU. Importing the file unchanged changes nothing. Columns: `sku` (text), `kind` (text), `description` (text), `unitPrice` (number), `active` (boolean), `voltageV` (number), `powerWPerM` (number), `cutPitchMm` (number), `reelLengthMm` (number), `pixelsPerM` (number), `protocol` (text), `ratingW` (number), `crossSectionMm2` (number), `awg` (number), `cores` (number), `profileId` (text), `profile.outputs` (number), `profile.maxCurrentPerOutputA` (number), `profile.dataOutputs` (number), `profile.maxPixelsPerOutput` (number), `profile.minTreads` (number), `profile.maxTreads` (number), `profile.maxInputCurrentA` (number), `profile.sensorInput.type` (text), `profile.sensorInput.supplyV` (number), `profile.sensorInput.maxCurrentMa` (number), `profile.dataLogicV` (number), `profile.maxDataLeadM` (number), `profile.sensorInputs` (number), `outputType` (text), `supplyV` (number), `currentMa` (number), `lengthMm` (number), `ratingA` (number), `part` (text). One row per item; a cell of a field the item's kind lacks stays empty; nested fields are dotted (`profile.outputs`); `unitPrice` in major units; `active` true or false (empty: true). UTF-8 with a BOM, RFC 4180 quoting, CRLF. A text cell starting with = + - @, tab or CR (or with an apostrophe before one) gets a leading apostrophe so a spreadsheet does not run it as a formula; numbers are never changed. An import removes that apostrophe again.
+         * @description Every item, active and retired, by SKU. Importing the file unchanged changes nothing. Columns: `sku` (text), `kind` (text), `description` (text), `unitPrice` (number), `active` (boolean), `voltageV` (number), `powerWPerM` (number), `cutPitchMm` (number), `colourTemperatureK` (number), `reelLengthMm` (number), `pixelsPerM` (number), `protocol` (text), `ratingW` (number), `crossSectionMm2` (number), `awg` (number), `cores` (number), `profileId` (text), `profile.outputs` (number), `profile.maxCurrentPerOutputA` (number), `profile.dataOutputs` (number), `profile.maxPixelsPerOutput` (number), `profile.minTreads` (number), `profile.maxTreads` (number), `profile.maxInputCurrentA` (number), `profile.sensorInput.type` (text), `profile.sensorInput.supplyV` (number), `profile.sensorInput.maxCurrentMa` (number), `profile.dataLogicV` (number), `profile.maxDataLeadM` (number), `profile.sensorInputs` (number), `outputType` (text), `supplyV` (number), `currentMa` (number), `lengthMm` (number), `ratingA` (number), `part` (text). One row per item; a cell of a field the item's kind lacks stays empty; nested fields are dotted (`profile.outputs`); `unitPrice` in major units; `active` true or false (empty: true). UTF-8 with a BOM, RFC 4180 quoting, CRLF. A text cell starting with = + - @, tab or CR (or with an apostrophe before one) gets a leading apostrophe so a spreadsheet does not run it as a formula; numbers are never changed. An import removes that apostrophe again.
          */
         get: operations["exportCatalog"];
         put?: never;
@@ -708,7 +708,7 @@ export interface paths {
         put?: never;
         /**
          * Import a catalog CSV
-         * @description Upload a CSV (multipart/form-data, field `file`, at most 5 MB). Every row is checked by its kind's schema and the answer lists every bad row and column. The import is all-or-nothing in one transaction: a new SKU is created, an existing one replaced by its row, SKUs not in the file stay as they are. With `?dryRun=true` the answer is the report and nothing is written. A change bumps the catalog version once. Columns: `sku` (text), `kind` (text), `description` (text), `unitPrice` (number), `active` (boolean), `voltageV` (number), `powerWPerM` (number), `cutPitchMm` (number), `reelLengthMm` (number), `pixelsPerM` (number), `protocol` (text), `ratingW` (number), `crossSectionMm2` (number), `awg` (number), `cores` (number), `profileId` (text), `profile.outputs` (number), `profile.maxCurrentPerOutputA` (number), `profile.dataOutputs` (number), `profile.maxPixelsPerOutput` (number), `profile.minTreads` (number), `profile.maxTreads` (number), `profile.maxInputCurrentA` (number), `profile.sensorInput.type` (text), `profile.sensorInput.supplyV` (number), `profile.sensorInput.maxCurrentMa` (number), `profile.dataLogicV` (number), `profile.maxDataLeadM` (number), `profile.sensorInputs` (number), `outputType` (text), `supplyV` (number), `currentMa` (number), `lengthMm` (number), `ratingA` (number), `part` (text). One row per item; a cell of a field the item's kind lacks stays empty; nested fields are dotted (`profile.outputs`); `unitPrice` in major units; `active` true or false (empty: true). UTF-8 with a BOM, RFC 4180 quoting, CRLF. A text cell starting with = + - @, tab or CR (or with an apostrophe before one) gets a leading apostrophe so a spreadsheet does not run it as a formula; numbers are never changed. An import removes that apostrophe again.
+         * @description Upload a CSV (multipart/form-data, field `file`, at most 5 MB). Every row is checked by its kind's schema and the answer lists every bad row and column. The import is all-or-nothing in one transaction: a new SKU is created, an existing one replaced by its row, SKUs not in the file stay as they are. With `?dryRun=true` the answer is the report and nothing is written. A change bumps the catalog version once. Columns: `sku` (text), `kind` (text), `description` (text), `unitPrice` (number), `active` (boolean), `voltageV` (number), `powerWPerM` (number), `cutPitchMm` (number), `colourTemperatureK` (number), `reelLengthMm` (number), `pixelsPerM` (number), `protocol` (text), `ratingW` (number), `crossSectionMm2` (number), `awg` (number), `cores` (number), `profileId` (text), `profile.outputs` (number), `profile.maxCurrentPerOutputA` (number), `profile.dataOutputs` (number), `profile.maxPixelsPerOutput` (number), `profile.minTreads` (number), `profile.maxTreads` (number), `profile.maxInputCurrentA` (number), `profile.sensorInput.type` (text), `profile.sensorInput.supplyV` (number), `profile.sensorInput.maxCurrentMa` (number), `profile.dataLogicV` (number), `profile.maxDataLeadM` (number), `profile.sensorInputs` (number), `outputType` (text), `supplyV` (number), `currentMa` (number), `lengthMm` (number), `ratingA` (number), `part` (text). One row per item; a cell of a field the item's kind lacks stays empty; nested fields are dotted (`profile.outputs`); `unitPrice` in major units; `active` true or false (empty: true). UTF-8 with a BOM, RFC 4180 quoting, CRLF. A text cell starting with = + - @, tab or CR (or with an apostrophe before one) gets a leading apostrophe so a spreadsheet does not run it as a formula; numbers are never changed. An import removes that apostrophe again.
          */
         post: operations["importCatalog"];
         delete?: never;
@@ -771,6 +771,234 @@ export interface paths {
          * @description Changes `unitPrice`, `description` or `active` (null removes a price or name). The kind’s fields change with PUT. A real change bumps the version.
          */
         patch: operations["updateCatalogItem"];
+        trace?: never;
+    };
+    "/v1/projects": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * List projects
+         * @description The organisation’s projects, newest first, with cursor pagination.
+         */
+        get: operations["listProjects"];
+        put?: never;
+        /**
+         * Create a project
+         * @description A new project (name; client, site address and notes optional). Send `Idempotency-Key` to retry safely.
+         */
+        post: operations["createProject"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/projects/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Get a project
+         * @description One project of the organisation, with how many stairs it holds.
+         */
+        get: operations["getProject"];
+        put?: never;
+        post?: never;
+        /**
+         * Delete a project
+         * @description Deletes the project with its stairs and their stored estimates, for good. Needs an admin (or a key with projects:write); the audit trail records it.
+         */
+        delete: operations["deleteProject"];
+        options?: never;
+        head?: never;
+        /**
+         * Change a project
+         * @description Changes the fields named; `null` removes the client, site address or notes.
+         */
+        patch: operations["updateProject"];
+        trace?: never;
+    };
+    "/v1/projects/{id}/stairs": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * List a project’s stairs
+         * @description Newest first, with cursor pagination; each with its stored estimate request.
+         */
+        get: operations["listStairs"];
+        put?: never;
+        /**
+         * Add a stair to a project
+         * @description A named stair and the estimate request it runs (`input`, exactly as POST /v1/estimates takes it; checked now and again at every run). Send `Idempotency-Key` to retry safely.
+         */
+        post: operations["createStair"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/projects/{id}/stairs/{stairId}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Get a stair
+         * @description One stair with its stored estimate request.
+         */
+        get: operations["getStair"];
+        put?: never;
+        post?: never;
+        /**
+         * Delete a stair
+         * @description Deletes the stair and its stored estimates, for good. Needs an admin (or a key with projects:write).
+         */
+        delete: operations["deleteStair"];
+        options?: never;
+        head?: never;
+        /**
+         * Change a stair
+         * @description Changes the name, the notes or the whole estimate request (`input`). Estimates already stored keep the input they ran.
+         */
+        patch: operations["updateStair"];
+        trace?: never;
+    };
+    "/v1/projects/{id}/stairs/{stairId}/estimates": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * List a stair’s stored estimates
+         * @description Newest first, with cursor pagination: each with its headline figures, versions, who ran it and when. GET /v1/estimates/{estimateId} answers the whole result.
+         */
+        get: operations["listStairEstimates"];
+        put?: never;
+        /**
+         * Run a stair and store the estimate
+         * @description Runs the stair’s stored request with the current engine, priced from the organisation’s stored catalog unless the request carries an inline one, and stores the estimate: input, result, engine and catalog versions, who ran it and when. Metered and charged against the cost budget as POST /v1/estimates is. Send `Idempotency-Key` to retry safely.
+         */
+        post: operations["runStair"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/estimates/{estimateId}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Get a stored estimate
+         * @description The estimate as it was run: input, the whole result, engine and catalog versions, who ran it, when, and which estimate it re-ran.
+         */
+        get: operations["getStoredEstimate"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/estimates/{estimateId}/rerun": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Re-run a stored estimate
+         * @description Runs the stored input again with the current engine and catalog, stores the new estimate (`rerunOf` names the old one) and answers it with `changes`: the headline figures old → new (total load, drivers, worst drop, reels, net and gross totals), the engine and catalog versions, and every check whose status changed. Metered and charged as POST /v1/estimates is. Send `Idempotency-Key` to retry safely.
+         */
+        post: operations["rerunEstimate"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/estimates/{estimateId}/wiring-schedule.csv": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Download the wiring schedule (CSV)
+         * @description One row per tread — tread, flight, controller, output, strip length, W, A, lead length, conductor size, drop — then blocks for the circuits (driver, feeder, protection), data runs and sensor cable. Headed by client, site, project, stair and when it was run.
+         */
+        get: operations["getWiringScheduleCsv"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/estimates/{estimateId}/bom.csv": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Download the bill of materials (CSV)
+         * @description SKUs, quantities, unit prices and line totals, then net, tax and gross when a catalog priced the estimate; a line the catalog could not fill says what was missing.
+         */
+        get: operations["getBomCsv"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/estimates/{estimateId}/document.pdf": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Download the printable estimate (PDF)
+         * @description Client and site, the stair, the per-tread table, drivers, cable, reels and cut plan, the priced bill of materials, every check with its suggestion, and the cautions in full. Charged 100 work units against the cost budget.
+         */
+        get: operations["getEstimatePdf"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
         trace?: never;
     };
 }
@@ -3455,21 +3683,23 @@ export interface components {
          *           {
          *             "sku": "HL-S24-10",
          *             "kind": "strip",
-         *             "description": "CV strip 24 V 10 W/m, 5 m reel",
+         *             "description": "CV strip 24 V 10 W/m, 3000 K, 5 m reel",
          *             "unitPrice": 39,
          *             "voltageV": 24,
          *             "powerWPerM": 10,
          *             "cutPitchMm": 50,
+         *             "colourTemperatureK": 3000,
          *             "reelLengthMm": 5000
          *           },
          *           {
          *             "sku": "HL-S12-07",
          *             "kind": "strip",
-         *             "description": "CV strip 12 V 7.2 W/m, 5 m reel",
+         *             "description": "CV strip 12 V 7.2 W/m, 4000 K, 5 m reel",
          *             "unitPrice": 29,
          *             "voltageV": 12,
          *             "powerWPerM": 7.2,
          *             "cutPitchMm": 25,
+         *             "colourTemperatureK": 4000,
          *             "reelLengthMm": 5000
          *           },
          *           {
@@ -4207,6 +4437,11 @@ export interface components {
             powerWPerM: number;
             /** @description Cut pitch, mm. */
             cutPitchMm?: number;
+            /**
+             * @description Correlated colour temperature of white strip, K (kit options can ask for one).
+             * @example 3000
+             */
+            colourTemperatureK?: number;
             /**
              * @description Length of one reel, mm. Default 5000.
              * @default 5000
@@ -5074,21 +5309,23 @@ export interface components {
          *           {
          *             "sku": "HL-S24-10",
          *             "kind": "strip",
-         *             "description": "CV strip 24 V 10 W/m, 5 m reel",
+         *             "description": "CV strip 24 V 10 W/m, 3000 K, 5 m reel",
          *             "unitPrice": 39,
          *             "voltageV": 24,
          *             "powerWPerM": 10,
          *             "cutPitchMm": 50,
+         *             "colourTemperatureK": 3000,
          *             "reelLengthMm": 5000
          *           },
          *           {
          *             "sku": "HL-S12-07",
          *             "kind": "strip",
-         *             "description": "CV strip 12 V 7.2 W/m, 5 m reel",
+         *             "description": "CV strip 12 V 7.2 W/m, 4000 K, 5 m reel",
          *             "unitPrice": 29,
          *             "voltageV": 12,
          *             "powerWPerM": 7.2,
          *             "cutPitchMm": 25,
+         *             "colourTemperatureK": 4000,
          *             "reelLengthMm": 5000
          *           },
          *           {
@@ -5303,21 +5540,23 @@ export interface components {
          *           {
          *             "sku": "HL-S24-10",
          *             "kind": "strip",
-         *             "description": "CV strip 24 V 10 W/m, 5 m reel",
+         *             "description": "CV strip 24 V 10 W/m, 3000 K, 5 m reel",
          *             "unitPrice": 39,
          *             "voltageV": 24,
          *             "powerWPerM": 10,
          *             "cutPitchMm": 50,
+         *             "colourTemperatureK": 3000,
          *             "reelLengthMm": 5000
          *           },
          *           {
          *             "sku": "HL-S12-07",
          *             "kind": "strip",
-         *             "description": "CV strip 12 V 7.2 W/m, 5 m reel",
+         *             "description": "CV strip 12 V 7.2 W/m, 4000 K, 5 m reel",
          *             "unitPrice": 29,
          *             "voltageV": 12,
          *             "powerWPerM": 7.2,
          *             "cutPitchMm": 25,
+         *             "colourTemperatureK": 4000,
          *             "reelLengthMm": 5000
          *           },
          *           {
@@ -5619,6 +5858,11 @@ export interface components {
             stripSkus?: string[];
             /** @description Only strips of these voltages, V DC. */
             voltagesV?: number[];
+            /**
+             * @description Only strips of this colour temperature, K (catalog strips that state `colourTemperatureK`).
+             * @example 3000
+             */
+            colourTemperatureK?: number;
             /** @description Only strips of at least this power per metre, W/m. */
             minPowerWPerM?: number;
             /** @description Only strips of at most this power per metre, W/m. */
@@ -6482,6 +6726,11 @@ export interface components {
             /** @description Cut pitch, mm. */
             cutPitchMm?: number;
             /**
+             * @description Correlated colour temperature of white strip, K (kit options can ask for one).
+             * @example 3000
+             */
+            colourTemperatureK?: number;
+            /**
              * @description Length of one reel, mm. Default 5000.
              * @default 5000
              */
@@ -6789,6 +7038,467 @@ export interface components {
             unitPrice?: number | null;
             /** @description False retires the SKU, true brings it back. */
             active?: boolean;
+        };
+        ProjectPage: {
+            items: components["schemas"]["Project"][];
+            /** @description Pass as `cursor` for the next page; `null` on the last page. */
+            nextCursor: string | null;
+        };
+        /**
+         * @description A job: client, site and notes, holding named stairs.
+         * @example {
+         *       "id": "3b9d2f4e-6a1c-4e8b-9f2d-7c5a1e0b4d63",
+         *       "name": "Alder Row, house 7",
+         *       "clientName": "Kestrel & Finch Builders",
+         *       "siteAddress": "7 Alder Row\nMillbrook",
+         *       "notes": null,
+         *       "stairCount": 1,
+         *       "createdBy": {
+         *         "type": "user",
+         *         "id": "1f6d4c2a-8b3e-4f71-9a0c-5e2b7d9c1a34"
+         *       },
+         *       "createdAt": "2026-12-01T10:00:00.000Z",
+         *       "updatedAt": "2026-12-01T10:00:00.000Z"
+         *     }
+         */
+        Project: {
+            /** Format: uuid */
+            id: string;
+            name: string;
+            clientName: string | null;
+            siteAddress: string | null;
+            notes: string | null;
+            /** @description Stairs the project holds. */
+            stairCount: number;
+            /** @description On the answer that created it: the request id (a replayed answer keeps the first one). */
+            requestId?: string;
+            createdBy: components["schemas"]["Actor"];
+            createdAt: string;
+            updatedAt: string;
+        };
+        /**
+         * @description Who did it: a signed-in user or an API key.
+         * @example {
+         *       "type": "user",
+         *       "id": "1f6d4c2a-8b3e-4f71-9a0c-5e2b7d9c1a34"
+         *     }
+         */
+        Actor: {
+            /** @enum {string} */
+            type: "user" | "api_key";
+            /** @description The user’s id, or the API key’s public key id. */
+            id: string;
+        };
+        /**
+         * @description A new project: its name, and optionally the client, the site address and notes.
+         * @example {
+         *       "name": "Alder Row, house 7",
+         *       "clientName": "Kestrel & Finch Builders",
+         *       "siteAddress": "7 Alder Row\nMillbrook"
+         *     }
+         */
+        CreateProjectRequest: {
+            /**
+             * @description What the installer calls the job.
+             * @example Alder Row, house 7
+             */
+            name: string;
+            /**
+             * @description Who the work is for.
+             * @example Kestrel & Finch Builders
+             */
+            clientName?: string;
+            /**
+             * @description Where the stair is; may span lines.
+             * @example 7 Alder Row
+             *     Millbrook
+             */
+            siteAddress?: string;
+            /** @description Anything the installer wants to keep with the job. */
+            notes?: string;
+        };
+        /**
+         * @description Changes the named fields of a project; the others stay.
+         * @example {
+         *       "notes": "Client asked for warm white."
+         *     }
+         */
+        PatchProjectRequest: {
+            name?: string;
+            /** @description null removes it. */
+            clientName?: string | null;
+            /** @description null removes it. */
+            siteAddress?: string | null;
+            /** @description null removes them. */
+            notes?: string | null;
+        };
+        StairPage: {
+            items: components["schemas"]["Stair"][];
+            /** @description Pass as `cursor` for the next page; `null` on the last page. */
+            nextCursor: string | null;
+        };
+        /**
+         * @description A named stair: the estimate request it runs.
+         * @example {
+         *       "id": "8e2c6a1f-4b7d-4c3e-a9f0-1d5b8e2c7a94",
+         *       "projectId": "3b9d2f4e-6a1c-4e8b-9f2d-7c5a1e0b4d63",
+         *       "name": "Main stair",
+         *       "notes": null,
+         *       "input": {
+         *         "layout": "tread-strips",
+         *         "staircase": {
+         *           "treads": 14,
+         *           "treadWidthMm": 900,
+         *           "riserHeightMm": 185,
+         *           "goingMm": 250
+         *         },
+         *         "treadStrip": {
+         *           "voltageV": 24,
+         *           "powerWPerM": 10,
+         *           "cutPitchMm": 50,
+         *           "sku": "HL-S24-10"
+         *         },
+         *         "controller": {
+         *           "profile": {
+         *             "outputs": 20,
+         *             "maxCurrentPerOutputA": 1.5,
+         *             "dataOutputs": 1,
+         *             "maxPixelsPerOutput": 800,
+         *             "sensorInput": {
+         *               "type": "pnp",
+         *               "supplyV": 5,
+         *               "maxCurrentMa": 12
+         *             },
+         *             "sensorInputs": 2
+         *           }
+         *         },
+         *         "sensors": {
+         *           "motion": {
+         *             "outputType": "pnp",
+         *             "supplyV": 5,
+         *             "currentMa": 8
+         *           }
+         *         }
+         *       },
+         *       "createdAt": "2026-12-01T10:00:00.000Z",
+         *       "updatedAt": "2026-12-01T10:00:00.000Z"
+         *     }
+         */
+        Stair: {
+            /** Format: uuid */
+            id: string;
+            /** Format: uuid */
+            projectId: string;
+            name: string;
+            notes: string | null;
+            input: components["schemas"]["EstimateRequest"];
+            createdAt: string;
+            updatedAt: string;
+            /** @description On the answer that created it: the request id (a replayed answer keeps the first one). */
+            requestId?: string;
+        };
+        /**
+         * @description A named stair of a project: the estimate request it runs.
+         * @example {
+         *       "name": "Main stair",
+         *       "input": {
+         *         "layout": "tread-strips",
+         *         "staircase": {
+         *           "treads": 14,
+         *           "treadWidthMm": 900,
+         *           "riserHeightMm": 185,
+         *           "goingMm": 250
+         *         },
+         *         "treadStrip": {
+         *           "voltageV": 24,
+         *           "powerWPerM": 10,
+         *           "cutPitchMm": 50,
+         *           "sku": "HL-S24-10"
+         *         },
+         *         "controller": {
+         *           "profile": {
+         *             "outputs": 20,
+         *             "maxCurrentPerOutputA": 1.5,
+         *             "dataOutputs": 1,
+         *             "maxPixelsPerOutput": 800,
+         *             "sensorInput": {
+         *               "type": "pnp",
+         *               "supplyV": 5,
+         *               "maxCurrentMa": 12
+         *             },
+         *             "sensorInputs": 2
+         *           }
+         *         },
+         *         "sensors": {
+         *           "motion": {
+         *             "outputType": "pnp",
+         *             "supplyV": 5,
+         *             "currentMa": 8
+         *           }
+         *         }
+         *       }
+         *     }
+         */
+        CreateStairRequest: {
+            /**
+             * @description Which stair of the site this is.
+             * @example Main stair
+             */
+            name: string;
+            notes?: string;
+            input: components["schemas"]["EstimateRequest"];
+        };
+        /**
+         * @description Changes the named fields of a stair.
+         * @example {
+         *       "name": "Stair to the loft"
+         *     }
+         */
+        PatchStairRequest: {
+            name?: string;
+            /** @description null removes them. */
+            notes?: string | null;
+            input?: components["schemas"]["EstimateRequest"];
+        };
+        StoredEstimatePage: {
+            items: components["schemas"]["StoredEstimateSummary"][];
+            /** @description Pass as `cursor` for the next page; `null` on the last page. */
+            nextCursor: string | null;
+        };
+        /** @description One stored estimate in a list: its headline figures (GET the estimate for the whole result). */
+        StoredEstimateSummary: {
+            /** Format: uuid */
+            id: string;
+            /** Format: uuid */
+            projectId: string;
+            /** Format: uuid */
+            stairId: string;
+            /**
+             * @description Semver of the sizing engine that ran it.
+             * @example 2.1.0
+             */
+            engineVersion: string;
+            /** @description Version of the stored catalog that priced it; null when unpriced or priced by an inline catalog. */
+            catalogVersion: number | null;
+            /**
+             * @description Which catalog priced it; null when unpriced.
+             * @enum {string|null}
+             */
+            pricingSource: "inline" | "stored" | null;
+            ranBy: components["schemas"]["Actor"];
+            createdAt: string;
+            /**
+             * Format: uuid
+             * @description The stored estimate this one re-ran; null for a first run.
+             */
+            rerunOf: string | null;
+            summary: components["schemas"]["EstimateSummary"];
+            /** @description Net total of the priced lines; null when unpriced. */
+            bomTotal: number | null;
+            /** @description Gross total (net + tax) when a catalog priced it. */
+            gross: number | null;
+            currency: string | null;
+        };
+        /** @description An estimate as it was run and stored: input, result, engine and catalog versions, who ran it and when. */
+        StoredEstimate: {
+            /** Format: uuid */
+            id: string;
+            /** Format: uuid */
+            projectId: string;
+            /** Format: uuid */
+            stairId: string;
+            /**
+             * @description Semver of the sizing engine that ran it.
+             * @example 2.1.0
+             */
+            engineVersion: string;
+            /** @description Version of the stored catalog that priced it; null when unpriced or priced by an inline catalog. */
+            catalogVersion: number | null;
+            /**
+             * @description Which catalog priced it; null when unpriced.
+             * @enum {string|null}
+             */
+            pricingSource: "inline" | "stored" | null;
+            ranBy: components["schemas"]["Actor"];
+            createdAt: string;
+            /**
+             * Format: uuid
+             * @description The stored estimate this one re-ran; null for a first run.
+             */
+            rerunOf: string | null;
+            input: components["schemas"]["EstimateRequest"];
+            result: components["schemas"]["EstimateResponse"];
+            /** @description On the answer that created it: the request id (a replayed answer keeps the first one). */
+            requestId?: string;
+        };
+        /**
+         * @description Empty: the stair’s stored request is run.
+         * @example {}
+         */
+        RunStairRequest: Record<string, never>;
+        /** @description The new stored estimate (its `rerunOf` names the old one) and what changed. */
+        RerunEstimate: {
+            /** Format: uuid */
+            id: string;
+            /** Format: uuid */
+            projectId: string;
+            /** Format: uuid */
+            stairId: string;
+            /**
+             * @description Semver of the sizing engine that ran it.
+             * @example 2.1.0
+             */
+            engineVersion: string;
+            /** @description Version of the stored catalog that priced it; null when unpriced or priced by an inline catalog. */
+            catalogVersion: number | null;
+            /**
+             * @description Which catalog priced it; null when unpriced.
+             * @enum {string|null}
+             */
+            pricingSource: "inline" | "stored" | null;
+            ranBy: components["schemas"]["Actor"];
+            createdAt: string;
+            /**
+             * Format: uuid
+             * @description The stored estimate this one re-ran; null for a first run.
+             */
+            rerunOf: string | null;
+            input: components["schemas"]["EstimateRequest"];
+            result: components["schemas"]["EstimateResponse"];
+            /** @description On the answer that created it: the request id (a replayed answer keeps the first one). */
+            requestId?: string;
+            changes: components["schemas"]["EstimateChanges"];
+        };
+        /**
+         * @description What a re-run changed: the headline figures, the versions and every check whose status changed.
+         * @example {
+         *       "changed": true,
+         *       "engineVersion": {
+         *         "old": "2.1.0",
+         *         "new": "2.1.0",
+         *         "changed": false
+         *       },
+         *       "catalogVersion": {
+         *         "old": 21,
+         *         "new": 22,
+         *         "changed": true
+         *       },
+         *       "currency": {
+         *         "old": "EUR",
+         *         "new": "EUR",
+         *         "changed": false
+         *       },
+         *       "figures": {
+         *         "totalLoadW": {
+         *           "old": 119,
+         *           "new": 119,
+         *           "changed": false
+         *         },
+         *         "driverCount": {
+         *           "old": 1,
+         *           "new": 1,
+         *           "changed": false
+         *         },
+         *         "worstDropPercent": {
+         *           "old": 2.399,
+         *           "new": 2.399,
+         *           "changed": false
+         *         },
+         *         "reels": {
+         *           "old": 3,
+         *           "new": 3,
+         *           "changed": false
+         *         },
+         *         "bomTotal": {
+         *           "old": 310.4,
+         *           "new": 316.4,
+         *           "changed": true
+         *         },
+         *         "gross": {
+         *           "old": 372.48,
+         *           "new": 379.68,
+         *           "changed": true
+         *         }
+         *       },
+         *       "checks": []
+         *     }
+         */
+        EstimateChanges: {
+            /** @description True when any figure, version or check status differs. */
+            changed: boolean;
+            /** @description Engine version old → new. */
+            engineVersion: {
+                old: string;
+                new: string;
+                changed: boolean;
+            };
+            /** @description Stored catalog version old → new (null: unpriced or an inline catalog). */
+            catalogVersion: {
+                old: number | null;
+                new: number | null;
+                changed: boolean;
+            };
+            /** @description Currency of the totals old → new. */
+            currency: {
+                old: string | null;
+                new: string | null;
+                changed: boolean;
+            };
+            figures: {
+                /** @description Total load, W. */
+                totalLoadW: {
+                    old: number;
+                    new: number;
+                    changed: boolean;
+                };
+                /** @description Drivers. */
+                driverCount: {
+                    old: number;
+                    new: number;
+                    changed: boolean;
+                };
+                /** @description Worst end-to-end voltage drop, %. */
+                worstDropPercent: {
+                    old: number;
+                    new: number;
+                    changed: boolean;
+                };
+                /** @description Reels to buy. */
+                reels: {
+                    old: number;
+                    new: number;
+                    changed: boolean;
+                };
+                /** @description Net total of the priced lines (null: unpriced). */
+                bomTotal: {
+                    old: number | null;
+                    new: number | null;
+                    changed: boolean;
+                };
+                /** @description Gross total, net + tax (null: no tax figures). */
+                gross: {
+                    old: number | null;
+                    new: number | null;
+                    changed: boolean;
+                };
+            };
+            /** @description Every check whose status changed, in the new run’s order (then those gone). */
+            checks: {
+                /** @enum {string} */
+                id: "output-count" | "output-current" | "tread-count-range" | "controller-input-current" | "driver-loading" | "class2-limit" | "cable-drop" | "cable-current" | "cable-run-length" | "cable-min-size" | "pixels-per-output" | "pixels-total" | "refresh-rate" | "sensor-type" | "sensor-current" | "selv-voltage" | "strip-fits-tread" | "sensor-supply" | "rail-grouping" | "piece-fits-reel" | "circuit-protection" | "feeder-derating" | "pixel-current" | "brightness-cap" | "data-line-length" | "data-logic-level" | "sensor-inputs" | "feed-point-current" | "rail-holds-pixels";
+                /**
+                 * @description null: the check was not made before.
+                 * @enum {string|null}
+                 */
+                oldStatus: "pass" | "warn" | "fail" | null;
+                /**
+                 * @description null: the check is no longer made.
+                 * @enum {string|null}
+                 */
+                newStatus: "pass" | "warn" | "fail" | null;
+                /** @description The new run’s message (the old one’s when the check is gone). */
+                message: string;
+            }[];
         };
     };
     responses: never;
@@ -9288,6 +9998,1075 @@ export interface operations {
             };
             /** @description No such SKU in this organisation’s catalog. */
             404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listProjects: {
+        parameters: {
+            query?: {
+                /** @description Items per page (1–200, default 50). */
+                limit?: number;
+                /** @description The `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description A page of projects. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["ProjectPage"];
+                };
+            };
+            /** @description A malformed or unknown query parameter (`validation_failed`) or cursor (`invalid_cursor`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    createProject: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Retry safely: the first answer is replayed for 24 h. */
+                "Idempotency-Key"?: string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["CreateProjectRequest"];
+            };
+        };
+        responses: {
+            /** @description The project, with the `requestId` that created it. */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Project"];
+                };
+            };
+            /** @description The body does not match the schema (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the estimator role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A request with this Idempotency-Key is still running. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Idempotency-Key reused with another body (`idempotency_key_reused`). */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getProject: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The project. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Project"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project in this organisation (`project_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    deleteProject: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Deleted. */
+            204: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content?: never;
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the admin role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project in this organisation (`project_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    updateProject: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["PatchProjectRequest"];
+            };
+        };
+        responses: {
+            /** @description The project after the change. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Project"];
+                };
+            };
+            /** @description The body does not match the schema (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the estimator role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project in this organisation (`project_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listStairs: {
+        parameters: {
+            query?: {
+                /** @description Items per page (1–200, default 50). */
+                limit?: number;
+                /** @description The `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description A page of stairs. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StairPage"];
+                };
+            };
+            /** @description A malformed or unknown query parameter (`validation_failed`) or cursor (`invalid_cursor`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project in this organisation (`project_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    createStair: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Retry safely: the first answer is replayed for 24 h. */
+                "Idempotency-Key"?: string;
+            };
+            path: {
+                /** @description The project’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["CreateStairRequest"];
+            };
+        };
+        responses: {
+            /** @description The stair, with the `requestId` that created it. */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Stair"];
+                };
+            };
+            /** @description The body, or its estimate request, does not match the schema (`validation_failed`, paths under `input.`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the estimator role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project in this organisation (`project_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A request with this Idempotency-Key is still running. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Idempotency-Key reused with another body (`idempotency_key_reused`). */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getStair: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+                /** @description The stair’s id. */
+                stairId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The stair. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Stair"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project (`project_not_found`) or stair (`stair_not_found`) in this organisation. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    deleteStair: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+                /** @description The stair’s id. */
+                stairId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Deleted. */
+            204: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content?: never;
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the admin role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project (`project_not_found`) or stair (`stair_not_found`) in this organisation. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    updateStair: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+                /** @description The stair’s id. */
+                stairId: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["PatchStairRequest"];
+            };
+        };
+        responses: {
+            /** @description The stair after the change. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Stair"];
+                };
+            };
+            /** @description The body does not match the schema (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the estimator role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project (`project_not_found`) or stair (`stair_not_found`) in this organisation. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listStairEstimates: {
+        parameters: {
+            query?: {
+                /** @description Items per page (1–200, default 50). */
+                limit?: number;
+                /** @description The `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path: {
+                /** @description The project’s id. */
+                id: string;
+                /** @description The stair’s id. */
+                stairId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description A page of stored estimates. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StoredEstimatePage"];
+                };
+            };
+            /** @description A malformed or unknown query parameter (`validation_failed`) or cursor (`invalid_cursor`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project (`project_not_found`) or stair (`stair_not_found`) in this organisation. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    runStair: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Retry safely: the first answer is replayed for 24 h. */
+                "Idempotency-Key"?: string;
+            };
+            path: {
+                /** @description The project’s id. */
+                id: string;
+                /** @description The stair’s id. */
+                stairId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: {
+            content: {
+                "application/json": components["schemas"]["RunStairRequest"];
+            };
+        };
+        responses: {
+            /** @description The stored estimate, with the `requestId` that ran it; `Location` names it. */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StoredEstimate"];
+                };
+            };
+            /** @description A body other than `{}` (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the estimator role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such project (`project_not_found`) or stair (`stair_not_found`) in this organisation. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A request with this Idempotency-Key is still running. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The stored request no longer passes today’s rules (`stored_input_invalid`, paths under `input.`), the answer would pass the size ceiling (`answer_too_large`), or the Idempotency-Key was reused with another body. */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getStoredEstimate: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The stored estimate’s id. */
+                estimateId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The stored estimate. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StoredEstimate"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such stored estimate in this organisation (`estimate_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    rerunEstimate: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Retry safely: the first answer is replayed for 24 h. */
+                "Idempotency-Key"?: string;
+            };
+            path: {
+                /** @description The stored estimate’s id. */
+                estimateId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: {
+            content: {
+                "application/json": components["schemas"]["RunStairRequest"];
+            };
+        };
+        responses: {
+            /** @description The new stored estimate with what changed; `Location` names it. */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["RerunEstimate"];
+                };
+            };
+            /** @description A body other than `{}` (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the estimator role or the projects:write scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such stored estimate in this organisation (`estimate_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A request with this Idempotency-Key is still running. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The stored input no longer passes today’s rules (`stored_input_invalid`), the answer would pass the size ceiling (`answer_too_large`), or the Idempotency-Key was reused with another body. */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getWiringScheduleCsv: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The stored estimate’s id. */
+                estimateId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The wiring schedule. */
+            200: {
+                headers: {
+                    /** @description attachment, with a file name from the project, the stair and the day it was run. */
+                    "Content-Disposition": string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/csv": string;
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such stored estimate in this organisation (`estimate_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBomCsv: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The stored estimate’s id. */
+                estimateId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The bill of materials. */
+            200: {
+                headers: {
+                    /** @description attachment, with a file name from the project, the stair and the day it was run. */
+                    "Content-Disposition": string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/csv": string;
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such stored estimate in this organisation (`estimate_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getEstimatePdf: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The stored estimate’s id. */
+                estimateId: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The estimate as a PDF. */
+            200: {
+                headers: {
+                    /** @description attachment, with a file name from the project, the stair and the day it was run. */
+                    "Content-Disposition": string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/pdf": string;
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the viewer role or the projects:read scope (embed keys: never). */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such stored estimate in this organisation (`estimate_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
+            429: {
                 headers: {
                     [name: string]: unknown;
                 };

@@ -21,7 +21,7 @@ describe('treadwise conventions', () => {
         'calc', 'calc cable', 'calc driver', 'calc pixels', 'calc reels', 'calc voltage-drop',
         'catalog', 'catalog export', 'catalog import', 'estimate', 'health',
         'keys', 'keys create', 'keys list', 'keys revoke', 'keys rotate',
-        'login', 'logout', 'usage', 'whoami',
+        'login', 'logout', 'projects', 'projects export', 'projects list', 'projects show', 'usage', 'whoami',
       ].sort(),
     );
   });
