@@ -1,12 +1,69 @@
-/** Where a command writes: stdout for results (pipeable), stderr for progress and errors. */
+import { readFileSync } from 'node:fs';
+import { createInterface } from 'node:readline';
+import envPaths from 'env-paths';
+import { CliError } from './errors.js';
+
+/**
+ * Everything a command touches outside itself: stdout for results (pipeable), stderr for progress
+ * and errors, the network, the environment, stdin and the config directory. Tests pass their own.
+ */
 export interface CliIo {
   out(text: string): void;
   err(text: string): void;
   fetch: typeof fetch;
+  env: Record<string, string | undefined>;
+  /** The whole of stdin (estimate files piped in with `-`). */
+  readStdin(): Promise<string>;
+  /** Colour only on a terminal. */
+  stdoutIsTTY: boolean;
+  /** Where `login` keeps the API URL and key. */
+  configDir(): string;
+  /** Asks on the terminal without echoing; absent when stdin is not a terminal (pipes, tests). */
+  promptSecret?(question: string): Promise<string>;
+}
+
+/** Reads one line from the terminal with echo off, so a pasted key never shows on screen. */
+function promptHidden(question: string): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const rl = createInterface({ input: process.stdin, output: process.stderr, terminal: true });
+    let asked = false;
+    // readline echoes through _writeToOutput: print the question, swallow what is typed.
+    (rl as unknown as { _writeToOutput(s: string): void })._writeToOutput = (s: string) => {
+      if (!asked) process.stderr.write(s);
+      asked = true;
+    };
+    rl.question(question, (answer) => {
+      rl.close();
+      process.stderr.write('\n');
+      resolve(answer.trim());
+    });
+    rl.on('SIGINT', () => {
+      rl.close();
+      reject(new CliError('cancelled'));
+    });
+  });
+}
+
+async function readAll(stream: NodeJS.ReadableStream): Promise<string> {
+  const chunks: Buffer[] = [];
+  for await (const chunk of stream) chunks.push(typeof chunk === 'string' ? Buffer.from(chunk) : chunk);
+  return Buffer.concat(chunks).toString('utf8');
 }
 
 export const processIo: CliIo = {
   out: (text) => process.stdout.write(text.endsWith('\n') ? text : `${text}\n`),
   err: (text) => process.stderr.write(text.endsWith('\n') ? text : `${text}\n`),
   fetch: (...args) => fetch(...args),
+  env: process.env,
+  readStdin: () => readAll(process.stdin),
+  stdoutIsTTY: Boolean(process.stdout.isTTY),
+  // No "-nodejs" suffix: the folder is ~/.config/treadwise on Linux.
+  configDir: () => envPaths('treadwise', { suffix: '' }).config,
+  promptSecret: process.stdin.isTTY ? promptHidden : undefined,
 };
+
+/** A file's text, or stdin's for `-`; a missing file is a readable error. */
+export async function readInput(io: CliIo, file: string): Promise<string> {
+  if (file === '-') return io.readStdin();
+  return readFileSync(file, 'utf8');
+}

@@ -1,4 +1,6 @@
-import { CommanderError } from 'commander';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import { handleError } from '../../cli/errors.js';
 import type { CliIo } from '../../cli/io.js';
 import { createProgram } from '../../cli/program.js';
@@ -9,21 +11,37 @@ export interface CliRun {
   stderr: string;
 }
 
+export interface CliRunOptions {
+  fetch?: typeof fetch;
+  /** The environment the command sees (not the test process's). */
+  env?: Record<string, string | undefined>;
+  stdin?: string;
+  /** Where login is stored; default: a fresh temporary folder, so tests never touch the user's. */
+  configDir?: string;
+  stdoutIsTTY?: boolean;
+}
+
 /** Runs the `treadwise` program in-process the way cli/main.ts does, capturing its output. */
-export async function runCli(args: string[], fetchImpl: typeof fetch = fetch): Promise<CliRun> {
+export async function runCli(args: string[], options: CliRunOptions | typeof fetch = {}): Promise<CliRun> {
+  const opts = typeof options === 'function' ? { fetch: options } : options;
+  const configDir = opts.configDir ?? mkdtempSync(path.join(tmpdir(), 'treadwise-cli-'));
   let stdout = '';
   let stderr = '';
   const io: CliIo = {
     out: (t) => (stdout += t.endsWith('\n') ? t : `${t}\n`),
     err: (t) => (stderr += t.endsWith('\n') ? t : `${t}\n`),
-    fetch: fetchImpl,
+    fetch: opts.fetch ?? fetch,
+    env: opts.env ?? {},
+    readStdin: async () => opts.stdin ?? '',
+    stdoutIsTTY: opts.stdoutIsTTY ?? false,
+    configDir: () => configDir,
   };
   const program = createProgram(io).exitOverride();
   let code = 0;
   try {
     await program.parseAsync(args, { from: 'user' });
   } catch (err) {
-    code = err instanceof CommanderError ? err.exitCode : handleError(err, io);
+    code = handleError(err, io);
   }
   return { code, stdout, stderr };
 }
