@@ -167,20 +167,25 @@ describe('Harbor Lane checkout: the Alder Row stair priced from the shop catalog
     // 23 m of 0.5 mm² at €0.60 = €13.80; 2 m of 1.0 mm² feeder at €1.00 = €2.00 (the feeder carries the driver's limit, see above)
     expect(line('HL-C050')).toMatchObject({ quantity: 23, lineTotal: 13.8 });
     expect(line('HL-C100')).toMatchObject({ quantity: 2, lineTotal: 2 });
-    // one 6.3 A fuse at the driver (smallest R10 rating ≥ 1.25 × 4.96 A, IEC 60127-2, from memory); the catalog has none
-    expect(result.bom.find((l) => l.category === 'fuse')).toMatchObject({ quantity: 1, description: expect.stringMatching(/6\.3 A/) });
-    expect(line('HL-K20')?.quantity).toBe(1);
-    expect(line('HL-M05')?.quantity).toBe(2);
-    expect(line('HL-L01')?.quantity).toBe(1);
+    // one 6.3 A fuse at the driver (smallest R10 rating ≥ 1.25 × 4.96 A, IEC 60127-2, from memory): HL-F06 at €3.20
+    expect(line('HL-F06')).toMatchObject({ quantity: 1, unitPrice: 3.2, lineTotal: 3.2, description: expect.stringMatching(/6\.3 A/) });
+    // prices the demo scenario leaves open, invented for the seeded catalog: HL-K20 €119, HL-M05 €12.50, HL-L01 €9.90
+    expect(line('HL-K20')).toMatchObject({ quantity: 1, lineTotal: 119 });
+    expect(line('HL-M05')).toMatchObject({ quantity: 2, lineTotal: 25 });
+    expect(line('HL-L01')).toMatchObject({ quantity: 1, lineTotal: 9.9 });
+    // 6 m of 3-core 0.5 mm² sensor cable (HL-C3-050, invented) at €0.90 = €5.40
+    expect(line('HL-C3-050')).toMatchObject({ quantity: 6, lineTotal: 5.4 });
   });
 
-  it('totals €310.40 and says the unpriced lines are left out', () => {
-    // hand arithmetic: 117 + 119 + 12.60 + 46 + 13.80 + 2.00 = 310.40 (the 1.0 mm² feeder replaces 0.75 mm²)
-    expect(result.bomTotal).toBe(310.4);
+  it('totals €472.90 with every line priced, and a cart of the same lines', () => {
+    // hand arithmetic: 117 + 119 + 12.60 + 46 + 3.20 + 119 + 25 + 9.90 + 13.80 + 2.00 + 5.40 = 472.90
+    // (the 1.0 mm² feeder replaces 0.75 mm²)
+    expect(result.bomTotal).toBe(472.9);
     expect(result.currency).toBe('EUR');
-    // demo scenario: no prices for HL-K20, HL-M05, HL-L01
-    expect(result.bomTotalComplete).toBe(false);
-    expect(result.bom.filter((l) => l.note === 'catalog gives no price').map((l) => l.sku)).toEqual(['HL-K20', 'HL-M05', 'HL-L01']);
+    expect(result.bomTotalComplete).toBe(true);
+    // the inline catalog states no tax rate: tax 0, gross = net
+    expect(result.pricing).toMatchObject({ source: 'inline', catalogVersion: null, net: 472.9, tax: 0, gross: 472.9, unpricedLines: 0 });
+    expect(result.cart?.reduce((sum, c) => sum + Math.round(c.unitPrice * 100) * c.quantity, 0)).toBe(47290);
   });
 });
 
