@@ -1,11 +1,54 @@
 import type { Routes } from '@angular/router';
 
+import { requireSession } from './core/session-guard.js';
+import { requireRole } from './core/role-guard.js';
+
 export const routes: Routes = [
-  { path: '', pathMatch: 'full', redirectTo: 'status' },
+  // Signed-out pages. The reset and invitation paths are the ones the API's e-mails link to.
   {
-    path: 'status',
-    title: 'Status · Treadwise',
-    loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),
+    path: 'sign-in',
+    title: 'Sign in · Treadwise',
+    loadComponent: () => import('./account/sign-in-page.js').then((m) => m.SignInPage),
   },
-  { path: '**', redirectTo: 'status' },
+  {
+    path: 'forgot-password',
+    title: 'Reset your password · Treadwise',
+    loadComponent: () => import('./account/password-reset-request.js').then((m) => m.PasswordResetRequestPage),
+  },
+  {
+    path: 'reset-password',
+    title: 'Choose a new password · Treadwise',
+    loadComponent: () => import('./account/password-reset-confirm.js').then((m) => m.PasswordResetConfirmPage),
+  },
+  {
+    path: 'accept-invitation',
+    title: 'Join your team · Treadwise',
+    loadComponent: () => import('./account/accept-invitation.js').then((m) => m.AcceptInvitationPage),
+  },
+  // Everything else lives in the signed-in shell.
+  {
+    path: '',
+    canActivate: [requireSession],
+    loadComponent: () => import('./shell/console-shell.js').then((m) => m.ConsoleShell),
+    children: [
+      { path: '', pathMatch: 'full', redirectTo: 'status' },
+      {
+        path: 'keys',
+        title: 'Keys · Treadwise',
+        canActivate: [requireRole('keys:manage')],
+        loadComponent: () => import('./keys/key-list.js').then((m) => m.KeyList),
+      },
+      {
+        path: 'status',
+        title: 'Status · Treadwise',
+        loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),
+      },
+      {
+        path: 'not-allowed',
+        title: 'Not for your role · Treadwise',
+        loadComponent: () => import('./shell/not-allowed.js').then((m) => m.NotAllowed),
+      },
+    ],
+  },
+  { path: '**', redirectTo: '' },
 ];

@@ -12,6 +12,14 @@ const CONSOLE_ICONS: Readonly<Record<string, string>> = {
   status: `<svg viewBox="0 0 24 24"><path ${stroke} d="M3 12.5h4l2.5-6 4 11 2.5-5H21"/></svg>`,
   healthy: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="12" cy="12" r="9"/><path ${stroke} d="m8 12.5 2.8 2.8L16.2 9.6"/></svg>`,
   unavailable: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="12" cy="12" r="9"/><path ${stroke} d="M12 7.5v5.5"/><circle cx="12" cy="16.4" r="1.2" fill="currentColor"/></svg>`,
+  // A key whose bit is a short flight of steps.
+  key: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="7.5" cy="12" r="4"/><path ${stroke} d="M11.5 12H21v3h-2.5v2.5H16V15h-2.5"/></svg>`,
+  person: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="12" cy="8.5" r="4"/><path ${stroke} d="M4.5 20.5c1.2-3.8 4-5.5 7.5-5.5s6.3 1.7 7.5 5.5"/></svg>`,
+  add: `<svg viewBox="0 0 24 24"><path ${stroke} d="M12 5v14M5 12h14"/></svg>`,
+  copy: `<svg viewBox="0 0 24 24"><rect ${stroke} x="8.5" y="8.5" width="11" height="12" rx="2"/><path ${stroke} d="M15.5 8.5V5.5a2 2 0 0 0-2-2h-7a2 2 0 0 0-2 2v10a2 2 0 0 0 2 2h2"/></svg>`,
+  rotate: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4.5 12a7.5 7.5 0 0 1 12.8-5.3L20 9.5M20 4.5v5h-5M19.5 12a7.5 7.5 0 0 1-12.8 5.3L4 14.5M4 19.5v-5h5"/></svg>`,
+  revoke: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="12" cy="12" r="8.5"/><path ${stroke} d="M6 6l12 12"/></svg>`,
+  code: `<svg viewBox="0 0 24 24"><path ${stroke} d="m8.5 7-5 5 5 5M15.5 7l5 5-5 5"/></svg>`,
   refresh: `<svg viewBox="0 0 24 24"><path ${stroke} d="M19.5 12a7.5 7.5 0 1 1-2.2-5.3"/><path ${stroke} d="M19.5 4v4h-4"/></svg>`,
 };
 

@@ -1,0 +1,25 @@
+// The console's wire types, generated from openapi/openapi.json (`npm run openapi`), so every call
+// the console makes is typed by the public API's own document. Type-only: nothing ships.
+import type { components } from '../../../../openapi/api-types.js';
+
+type Schemas = components['schemas'];
+
+export type Session = Schemas['Session'];
+export type SwitchedOrganization = Schemas['SwitchedOrganization'];
+export type OrganizationRef = Schemas['OrganizationRef'];
+export type OrganizationPage = Schemas['OrganizationPage'];
+export type Membership = Schemas['Membership'];
+export type Role = Schemas['Role'];
+export type UserView = Schemas['User'];
+export type SignInRequest = Schemas['SignInRequest'];
+export type PasswordResetRequest = Schemas['PasswordResetRequest'];
+export type PasswordResetConfirm = Schemas['PasswordResetConfirm'];
+export type AcceptInvitationRequest = Schemas['AcceptInvitationRequest'];
+
+export type ApiKey = Schemas['ApiKey'];
+export type ApiKeyPage = Schemas['ApiKeyPage'];
+export type ApiKeyWithToken = Schemas['ApiKeyWithToken'];
+export type CreateApiKeyRequest = Schemas['CreateApiKeyRequest'];
+export type RotateApiKeyRequest = Schemas['RotateApiKeyRequest'];
+export type KeyKind = Schemas['KeyKind'];
+export type Scope = Schemas['Scope'];

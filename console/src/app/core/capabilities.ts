@@ -1,0 +1,15 @@
+import type { Role } from './api-types.js';
+
+/** What the console offers a role. The API decides (api/auth/policy.ts); this only hides what it would refuse. */
+export type Capability = 'keys:manage' | 'sizing:run';
+
+const LEAST_ROLE: Record<Capability, Role> = {
+  'keys:manage': 'admin',
+  'sizing:run': 'estimator',
+};
+
+const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };
+
+export function roleMay(role: Role | null, capability: Capability): boolean {
+  return role !== null && RANK[role] >= RANK[LEAST_ROLE[capability]];
+}

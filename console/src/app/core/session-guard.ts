@@ -1,0 +1,11 @@
+import { inject } from '@angular/core';
+import { type CanActivateFn, Router } from '@angular/router';
+
+import { Auth } from './auth.js';
+
+/** Lets signed-in users through (restoring a stored sign-in first); sends others to sign in. */
+export const requireSession: CanActivateFn = async (_route, state) => {
+  const auth = inject(Auth);
+  if (auth.signedIn() || (await auth.restore())) return true;
+  return inject(Router).createUrlTree(['/sign-in'], { queryParams: { next: state.url } });
+};
