@@ -6,9 +6,12 @@ import { Router, provideRouter } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { beforeEach, describe, expect, it } from 'vitest';
 
+import { AcceptInvitationPage } from './account/accept-invitation.js';
+import { PasswordResetConfirmPage } from './account/password-reset-confirm.js';
+import { SignInPage } from './account/sign-in-page.js';
 import { routes } from './app.routes.js';
 import { provideConsoleIcons } from './core/console-icons.js';
-import { StatusPage } from './status/status-page.js';
+import { REFRESH_TOKEN_STORE, memoryRefreshTokenStore } from './core/refresh-token-store.js';
 
 describe('console routes', () => {
   beforeEach(() => {
@@ -19,14 +22,31 @@ describe('console routes', () => {
         provideHttpClient(),
         provideHttpClientTesting(),
         provideConsoleIcons(),
+        { provide: REFRESH_TOKEN_STORE, useValue: memoryRefreshTokenStore() }, // nobody signed in
       ],
     });
   });
 
-  it.each(['/', '/no-such-page'])('opens the status page for %s', async (url) => {
+  it.each([
+    ['/', '/status'], // the home page is the status page
+    ['/keys', '/keys'],
+    ['/status', '/status'],
+  ])('sends a visitor who is not signed in from %s to sign in', async (url, next) => {
     const harness = await RouterTestingHarness.create();
-    const page = await harness.navigateByUrl(url, StatusPage);
-    expect(page).toBeInstanceOf(StatusPage);
-    expect(TestBed.inject(Router).url).toBe('/status'); // redirects declared in app.routes.ts
+    await harness.navigateByUrl(url, SignInPage);
+    const router = TestBed.inject(Router);
+    expect(router.url.startsWith('/sign-in')).toBe(true);
+    expect(router.parseUrl(router.url).queryParamMap.get('next')).toBe(next); // back there after signing in
+  });
+
+  // The paths of the links the API e-mails (api/services/password-resets.ts and members.ts).
+  it('opens the password page from the reset link', async () => {
+    const harness = await RouterTestingHarness.create();
+    expect(await harness.navigateByUrl('/reset-password?token=abc', PasswordResetConfirmPage)).toBeInstanceOf(PasswordResetConfirmPage);
+  });
+
+  it('opens the invitation page from the invitation link', async () => {
+    const harness = await RouterTestingHarness.create();
+    expect(await harness.navigateByUrl('/accept-invitation?token=abc', AcceptInvitationPage)).toBeInstanceOf(AcceptInvitationPage);
   });
 });

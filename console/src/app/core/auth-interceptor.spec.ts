@@ -25,7 +25,7 @@ describe('authInterceptor', () => {
     TestBed.configureTestingModule({
       providers: [
         provideZonelessChangeDetection(),
-        provideRouter([]),
+        provideRouter([{ path: '**', children: [] }]), // signing out navigates to /sign-in
         provideHttpClient(withInterceptors([authInterceptor])),
         provideHttpClientTesting(),
         { provide: REFRESH_TOKEN_STORE, useValue: memoryRefreshTokenStore() },

@@ -31,7 +31,7 @@ describe('Auth: one refresh at a time across tabs', () => {
     TestBed.configureTestingModule({
       providers: [
         provideZonelessChangeDetection(),
-        provideRouter([]),
+        provideRouter([{ path: '**', children: [] }]), // signing out navigates to /sign-in
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: CLOCK, useValue: () => NOW },
