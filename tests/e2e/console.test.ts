@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { chromium, type BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { signIn } from './console-session.js';
 import { startServerProcess, type ServerProcess } from './server-process.js';
 
 const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
@@ -40,6 +41,7 @@ describe('the console in Chromium', () => {
   it('shows the API and the database as healthy on the status page, in Fira Sans', async () => {
     const page = await browser.newPage();
     await page.goto(server.url, { waitUntil: 'networkidle' });
+    await signIn(page, 'theo@harborlane.test'); // demo-scenario.md: Harbor Lane's estimator
 
     await expect.poll(() => page.locator('[data-testid="api-status"]').innerText(), { timeout: 15_000 }).toContain('Healthy');
     await expect.poll(() => page.locator('[data-testid="db-status"]').innerText(), { timeout: 15_000 }).toContain('Healthy');
@@ -63,10 +65,11 @@ describe('the console in Chromium', () => {
     await page.close();
   });
 
-  it('serves a deep link through the SPA fallback', async () => {
+  it('serves a deep link through the SPA fallback, still signed in after a reload', async () => {
     const page = await browser.newPage();
     const res = await page.goto(`${server.url}/status`, { waitUntil: 'networkidle' });
     expect(res?.status()).toBe(200);
+    // The profile kept the refresh token of the sign-in above; the new page restores the session from it.
     await expect.poll(() => page.locator('[data-testid="api-status"]').innerText(), { timeout: 15_000 }).toContain('Healthy');
     await page.close();
   });
