@@ -91,6 +91,12 @@ describe('the keys screen in Chromium', () => {
     const refused = await sizeWith(token);
     expect(refused.status).toBe(401);
     expect((await refused.json()).code).toBe('credential_revoked'); // api-contract.md credential failure codes
+
+    await page.click('[data-testid="account"]');
+    await page.click('[data-testid="sign-out"]');
+    await page.waitForURL((url) => url.pathname === '/sign-in');
+    await page.goto(`${server.url}/keys`, { waitUntil: 'networkidle' });
+    expect(new URL(page.url()).pathname).toBe('/sign-in'); // the stored sign-in is gone too
   });
 
   it('shows a viewer no keys and no create button', async () => {
@@ -106,5 +112,12 @@ describe('the keys screen in Chromium', () => {
     await page.waitForSelector('[data-testid="not-allowed"]', { timeout: 15_000 });
     expect(await page.locator('[data-testid="create-key"]').count()).toBe(0);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'viewer-phone.png'), fullPage: true });
+
+    await page.click('[data-testid="account"]');
+    await page.click('[data-testid="color-scheme"]'); // system → light
+    await page.click('[data-testid="color-scheme"]'); // light → dark
+    expect(await page.evaluate(() => document.documentElement.style.colorScheme)).toBe('dark');
+    await page.keyboard.press('Escape');
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'viewer-phone-dark.png'), fullPage: true });
   });
 });

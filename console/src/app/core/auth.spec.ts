@@ -2,7 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { EnvironmentInjector, createEnvironmentInjector, provideZonelessChangeDetection } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
+import { Router, provideRouter } from '@angular/router';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 
 import { Auth } from './auth.js';
@@ -105,6 +105,8 @@ describe('Auth: one refresh at a time across tabs', () => {
       .expectOne('/v1/auth/refresh')
       .flush({ title: 'Unauthenticated', status: 401, detail: 'Sign in again.', code: 'invalid_token' }, { status: 401, statusText: 'Unauthorized' });
     expect(await refused).toBe(false);
+    await settle();
+    expect(TestBed.inject(Router).url).toBe('/sign-in'); // signed out mid-session: back to the sign-in page
     expect(tabA.signedIn()).toBe(false);
     expect(tabB.signedIn()).toBe(false);
     expect(store.read()).toBeNull();

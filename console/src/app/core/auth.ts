@@ -98,8 +98,10 @@ export class Auth {
         // 401: the API no longer honours the token (used, revoked, expired). Anything else
         // (network down, 5xx) leaves the sign-in alone so a later try can still succeed.
         if (error instanceof HttpErrorResponse && (error.status === 401 || error.status === 400)) {
+          const midSession = this.state() !== null; // on a page load, the route guard sends the visitor on
           this.end();
           this.channel.post({ type: 'signed-out' });
+          if (midSession) void this.router.navigateByUrl('/sign-in');
           return false;
         }
         throw error;

@@ -14,6 +14,7 @@ import { map } from 'rxjs';
 
 import type { OrganizationRef } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
+import { ColorScheme } from '../core/color-scheme.js';
 import { problemMessage } from '../core/problem-details.js';
 import { destinationsFor } from './navigation.js';
 import { OrganizationsApi } from './organizations.js';
@@ -53,6 +54,7 @@ export class ConsoleShell {
   private readonly organizationsApi = inject(OrganizationsApi);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
+  protected readonly colorScheme = inject(ColorScheme);
 
   protected readonly user = this.auth.user;
   protected readonly organization = this.auth.organization;
