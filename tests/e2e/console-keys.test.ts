@@ -14,10 +14,12 @@ const SHOP_ORIGIN = 'https://shop.harborlane.test'; // demo-scenario.md: Harbor 
 const dataDir = mkdtempSync(path.join(tmpdir(), 'treadwise-e2e-keys-'));
 let server: ServerProcess;
 const contexts: BrowserContext[] = [];
+const profileDirs: string[] = [];
 
 /** A fresh browser profile per user, so one user's stored sign-in never leaks into another's test. */
 async function freshPage(width = 1280): Promise<Page> {
   const profileDir = mkdtempSync(path.join(tmpdir(), 'treadwise-chromium-'));
+  profileDirs.push(profileDir);
   const context = await chromium.launchPersistentContext(profileDir, {
     executablePath: CHROMIUM,
     headless: true,
@@ -46,6 +48,7 @@ afterAll(async () => {
   for (const context of contexts) await context.close();
   await server?.stop();
   rmSync(dataDir, { recursive: true, force: true });
+  for (const dir of profileDirs) rmSync(dir, { recursive: true, force: true });
 });
 
 describe('the keys screen in Chromium', () => {

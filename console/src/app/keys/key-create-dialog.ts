@@ -1,3 +1,4 @@
+import { HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -47,8 +48,8 @@ export class KeyCreateDialog {
   private readonly dialogRef = inject<MatDialogRef<KeyCreateDialog, ApiKeyWithToken>>(MatDialogRef);
   private readonly role = inject<KeyCreateData>(MAT_DIALOG_DATA).role;
   private readonly now = inject(CLOCK);
-  // One per dialog: pressing Create again after a lost answer replays the first creation.
-  private readonly idempotencyKey = globalThis.crypto.randomUUID();
+  /** The last request sent while its outcome is unknown (no answer, or a 5xx the API does not store). */
+  private unanswered: { body: string; idempotencyKey: string } | null = null;
 
   protected readonly form = inject(NonNullableFormBuilder).group(
     {
@@ -94,13 +95,26 @@ export class KeyCreateDialog {
     }
     this.busy.set(true);
     this.failure.set(null);
+    const request = createRequest(this.form.getRawValue());
+    const body = JSON.stringify(request);
+    // Retrying the same request after a lost answer reuses its key, so the API replays the first
+    // creation instead of making a second key. The API stores 4xx answers too, so after one (or for
+    // a changed form) a fresh key lets the corrected request through.
+    const idempotencyKey = this.unanswered?.body === body ? this.unanswered.idempotencyKey : randomKey();
+    this.unanswered = { body, idempotencyKey };
     try {
-      const created = await firstValueFrom(this.keysApi.create(createRequest(this.form.getRawValue()), this.idempotencyKey));
+      const created = await firstValueFrom(this.keysApi.create(request, idempotencyKey));
       this.dialogRef.close(created);
     } catch (error) {
+      if (error instanceof HttpErrorResponse && error.status >= 400 && error.status < 500) this.unanswered = null;
       this.failure.set(problemMessage(error));
     } finally {
       this.busy.set(false);
     }
   }
+}
+
+/** 128 random bits in hex. getRandomValues, unlike randomUUID, also works on a plain-HTTP address. */
+function randomKey(): string {
+  return Array.from(globalThis.crypto.getRandomValues(new Uint8Array(16)), (b) => b.toString(16).padStart(2, '0')).join('');
 }

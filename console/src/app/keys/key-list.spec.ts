@@ -114,7 +114,7 @@ describe('KeyList', () => {
     (overlay().querySelector('[data-testid="create-key-submit"]') as HTMLButtonElement).click();
     await settle();
     const create = http.expectOne((req) => req.method === 'POST' && req.url === '/v1/keys');
-    expect(create.request.headers.get('Idempotency-Key')).toBeTruthy();
+    expect(create.request.headers.get('Idempotency-Key')).toMatch(/^[0-9a-f]{32}$/);
     create.flush(CREATED, { status: 201, statusText: 'Created' });
     await settle();
 
@@ -140,5 +140,58 @@ describe('KeyList', () => {
     http.expectOne(`/v1/keys/${ACTIVE.id}/revoke`).flush({ ...ACTIVE, status: 'revoked', revokedAt: '2026-12-02T09:00:00.000Z' });
     await settle();
     expect(page().querySelector('[data-testid="key-status"]')?.textContent?.trim()).toBe('revoked');
+  });
+
+  async function openCreateDialog(keyName: string): Promise<HTMLButtonElement> {
+    (page().querySelector('[data-testid="create-key"]') as HTMLButtonElement).click();
+    await settle();
+    const name = overlay().querySelector<HTMLInputElement>('[data-testid="key-name"]')!;
+    name.value = keyName;
+    name.dispatchEvent(new Event('input'));
+    return overlay().querySelector('[data-testid="create-key-submit"]') as HTMLButtonElement;
+  }
+
+  const createCall = () => http.expectOne((req) => req.method === 'POST' && req.url === '/v1/keys');
+
+  it('retries a creation whose answer was lost with the same Idempotency-Key, so no second key is made', async () => {
+    await render('admin');
+    await listed([]);
+    const submit = await openCreateDialog('Checkout server');
+    submit.click();
+    await settle();
+    const first = createCall();
+    first.error(new ProgressEvent('error')); // no answer reached the browser
+    await settle();
+    expect(overlay().querySelector('[data-testid="create-failure"]')?.textContent).toContain('could not be reached');
+
+    submit.click();
+    await settle();
+    const second = createCall();
+    expect(second.request.headers.get('Idempotency-Key')).toBe(first.request.headers.get('Idempotency-Key'));
+    second.flush(CREATED, { status: 201, statusText: 'Created' });
+    await settle();
+    expect(overlay().querySelector('[data-testid="new-token"]')).not.toBeNull();
+  });
+
+  it('shows a refusal beside the form and tries again under a new Idempotency-Key (the API replays stored refusals)', async () => {
+    await render('admin');
+    await listed([]);
+    const submit = await openCreateDialog('Checkout server');
+    submit.click();
+    await settle();
+    const first = createCall();
+    first.flush(
+      { title: 'Key limit reached', status: 409, detail: 'The shop plan allows 10 active keys per organisation.', code: 'key_limit_reached' },
+      { status: 409, statusText: 'Conflict' },
+    );
+    await settle();
+    expect(overlay().querySelector('[data-testid="create-failure"]')?.textContent).toContain('allows 10 active keys');
+
+    submit.click();
+    await settle();
+    const second = createCall();
+    expect(second.request.headers.get('Idempotency-Key')).not.toBe(first.request.headers.get('Idempotency-Key'));
+    second.flush(CREATED, { status: 201, statusText: 'Created' });
+    await settle();
   });
 });
