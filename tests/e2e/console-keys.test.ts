@@ -56,6 +56,7 @@ describe('the keys screen in Chromium', () => {
     const page = await freshPage();
     await page.goto(`${server.url}/keys`, { waitUntil: 'networkidle' });
     expect(new URL(page.url()).pathname).toBe('/sign-in'); // not signed in yet
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'sign-in-desktop.png') });
     await signIn(page, 'mira@harborlane.test'); // demo-scenario.md: Harbor Lane's admin
     await page.waitForSelector('[data-testid="key-table"]', { timeout: 15_000 });
     expect(new URL(page.url()).pathname).toBe('/keys'); // back where the visit began
@@ -65,6 +66,7 @@ describe('the keys screen in Chromium', () => {
     await page.click('[data-testid="key-kind"] >> text=Embed');
     await page.fill('[data-testid="key-name"]', 'Stair pages');
     await page.fill('[data-testid="key-origins"]', SHOP_ORIGIN);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'key-create.png') });
     await page.click('[data-testid="create-key-submit"]');
 
     const tokenCell = page.locator('[data-testid="new-token"]');
@@ -117,8 +119,11 @@ describe('the keys screen in Chromium', () => {
     await page.screenshot({ path: path.join(SCREENSHOTS, 'viewer-phone.png'), fullPage: true });
 
     await page.click('[data-testid="account"]');
-    await page.click('[data-testid="color-scheme"]'); // system → light
-    await page.click('[data-testid="color-scheme"]'); // light → dark
+    const schemeItem = page.locator('[data-testid="color-scheme"]');
+    await schemeItem.click(); // system → light
+    await expect.poll(() => schemeItem.innerText()).toContain('light');
+    await schemeItem.click(); // light → dark
+    await expect.poll(() => schemeItem.innerText()).toContain('dark');
     expect(await page.evaluate(() => document.documentElement.style.colorScheme)).toBe('dark');
     await page.keyboard.press('Escape');
     await page.screenshot({ path: path.join(SCREENSHOTS, 'viewer-phone-dark.png'), fullPage: true });
