@@ -1025,6 +1025,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/batches/template.csv": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Download the stair-row CSV template
+         * @description The flat CSV row format of a stair, for files of many stairs: a `ref` column (your reference), then one column per field of the estimate request named by its dotted path (`staircase.treads`, `treadStrip.voltageV`, `controller.profileId`), arrays as indexed columns (`staircase.flights.0.treads`; the template shows two of each, a file may use more). Empty cells are left out, so defaults apply. One example row per layout follows the header. `catalog.*` columns are not listed: rows are priced from the stored catalog. UTF-8 with a byte-order mark, CRLF, RFC 4180 quoting; text that a spreadsheet would run as a formula starts with an apostrophe. The columns are documented in docs/batch-rows.md.
+         */
+        get: operations["getBatchTemplate"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
 }
 export type webhooks = Record<string, never>;
 export interface components {
@@ -12151,6 +12171,53 @@ export interface operations {
                 };
             };
             /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBatchTemplate: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The template CSV. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/csv": string;
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the batches:write scope (embed keys never have it) or the estimator role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After. */
             429: {
                 headers: {
                     [name: string]: unknown;

@@ -50,6 +50,8 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/estimates/options': sizing,
   // Synchronous batches: their own scope (embed keys never get it); estimators run them, metered as sizing.
   'POST /v1/estimates/batch': batchesWrite,
+  // The stair-row CSV template: for whoever may run batches; runs nothing, so not metered as sizing for users.
+  'GET /v1/batches/template.csv': { scope: 'batches:write', role: 'estimator' },
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,

@@ -206,6 +206,10 @@ describe('real answers match the documented schema of their route and status', (
     expectConforms(await request(t.app).post('/v1/estimates/batch').set(bearer(admin)).send({ items }), 'POST', '/v1/estimates/batch', 200, { items });
     const sizingOnly = (await createKey(t, (await createOrganization(t, 'conformance-batch')).id, { scopes: ['sizing:run'] })).token;
     expectConforms(await request(t.app).post('/v1/estimates/batch').set(bearer(sizingOnly)).send({ items }), 'POST', '/v1/estimates/batch', 403);
+    // The template is CSV text (documented as a string); its refusals are problem+json.
+    const template = await request(t.app).get('/v1/batches/template.csv').set(bearer(server)).expect(200);
+    expect(validate(documentedAnswer('GET', '/v1/batches/template.csv', 200, template.headers['content-type']!), template.text)).toEqual([]);
+    expectConforms(await request(t.app).get('/v1/batches/template.csv').set(bearer(sizingOnly)), 'GET', '/v1/batches/template.csv', 403);
   });
 
   it('kit options: ranked designs and an empty stored catalog', async () => {
