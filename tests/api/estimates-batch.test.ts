@@ -1,12 +1,16 @@
 import { randomBytes } from 'node:crypto';
+import fc from 'fast-check';
 import { asc, eq, inArray } from 'drizzle-orm';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { organizations, outboxMessages, plans } from '../../api/db/schema.js';
+import { checkItems } from '../../api/routes/estimates-batch.js';
 import { MAX_BATCH_ITEMS } from '../../shared/schemas/estimate-batch.js';
 import {
   alderRowCornerUnit,
   alderRowTownhouse,
+  alderRowWithRail,
+  estimateExamples,
   harborLaneCatalog,
   harborLaneCheckout,
   quaysideCorridor,
@@ -123,8 +127,10 @@ describe('POST /v1/estimates/batch', () => {
   });
 
   it('takes the whole 500 items in one body, past the usual JSON limit', async () => {
-    const items = new Array(MAX_BATCH_ITEMS).fill(null).map((_, i) => ({ ref: `Plot ${i + 1}`, request: alderRowTownhouse }));
-    expect(Buffer.byteLength(JSON.stringify({ items }))).toBeGreaterThan(200 * 1024);
+    const items = new Array(MAX_BATCH_ITEMS).fill(null).map((_, i) => ({ ref: `Plot ${i + 1}`, request: alderRowWithRail }));
+    // Over the API's default JSON limit (256 kB, JSON_BODY_LIMIT) that every other route keeps.
+    expect(Buffer.byteLength(JSON.stringify({ items }))).toBeGreaterThan(256 * 1024);
+    await request(t.app).post('/v1/estimates').set(bearer(sizingOnlyKey)).send({ ...alderRowWithRail, pad: 'x'.repeat(300 * 1024) }).expect(413);
     const key = await partnerKey();
     const res = await batch(key, { items }).expect(200);
     expect(res.body.summary).toMatchObject({ items: 500, ok: 500, failed: 0 });
@@ -205,6 +211,7 @@ describe('quota units', () => {
     expect(refused.body.detail).toContain('4 of the 10');
     expect(refused.headers['retry-after']).toBeDefined();
     expect(refused.headers.ratelimit).toContain('"monthly-quota"; r=4;');
+    expect(refused.headers.ratelimit.match(/"monthly-quota"/g)).toHaveLength(1); // the admission's own entry was replaced
     expect(await usedThisMonth(reader)).toBe(6);
 
     // What is left is still there, to the unit.
@@ -233,5 +240,32 @@ describe('quota units', () => {
       `Treadwise: ${org.name} has used 80 % of its monthly API calls`,
       `Treadwise: ${org.name} has used its monthly API calls`,
     ]);
+  });
+});
+
+describe('checking items one by one', () => {
+  // Whatever an item holds, it becomes its parsed request or its own validation problem, never a throw.
+  const anything = fc.oneof(
+    fc.anything(),
+    fc.constantFrom(...Object.values(estimateExamples)).chain((example) =>
+      fc.tuple(fc.constantFrom(...Object.keys(example)), fc.anything()).map(([key, value]) => ({ ...example, [key]: value })),
+    ),
+  );
+  it('answers every item, in order, with a parsed request or field errors', () => {
+    fc.assert(
+      fc.property(fc.array(anything, { minLength: 1, maxLength: 8 }), (requests) => {
+        const checked = checkItems({ items: requests.map((request) => ({ request })) });
+        expect(checked.map((c) => c.index)).toEqual(requests.map((_, i) => i));
+        for (const item of checked) {
+          if ('problem' in item) {
+            expect(item.problem.code).toBe('validation_failed');
+            expect(item.problem.errors!.length).toBeGreaterThan(0);
+          } else {
+            expect(item.input.layout).toBeDefined();
+          }
+        }
+      }),
+      { numRuns: 300, seed: 0xba7c },
+    );
   });
 });
