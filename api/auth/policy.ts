@@ -20,6 +20,8 @@ export type Policy =
       embed?: true;
       /** Runs the sizing engine though its scope is another: signed-in users' calls are metered as sizing. */
       sizing?: true;
+      /** Uses one quota unit per item of its body (a synchronous batch): the route grows the admitted unit. */
+      unitsPerItem?: true;
     };
 
 const sizing: Policy = { scope: 'sizing:run', role: 'estimator', embed: true };
@@ -33,7 +35,7 @@ const projectsDelete: Policy = { scope: 'projects:write', role: 'admin' };
 /** Running a stored design: a projects write that runs the engine, metered and charged as sizing. */
 const projectsRun: Policy = { ...projectsWrite, sizing: true };
 /** Batches run the engine item by item: their own scope for keys, estimators for users, metered as sizing. */
-const batchesWrite: Policy = { scope: 'batches:write', role: 'estimator', sizing: true };
+const batchesWrite: Policy = { scope: 'batches:write', role: 'estimator', sizing: true, unitsPerItem: true };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
 export const POLICIES: Record<string, Policy> = {

@@ -88,7 +88,9 @@ export function enforceQuota(deps: AppDeps, services: Services): RequestHandler 
     if (!principal) return next();
     const l = locals(res);
     const at = l.trafficAt ?? deps.clock();
-    const decision = await services.quotas.admit(principal.organizationId, at);
+    const policy = l.routePolicy;
+    const growing = policy !== undefined && !policy.public && policy.unitsPerItem === true;
+    const decision = await services.quotas.admit(principal.organizationId, at, 1, { growing });
     const retryAfterS = advertiseQuota(res, decision, at);
     if (!decision.admitted) {
       l.limitedBy = 'quota_exceeded';
@@ -137,8 +139,8 @@ export function enforceQuotaUnits(deps: AppDeps): (unitsOf: (body: never) => num
     const l = locals(res);
     const ticket = l.quotaTicket;
     if (!ticket) return next(); // not metered (or the client has gone)
-    const extra = unitsOf(res.locals.body as never) - ticket.units;
-    if (extra <= 0) return next();
+    // Grown even by 0 (a batch of one): the quota notices of a growing call are sent here.
+    const extra = Math.max(0, unitsOf(res.locals.body as never) - ticket.units);
     const at = l.trafficAt ?? deps.clock();
     const decision = await ticket.grow(extra);
     // Refused, the call gives back the unit it was admitted with: that one is left too.

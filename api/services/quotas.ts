@@ -195,11 +195,11 @@ export function createQuotaService({
   };
 
   /** Holds `units` more for a call if all of them fit in what is left; none otherwise. */
-  const take = (tally: MonthTally, plan: Plan, units: number, ticket: () => QuotaTicket): QuotaDecision => {
+  const take = (tally: MonthTally, plan: Plan, units: number, ticket: () => QuotaTicket, notify = true): QuotaDecision => {
     const used = tally.base + tally.unsynced + tally.inFlight;
     if (used + units > plan.monthlyQuota) return { admitted: false, ...standing(tally, plan, used) };
     tally.inFlight += units;
-    warnIfDue(tally, plan, used + units);
+    if (notify) warnIfDue(tally, plan, used + units);
     return { admitted: true, ticket: ticket(), ...standing(tally, plan, used + units) };
   };
 
@@ -210,6 +210,7 @@ export function createQuotaService({
       get units() {
         return units;
       },
+      /** Takes `extra` more units (0 allowed: it only sends the notices now due). */
       async grow(extra) {
         // An ended ticket cannot take more: its call has been answered.
         const decision = take(tally, plan, ended ? Number.POSITIVE_INFINITY : extra, () => ticket);
@@ -232,11 +233,15 @@ export function createQuotaService({
   };
 
   return {
-    /** Counts `units` (1 a call) against the month of `at` if all of them fit in what is left. */
-    async admit(organizationId: string, at: Date, units = 1): Promise<QuotaDecision> {
+    /**
+     * Counts `units` (1 a call) against the month of `at` if all of them fit in what is left.
+     * `growing`: the call will grow() its ticket once it knows its size (a batch); the 80 % and
+     * 100 % notices wait for that, so a batch refused whole never sends one.
+     */
+    async admit(organizationId: string, at: Date, units = 1, options: { growing?: boolean } = {}): Promise<QuotaDecision> {
       const plan = await plans.forOrganization(organizationId);
       const tally = await tallyFor(organizationId, monthOf(at));
-      return take(tally, plan, units, () => ticketFor(tally, plan, units));
+      return take(tally, plan, units, () => ticketFor(tally, plan, units), !options.growing);
     },
 
     /** Units used this month (on the injected clock), for the usage API. */

@@ -228,6 +228,10 @@ describe('quota units', () => {
     await batch(token, { items: new Array(7).fill({ request: quaysideCorridor }) }).expect(200);
     await t.app.locals.services.quotas.idle();
     expect(await mailTo(admins)).toEqual([]);
+    // Refused whole, the batch of 5 used nothing: its admission alone (8 of 10) sends no notice.
+    await batch(token, { items: new Array(5).fill({ request: quaysideCorridor }) }).expect(429);
+    await t.app.locals.services.quotas.idle();
+    expect(await mailTo(admins)).toEqual([]);
 
     await batch(token, { items: new Array(2).fill({ request: quaysideCorridor }) }).expect(200); // 9 of 10: past 80 %
     await t.app.locals.services.quotas.idle();
