@@ -15,6 +15,7 @@ import { requestId } from './middleware/request-id.js';
 import { consoleRouter } from './routes/console.js';
 import { docsRouter } from './routes/docs.js';
 import { routeModules } from './routes/index.js';
+import { BATCH_JSON_BODY_LIMIT, ESTIMATE_BATCH_PATH } from './routes/estimates-batch.js';
 import { enabledModules } from './routes/route-module.js';
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
@@ -46,6 +47,8 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   // problem+json too. The body a client decodes is unchanged, so idempotent replays stay identical.
   app.use('/v1', compression({ threshold: COMPRESS_ABOVE_BYTES }));
   app.use('/v1', jsonBodyOnly); // 415 for other types and encodings, before the parser runs
+  // A synchronous batch carries up to 500 stairs: its route alone takes a larger body (parsed once; the next parser skips it).
+  app.use(ESTIMATE_BATCH_PATH, express.json({ limit: BATCH_JSON_BODY_LIMIT, strict: true }));
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 
   const services = createServices(deps);

@@ -197,6 +197,30 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/estimates/batch": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Size up to 500 stairs in one call
+         * @description Each item is an estimate request as `POST /v1/estimates` takes it, with your `ref`; up to 500 items, answered synchronously in the order sent. Every item is validated and sized on its own and answers its own result (`status: ok`) or its own problem (`status: error`, with the `code`, `detail` and `errors[].path` a single estimate would have answered): one bad item never fails the others. `summary` counts the items sized and failed, those whose design fails a check, and how often each check fails.
+         *
+         *     Answer size: by default (`detail=summary`) each sized item carries its headline figures, the ids of its failing and warning checks, and `bomTotal`; `detail=full` adds the whole estimate as `result`, up to a 25165824-byte answer (over it: 422 `answer_too_large`). Pricing is that of `POST /v1/estimates` (inline catalog, else the organisation’s stored one, read once per batch). The body may be up to 4mb.
+         *
+         *     Limits: the batch uses one unit of the monthly quota per item, and is refused whole (429 `quota_exceeded`, nothing sized, no units used) when that is more than what is left. Against the per-key cost budget it costs the sum of its items’ costs (each as a single estimate; 1 for an item refused by validation), charged before any item runs. Larger sets go to batch jobs (`POST /v1/batches`). Every estimate is from nominal data: mains work is for a licensed electrician, and local codes prevail.
+         */
+        post: operations["createEstimateBatch"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/keys": {
         parameters: {
             query?: never;
@@ -993,6 +1017,26 @@ export interface paths {
          * @description Client and site, the stair, the per-tread table, drivers, cable, reels and cut plan, the priced bill of materials, every check with its suggestion, and the cautions in full. Charged 100 work units against the cost budget.
          */
         get: operations["getEstimatePdf"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/batches/template.csv": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Download the stair-row CSV template
+         * @description The flat CSV row format of a stair, for files of many stairs: a `ref` column (your reference), then one column per field of the estimate request named by its dotted path (`staircase.treads`, `treadStrip.voltageV`, `controller.profileId`), arrays as indexed columns (`staircase.flights.0.treads`; the template shows two of each, a file may use more). Empty cells are left out, so defaults apply. One example row per layout follows the header. `catalog.*` columns are not listed: rows are priced from the stored catalog. UTF-8 with a byte-order mark, CRLF, RFC 4180 quoting; text that a spreadsheet would run as a formula starts with an apostrophe. The columns are documented in docs/batch-rows.md.
+         */
+        get: operations["getBatchTemplate"];
         put?: never;
         post?: never;
         delete?: never;
@@ -5897,6 +5941,974 @@ export interface components {
              */
             basis?: "gross" | "net";
         };
+        /** @description Each item’s own result or problem, and counts over the batch. */
+        EstimateBatchResponse: {
+            /** @description Semver of the sizing engine that produced the result. */
+            engineVersion: string;
+            /** @enum {string} */
+            detail: "summary" | "full";
+            summary: components["schemas"]["EstimateBatchSummary"];
+            /** @description One answer per item, in the order sent. */
+            items: (components["schemas"]["EstimateBatchOkItem"] | components["schemas"]["EstimateBatchErrorItem"])[];
+        };
+        /** @description Counts over the whole batch. */
+        EstimateBatchSummary: {
+            items: number;
+            /** @description Items sized (their designs may still fail checks). */
+            ok: number;
+            /** @description Items answered with a problem. */
+            failed: number;
+            /** @description Sized items with at least one failing check. */
+            withFailingChecks: number;
+            /** @description For each check id that fails somewhere, how many items it fails in; most first. */
+            failingChecks: {
+                id: string;
+                items: number;
+            }[];
+        };
+        /** @description A sized item. */
+        EstimateBatchOkItem: {
+            /** @description Position of the item in the request, from 0. */
+            index: number;
+            /** @description The item’s `ref`, or null when it sent none. */
+            ref: string | null;
+            /**
+             * @description discriminator enum property added by openapi-typescript
+             * @enum {string}
+             */
+            status: "ok";
+            layout: string;
+            summary: components["schemas"]["EstimateSummary"];
+            /** @description Ids of the checks that fail (a design that breaks a limit is still `ok`). */
+            failingChecks: string[];
+            /** @description Ids of the checks that warn. */
+            warningChecks: string[];
+            bomTotal?: number;
+            currency?: string;
+            /**
+             * @description The whole estimate, with `detail=full` only.
+             * @example {
+             *       "engineVersion": "2.1.0",
+             *       "layout": "tread-strips",
+             *       "summary": {
+             *         "treads": 14,
+             *         "litTreads": 14,
+             *         "controllers": 1,
+             *         "totalLoadW": 119,
+             *         "driverCount": 1,
+             *         "longestRunM": 2.677,
+             *         "longestFeederM": 2,
+             *         "worstDropPercent": 2.399,
+             *         "motionSensors": 2,
+             *         "reels": 3,
+             *         "checks": {
+             *           "pass": 16,
+             *           "warn": 1,
+             *           "fail": 0
+             *         }
+             *       },
+             *       "treads": [
+             *         {
+             *           "index": 1,
+             *           "stripLengthMm": 850,
+             *           "powerW": 8.5,
+             *           "currentA": 0.3542,
+             *           "controller": 1,
+             *           "output": 1,
+             *           "cableKind": "tread-lead",
+             *           "cableLengthM": 2.366,
+             *           "dropPercent": 0.34,
+             *           "crossSectionMm2": 0.5,
+             *           "pathDropPercent": 2.355
+             *         },
+             *         {
+             *           "index": 7,
+             *           "stripLengthMm": 850,
+             *           "powerW": 8.5,
+             *           "currentA": 0.3542,
+             *           "controller": 1,
+             *           "output": 7,
+             *           "cableKind": "tread-lead",
+             *           "cableLengthM": 0.5,
+             *           "dropPercent": 0.072,
+             *           "crossSectionMm2": 0.5,
+             *           "pathDropPercent": 2.086
+             *         },
+             *         {
+             *           "index": 14,
+             *           "stripLengthMm": 850,
+             *           "powerW": 8.5,
+             *           "currentA": 0.3542,
+             *           "controller": 1,
+             *           "output": 14,
+             *           "cableKind": "tread-lead",
+             *           "cableLengthM": 2.677,
+             *           "dropPercent": 0.385,
+             *           "crossSectionMm2": 0.5,
+             *           "pathDropPercent": 2.399
+             *         }
+             *       ],
+             *       "outputs": {
+             *         "controllers": 1,
+             *         "controllerTreads": [
+             *           {
+             *             "controller": 1,
+             *             "firstTread": 1,
+             *             "lastTread": 14,
+             *             "atTread": 7,
+             *             "currentA": 4.9583
+             *           }
+             *         ],
+             *         "cvOutputsPerController": 20,
+             *         "maxCurrentPerOutputA": 1.5,
+             *         "maxOutputCurrentA": 0.3542,
+             *         "cv": [
+             *           {
+             *             "controller": 1,
+             *             "output": 1,
+             *             "treads": [
+             *               1
+             *             ],
+             *             "currentA": 0.3542,
+             *             "withinLimit": true
+             *           },
+             *           {
+             *             "controller": 1,
+             *             "output": 2,
+             *             "treads": [
+             *               2
+             *             ],
+             *             "currentA": 0.3542,
+             *             "withinLimit": true
+             *           }
+             *         ],
+             *         "dataOutputsPerController": 1,
+             *         "data": []
+             *       },
+             *       "drivers": [
+             *         {
+             *           "voltageV": 24,
+             *           "loads": [
+             *             "tread strips"
+             *           ],
+             *           "loadW": 119,
+             *           "currentA": 4.9583,
+             *           "requiredRatingW": 148.75,
+             *           "maxLoadingPercent": 80,
+             *           "drivers": [
+             *             {
+             *               "ratingW": 150,
+             *               "count": 1,
+             *               "loadW": 119,
+             *               "loadingPercent": 79.3333
+             *             }
+             *           ],
+             *           "driverCount": 1,
+             *           "totalRatingW": 150,
+             *           "loadingPercent": 79.3333,
+             *           "maxSupplyW": null,
+             *           "circuits": 1,
+             *           "ratingsSource": "default"
+             *         }
+             *       ],
+             *       "circuits": [
+             *         {
+             *           "circuit": 1,
+             *           "name": "controller 1",
+             *           "voltageV": 24,
+             *           "loads": [
+             *             "tread strips"
+             *           ],
+             *           "loadW": 119,
+             *           "currentA": 4.9583,
+             *           "driver": {
+             *             "ratingW": 150,
+             *             "loadingPercent": 79.3333,
+             *             "currentLimitA": 9.375
+             *           },
+             *           "driverPositionM": 1.866,
+             *           "feeds": 1,
+             *           "worstPathDropPercent": 2.399,
+             *           "fusesA": [
+             *             6.3
+             *           ],
+             *           "protectedBy": "driver current limit"
+             *         }
+             *       ],
+             *       "feeder": {
+             *         "lengthM": 2,
+             *         "lengthDefaulted": true,
+             *         "runs": [
+             *           {
+             *             "voltageV": 24,
+             *             "to": "controller",
+             *             "controller": 1,
+             *             "count": 1,
+             *             "currentA": 4.9583,
+             *             "lengthM": 2,
+             *             "dropV": 0.4834,
+             *             "dropPercent": 2.014,
+             *             "currentRatingA": 10,
+             *             "maxInputCurrentA": null,
+             *             "circuit": 1,
+             *             "powerInput": null,
+             *             "feedPoint": null,
+             *             "positionM": 1.866,
+             *             "alongRunM": 0,
+             *             "pathDropPercent": 2.399,
+             *             "fuseA": 6.3,
+             *             "protectedBy": "driver current limit",
+             *             "crossSectionMm2": 1
+             *           }
+             *         ]
+             *       },
+             *       "pixels": {
+             *         "rail": null,
+             *         "treads": null,
+             *         "railGrouping": null
+             *       },
+             *       "reels": {
+             *         "treads": {
+             *           "reels": 3,
+             *           "reelLengthMm": 5000,
+             *           "plan": [
+             *             {
+             *               "reel": 1,
+             *               "piecesMm": [
+             *                 850,
+             *                 850,
+             *                 850,
+             *                 850,
+             *                 850
+             *               ],
+             *               "pieceIndexes": [
+             *                 0,
+             *                 1,
+             *                 2,
+             *                 3,
+             *                 4
+             *               ],
+             *               "wasteMm": 750
+             *             },
+             *             {
+             *               "reel": 2,
+             *               "piecesMm": [
+             *                 850,
+             *                 850,
+             *                 850,
+             *                 850,
+             *                 850
+             *               ],
+             *               "pieceIndexes": [
+             *                 5,
+             *                 6,
+             *                 7,
+             *                 8,
+             *                 9
+             *               ],
+             *               "wasteMm": 750
+             *             },
+             *             {
+             *               "reel": 3,
+             *               "piecesMm": [
+             *                 850,
+             *                 850,
+             *                 850,
+             *                 850
+             *               ],
+             *               "pieceIndexes": [
+             *                 10,
+             *                 11,
+             *                 12,
+             *                 13
+             *               ],
+             *               "wasteMm": 1600
+             *             }
+             *           ],
+             *           "totalWasteMm": 3100,
+             *           "lowerBoundReels": 3,
+             *           "provenOptimal": true,
+             *           "method": "identical-pieces",
+             *           "unplaceableTreads": [],
+             *           "sku": "HL-S24-10"
+             *         },
+             *         "rail": null
+             *       },
+             *       "cables": [
+             *         {
+             *           "cores": 2,
+             *           "use": "tread leads",
+             *           "runs": 14,
+             *           "totalLengthM": 22.239,
+             *           "orderLengthM": 23,
+             *           "crossSectionMm2": 0.5
+             *         },
+             *         {
+             *           "cores": 2,
+             *           "use": "feeders",
+             *           "runs": 1,
+             *           "totalLengthM": 2,
+             *           "orderLengthM": 2,
+             *           "crossSectionMm2": 1
+             *         }
+             *       ],
+             *       "sensors": {
+             *         "motionSensors": 2,
+             *         "placements": [
+             *           {
+             *             "role": "foot",
+             *             "flight": 1,
+             *             "tread": 1,
+             *             "cableLengthM": 2.366
+             *           },
+             *           {
+             *             "role": "head",
+             *             "flight": 1,
+             *             "tread": 14,
+             *             "cableLengthM": 2.677
+             *           }
+             *         ],
+             *         "motion": {
+             *           "outputType": "pnp",
+             *           "supplyV": 5,
+             *           "currentMa": 8,
+             *           "source": "request"
+             *         },
+             *         "controllerInput": {
+             *           "type": "pnp",
+             *           "supplyV": 5,
+             *           "maxCurrentMa": 12,
+             *           "source": "profile"
+             *         },
+             *         "typeMatch": true,
+             *         "needsInterface": false,
+             *         "supplyMatch": true,
+             *         "currentOk": true,
+             *         "totalSensorCurrentMa": 16,
+             *         "daylightSensors": 1,
+             *         "daylightCutoffLux": 50,
+             *         "daylightCutoffDefaulted": true,
+             *         "sensorCableM": 5.043
+             *       },
+             *       "bom": [
+             *         {
+             *           "category": "strip",
+             *           "description": "CV strip 24 V 10 W/m, cut pitch 50 mm, 5 m reel",
+             *           "quantity": 3,
+             *           "unit": "reel",
+             *           "sku": "HL-S24-10"
+             *         },
+             *         {
+             *           "category": "driver",
+             *           "description": "LED driver 24 V 150 W, one per circuit (circuit 1); never parallel their outputs",
+             *           "quantity": 1,
+             *           "unit": "pcs"
+             *         },
+             *         {
+             *           "category": "fuse",
+             *           "description": "Inline fuse holder with 6.3 A fuse, at the driver output of a feeder",
+             *           "quantity": 1,
+             *           "unit": "pcs"
+             *         },
+             *         {
+             *           "category": "controller",
+             *           "description": "Stair controller (profile sent inline)",
+             *           "quantity": 1,
+             *           "unit": "pcs"
+             *         },
+             *         {
+             *           "category": "motion-sensor",
+             *           "description": "PIR motion sensor, PNP output, 5 V, 8 mA",
+             *           "quantity": 2,
+             *           "unit": "pcs"
+             *         },
+             *         {
+             *           "category": "daylight-sensor",
+             *           "description": "Ambient-light sensor for the 50 lx cut-off",
+             *           "quantity": 1,
+             *           "unit": "pcs"
+             *         },
+             *         {
+             *           "category": "cable",
+             *           "description": "2-core copper cable 0.5 mm²",
+             *           "quantity": 23,
+             *           "unit": "m"
+             *         },
+             *         {
+             *           "category": "cable",
+             *           "description": "2-core copper cable 1 mm²",
+             *           "quantity": 2,
+             *           "unit": "m"
+             *         },
+             *         {
+             *           "category": "cable",
+             *           "description": "3-core sensor cable (supply, 0 V, signal) 0.5 mm², 2 runs",
+             *           "quantity": 6,
+             *           "unit": "m"
+             *         }
+             *       ],
+             *       "checks": [
+             *         {
+             *           "id": "tread-count-range",
+             *           "status": "pass",
+             *           "message": "14 treads: the profile sets no tread limit.",
+             *           "value": 14,
+             *           "limit": "1 or more",
+             *           "unit": "treads",
+             *           "reference": "controller profile"
+             *         },
+             *         {
+             *           "id": "strip-fits-tread",
+             *           "status": "pass",
+             *           "message": "850 mm (17 × 50 mm) fits the 860 mm between the end clearances.",
+             *           "value": 850,
+             *           "limit": 860,
+             *           "unit": "mm",
+             *           "reference": "strip cut only at its marked cut points (strip datasheet); end clearance 20 mm by default (common practice, no published source)"
+             *         },
+             *         {
+             *           "id": "output-count",
+             *           "status": "pass",
+             *           "message": "14 treads use 14 of the controller's 20 outputs.",
+             *           "value": 14,
+             *           "limit": 20,
+             *           "unit": "outputs",
+             *           "reference": "controller profile"
+             *         },
+             *         {
+             *           "id": "output-current",
+             *           "status": "pass",
+             *           "message": "The busiest output carries 0.354 A of the 1.5 A allowed.",
+             *           "value": 0.3542,
+             *           "limit": 1.5,
+             *           "unit": "A",
+             *           "reference": "controller profile"
+             *         },
+             *         {
+             *           "id": "controller-input-current",
+             *           "status": "warn",
+             *           "message": "The profile gives no maximum input current; 4.958 A of strip current passes through controller 1.",
+             *           "value": 4.9583,
+             *           "limit": null,
+             *           "unit": "A",
+             *           "reference": "controller profile",
+             *           "suggestion": "Confirm on the controller's datasheet that its input accepts 4.96 A, and add maxInputCurrentA to the profile."
+             *         },
+             *         {
+             *           "id": "driver-loading",
+             *           "status": "pass",
+             *           "message": "24 V, one driver per circuit — controller 1: 150 W for 119 W (79.3 %), within 80 %.",
+             *           "value": 79.3333,
+             *           "limit": 80,
+             *           "unit": "%",
+             *           "reference": "common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load"
+             *         },
+             *         {
+             *           "id": "selv-voltage",
+             *           "status": "pass",
+             *           "message": "The highest rail is 24 V DC, within SELV and the 60 V limit for exposed live parts.",
+             *           "value": 24,
+             *           "limit": 60,
+             *           "unit": "V",
+             *           "reference": "IEC 61140 / IEC 60364-4-41: SELV ≤ 120 V ripple-free DC; IEC 60598-1 8.2.3: exposed live parts of Class III luminaires ≤ 60 V ripple-free DC"
+             *         },
+             *         {
+             *           "id": "circuit-protection",
+             *           "status": "pass",
+             *           "message": "Every feeder is protected: fuses at the drivers 6.3 A; 1 of 1 feeders also carry their driver's full current limit.",
+             *           "value": 10,
+             *           "limit": null,
+             *           "unit": "A",
+             *           "reference": "IEC 60364-4-43 433.1: I_B ≤ I_n ≤ I_z (from memory); I_n ≥ 1.25 × I_B as NEC 210.20(A) asks for continuous loads; a fuse opens at about 2.1 × I_n (IEC 60127-2, from memory), so a driver limited below that never blows it and the cable must carry the driver’s limit"
+             *         },
+             *         {
+             *           "id": "cable-drop",
+             *           "status": "pass",
+             *           "message": "Worst drop from a driver to a strip 2.399 % (circuit 1, to controller 1: feeder 2.014 % (1 mm², 2 m) + 0.385 % on the lead to tread 14), within the 5 % end-to-end limit.",
+             *           "value": 2.399,
+             *           "limit": 5,
+             *           "unit": "%",
+             *           "reference": "IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1); series drop driver → feeder → lead → strip; limit: IEC 60364-7-715 / BS 7671 715.525: ≤ 5 % from the ELV converter (driver) to the farthest luminaire, end to end (from memory); IEC 60364-5-52 Table G.52.1, informative: lighting 3 % public / 6 % private supply"
+             *         },
+             *         {
+             *           "id": "cable-current",
+             *           "status": "pass",
+             *           "message": "Every cable carries its current; the most loaded is the feeder to controller 1: 4.958 A on 1 mm² rated 10 A.",
+             *           "value": 4.9583,
+             *           "limit": 10,
+             *           "unit": "A",
+             *           "reference": "BS 7671 Appendix 4 Table 4F3A, from memory"
+             *         },
+             *         {
+             *           "id": "cable-run-length",
+             *           "status": "pass",
+             *           "message": "Longest lead from a controller 2.677 m (the lead to tread 14), within 10 m.",
+             *           "value": 2.677,
+             *           "limit": 10,
+             *           "unit": "m",
+             *           "reference": "common practice, no published source: controller-to-tread runs of 10 m or less"
+             *         },
+             *         {
+             *           "id": "cable-min-size",
+             *           "status": "pass",
+             *           "message": "The thinnest cable chosen is 0.5 mm², not below 0.5 mm².",
+             *           "value": 0.5,
+             *           "limit": 0.5,
+             *           "unit": "mm²",
+             *           "reference": "common practice, no published source: copper no thinner than 0.5 mm²"
+             *         },
+             *         {
+             *           "id": "sensor-type",
+             *           "status": "pass",
+             *           "message": "PNP sensors on a PNP input.",
+             *           "value": "pnp",
+             *           "limit": "pnp",
+             *           "unit": "",
+             *           "reference": "PNP sources, NPN sinks (three-wire DC sensor outputs, IEC 60947-5-2); stair-controller inputs are usually PNP (common practice, no published source)"
+             *         },
+             *         {
+             *           "id": "sensor-current",
+             *           "status": "pass",
+             *           "message": "Each sensor draws 8 mA of the 12 mA an input gives.",
+             *           "value": 8,
+             *           "limit": 12,
+             *           "unit": "mA",
+             *           "reference": "controller profile"
+             *         },
+             *         {
+             *           "id": "sensor-supply",
+             *           "status": "pass",
+             *           "message": "Sensors rated 5 V on the controller's 5 V sensor supply.",
+             *           "value": 5,
+             *           "limit": 5,
+             *           "unit": "V",
+             *           "reference": "controller profile"
+             *         },
+             *         {
+             *           "id": "piece-fits-reel",
+             *           "status": "pass",
+             *           "message": "Each 850 mm piece comes from one 5000 mm reel without a joint.",
+             *           "value": 850,
+             *           "limit": 5000,
+             *           "unit": "mm",
+             *           "reference": "common practice, no published source"
+             *         },
+             *         {
+             *           "id": "sensor-inputs",
+             *           "status": "pass",
+             *           "message": "2 motion sensors on 2 sensor inputs.",
+             *           "value": 2,
+             *           "limit": 2,
+             *           "unit": "sensors",
+             *           "reference": "controller profile"
+             *         }
+             *       ],
+             *       "cautions": [
+             *         {
+             *           "code": "mains-work",
+             *           "message": "Treadwise sizes the low-voltage side only. Connecting drivers to the mains is work for a licensed electrician, and the local wiring rules (NEC, IEC 60364 or the national rules) and the installer’s judgement take precedence over these figures."
+             *         },
+             *         {
+             *           "code": "first-power-on",
+             *           "message": "Before the first power-on, check every run for short circuits and every strip and sensor lead for polarity; a reversed sensor lead is a common fault."
+             *         },
+             *         {
+             *           "code": "driver-heat",
+             *           "message": "Give drivers room to breathe: mount them where air moves and derate them as their datasheets ask when the space runs warm."
+             *         },
+             *         {
+             *           "code": "one-supply-per-circuit",
+             *           "message": "Each driver feeds only its own circuit: never connect driver outputs in parallel (unless the datasheet allows it), never join the + of two circuits, and fit each feeder’s fuse at its driver as the circuits list gives it."
+             *         },
+             *         {
+             *           "code": "not-emergency-lighting",
+             *           "message": "Motion-switched stair lights are orientation lighting, not emergency or escape-route lighting (EN 1838 and the building’s emergency lighting design cover that)."
+             *         },
+             *         {
+             *           "code": "nominal-data",
+             *           "message": "Every figure is an estimate from nominal data; confirm currents, cut pitches, feed lengths and cable ratings with the datasheets of the parts actually bought."
+             *         }
+             *       ],
+             *       "standby": {
+             *         "controllerW": 0.5,
+             *         "sensorsW": 0.13,
+             *         "driversW": 0.5,
+             *         "pixelIcsW": 0,
+             *         "totalW": 1.13,
+             *         "litMinutesPerDay": 30,
+             *         "litLoadW": 119,
+             *         "standbyKWhPerYear": 9.693,
+             *         "litKWhPerYear": 21.924,
+             *         "totalKWhPerYear": 31.616,
+             *         "defaultsUsed": [
+             *           "controllerW",
+             *           "driverNoLoadW",
+             *           "darkPixelMa",
+             *           "daylightSensorW",
+             *           "litMinutesPerDay"
+             *         ]
+             *       },
+             *       "trace": [
+             *         {
+             *           "quantity": "default cable.feederLengthM",
+             *           "value": 2,
+             *           "unit": "m",
+             *           "formula": "not given; default used",
+             *           "inputs": {},
+             *           "reference": "driver mounted beside the controller (Treadwise assumption, no published source)"
+             *         },
+             *         {
+             *           "quantity": "stripLengthMm",
+             *           "value": 850,
+             *           "unit": "mm",
+             *           "formula": "floor((treadWidthMm − 2 × endClearanceMm) / cutPitchMm) × cutPitchMm; at least one pitch",
+             *           "inputs": {
+             *             "treadWidthMm": 900,
+             *             "cutPitchMm": 50,
+             *             "endClearanceMm": 20,
+             *             "endClearanceDefaulted": true,
+             *             "fits": true
+             *           },
+             *           "reference": "strip cut only at its marks; end clearance 20 mm by default (common practice, no published source)"
+             *         },
+             *         {
+             *           "quantity": "treadStrips.totalLoadW",
+             *           "value": 119,
+             *           "unit": "W",
+             *           "formula": "Σ tread powers (every tread the same width)",
+             *           "inputs": {
+             *             "treads": 14,
+             *             "litTreads": 14,
+             *             "treadPowerW": 8.5
+             *           },
+             *           "reference": "arithmetic"
+             *         },
+             *         {
+             *           "quantity": "longestRunM",
+             *           "value": 2.677,
+             *           "unit": "m",
+             *           "formula": "|k − c| × stepLengthM + serviceAllowanceM",
+             *           "inputs": {
+             *             "tread": 14,
+             *             "controllerTread": 7,
+             *             "serviceAllowanceM": 0.5,
+             *             "serviceAllowanceDefaulted": true,
+             *             "landings": 0,
+             *             "practiceLimitM": 10
+             *           },
+             *           "reference": "stair geometry; 10 m practice limit (common practice, no published source)"
+             *         },
+             *         {
+             *           "quantity": "24 V rail: requiredRatingW",
+             *           "value": 148.75,
+             *           "unit": "W",
+             *           "formula": "P_load / (maxLoadingPercent / 100)",
+             *           "inputs": {
+             *             "loadW": 119,
+             *             "maxLoadingPercent": 80
+             *           },
+             *           "reference": "common practice, no published source (80 % loading); closest published rule NEC 210.19(A)(1) / 215.2(A)(1): 125 % of a continuous load"
+             *         },
+             *         {
+             *           "quantity": "treads.reels",
+             *           "value": 3,
+             *           "unit": "reels",
+             *           "formula": "equal pieces: ceil(pieces / floor(usable reel / piece))",
+             *           "inputs": {
+             *             "pieces": 14,
+             *             "reelLengthMm": 5000,
+             *             "reelLengthDefaulted": false,
+             *             "cutPitchMm": 50,
+             *             "usableReelLengthMm": 5000,
+             *             "provenOptimal": true
+             *           },
+             *           "reference": "one-dimensional cutting stock without joints; 5 m reel by default (common practice, no published source)"
+             *         },
+             *         {
+             *           "quantity": "worstDropPercent",
+             *           "value": 2.014,
+             *           "unit": "%",
+             *           "formula": "Vd = 2 · L · I · R′; Vd / V · 100",
+             *           "inputs": {
+             *             "run": "the feeder to controller 1",
+             *             "lengthM": 2,
+             *             "currentA": 4.9583,
+             *             "size": "1 mm²",
+             *             "resistanceOhmPerKm": 24.375,
+             *             "dropV": 0.4834
+             *           },
+             *           "reference": "IEC 60364-5-52 Annex G, two-wire DC loop (cos φ = 1)"
+             *         }
+             *       ]
+             *     }
+             */
+            result?: {
+                /** @description Semver of the sizing engine that produced the result. */
+                engineVersion: string;
+                /** @enum {string} */
+                layout: "tread-strips" | "rail-pixels" | "treads-and-rail" | "tread-pixels";
+                summary: components["schemas"]["EstimateSummary"];
+                /** @description Wiring schedule, foot first; empty for a corridor. */
+                treads: components["schemas"]["EstimateTread"][];
+                /** @description Added field: wiring schedule of the lit landings, when the stair has any. */
+                landings?: components["schemas"]["EstimateLanding"][];
+                outputs: components["schemas"]["EstimateOutputs"];
+                drivers: components["schemas"]["EstimateRailSupply"][];
+                /** @description Added field: one supply per circuit — each circuit’s driver, load, feeders and protection. */
+                circuits: components["schemas"]["EstimateCircuit"][];
+                feeder: components["schemas"]["EstimateFeeder"];
+                pixels: components["schemas"]["EstimatePixels"];
+                reels: components["schemas"]["EstimateReelsResult"];
+                cables: components["schemas"]["EstimateCableLine"][];
+                sensors: components["schemas"]["EstimateSensorsResult"];
+                bom: components["schemas"]["BomLine"][];
+                /** @description Sum of the priced lines, computed in integer minor units (with a catalog). */
+                bomTotal?: number;
+                /** @description false when some lines have no catalog price. */
+                bomTotalComplete?: boolean;
+                currency?: string;
+                /**
+                 * @description With a catalog: which one priced the estimate, and the totals net, tax and gross.
+                 * @example {
+                 *       "source": "stored",
+                 *       "catalogVersion": 21,
+                 *       "currency": "EUR",
+                 *       "taxRatePercent": 20,
+                 *       "net": 250.5,
+                 *       "tax": 50.1,
+                 *       "gross": 300.6,
+                 *       "complete": true,
+                 *       "unpricedLines": 0
+                 *     }
+                 */
+                pricing?: {
+                    /**
+                     * @description `inline`: the request’s catalog; `stored`: the organisation’s stored catalog.
+                     * @enum {string}
+                     */
+                    source: "inline" | "stored";
+                    /** @description Version of the stored catalog that priced the estimate; null for an inline catalog. */
+                    catalogVersion: number | null;
+                    currency: string;
+                    taxRatePercent: number;
+                    /** @description Sum of the priced lines, net, computed in integer minor units. */
+                    net: number;
+                    /** @description Tax on the net total, rounded half up to the minor unit. */
+                    tax: number;
+                    /** @description net + tax. */
+                    gross: number;
+                    /** @description false when some lines are not priced (see their `missing` and `note`). */
+                    complete: boolean;
+                    unpricedLines: number;
+                };
+                /** @description With a catalog: the priced lines as a shop’s basket takes them (SKU, quantity, net unit price), in `currency`. */
+                cart?: components["schemas"]["CartLine"][];
+                checks: components["schemas"]["EstimateCheck"][];
+                cautions: components["schemas"]["Caution"][];
+                standby: components["schemas"]["EstimateStandby"];
+                trace: components["schemas"]["TraceEntry"][];
+            };
+        };
+        /** @description An item that could not be sized. */
+        EstimateBatchErrorItem: {
+            /** @description Position of the item in the request, from 0. */
+            index: number;
+            /** @description The item’s `ref`, or null when it sent none. */
+            ref: string | null;
+            /**
+             * @description discriminator enum property added by openapi-typescript
+             * @enum {string}
+             */
+            status: "error";
+            problem: components["schemas"]["EstimateBatchItemProblem"];
+        };
+        /** @description Why one item was not sized: the problem a single `POST /v1/estimates` would have answered. */
+        EstimateBatchItemProblem: {
+            /** @example validation_failed */
+            code: string;
+            detail: string;
+            /** @description Field errors, paths relative to the item’s `request` (`staircase.treads`). */
+            errors?: {
+                path: string;
+                message: string;
+            }[];
+        };
+        /**
+         * @description Up to 500 estimate requests sized in one call.
+         * @example {
+         *       "items": [
+         *         {
+         *           "ref": "Plot 14",
+         *           "request": {
+         *             "layout": "tread-strips",
+         *             "staircase": {
+         *               "treads": 14,
+         *               "treadWidthMm": 900,
+         *               "riserHeightMm": 185,
+         *               "goingMm": 250
+         *             },
+         *             "treadStrip": {
+         *               "voltageV": 24,
+         *               "powerWPerM": 10,
+         *               "cutPitchMm": 50,
+         *               "sku": "HL-S24-10"
+         *             },
+         *             "controller": {
+         *               "profile": {
+         *                 "outputs": 20,
+         *                 "maxCurrentPerOutputA": 1.5,
+         *                 "dataOutputs": 1,
+         *                 "maxPixelsPerOutput": 800,
+         *                 "sensorInput": {
+         *                   "type": "pnp",
+         *                   "supplyV": 5,
+         *                   "maxCurrentMa": 12
+         *                 },
+         *                 "sensorInputs": 2
+         *               }
+         *             },
+         *             "sensors": {
+         *               "motion": {
+         *                 "outputType": "pnp",
+         *                 "supplyV": 5,
+         *                 "currentMa": 8
+         *               }
+         *             }
+         *           }
+         *         },
+         *         {
+         *           "ref": "Plot 15",
+         *           "request": {
+         *             "layout": "tread-strips",
+         *             "staircase": {
+         *               "treads": 15,
+         *               "treadWidthMm": 900,
+         *               "riserHeightMm": 185,
+         *               "goingMm": 250,
+         *               "flights": [
+         *                 {
+         *                   "treads": 7,
+         *                   "landingLengthMm": 900
+         *                 },
+         *                 {
+         *                   "treads": 8
+         *                 }
+         *               ]
+         *             },
+         *             "treadStrip": {
+         *               "voltageV": 24,
+         *               "powerWPerM": 10,
+         *               "cutPitchMm": 50,
+         *               "sku": "HL-S24-10"
+         *             },
+         *             "controller": {
+         *               "profile": {
+         *                 "outputs": 20,
+         *                 "maxCurrentPerOutputA": 1.5,
+         *                 "dataOutputs": 1,
+         *                 "maxPixelsPerOutput": 800,
+         *                 "sensorInput": {
+         *                   "type": "pnp",
+         *                   "supplyV": 5,
+         *                   "maxCurrentMa": 12
+         *                 },
+         *                 "sensorInputs": 2
+         *               }
+         *             },
+         *             "sensors": {
+         *               "motion": {
+         *                 "outputType": "pnp",
+         *                 "supplyV": 5,
+         *                 "currentMa": 8
+         *               }
+         *             }
+         *           }
+         *         },
+         *         {
+         *           "ref": "Quayside corridor",
+         *           "request": {
+         *             "layout": "rail-pixels",
+         *             "railPixels": {
+         *               "lengthM": 18,
+         *               "pixelsPerM": 60,
+         *               "voltageV": 5,
+         *               "protocol": "one-wire-800k",
+         *               "brightnessPercent": 50,
+         *               "sku": "HL-P05-60"
+         *             },
+         *             "controller": {
+         *               "profile": {
+         *                 "outputs": 36,
+         *                 "maxCurrentPerOutputA": 1.2,
+         *                 "dataOutputs": 2,
+         *                 "maxPixelsPerOutput": 600
+         *               }
+         *             },
+         *             "sensors": {
+         *               "motion": {
+         *                 "outputType": "pnp",
+         *                 "supplyV": 5,
+         *                 "currentMa": 8
+         *               },
+         *               "daylightCutoffLux": 80
+         *             }
+         *           }
+         *         }
+         *       ]
+         *     }
+         */
+        EstimateBatchRequest: {
+            /** @description 1 to 500 stairs; each uses one unit of the monthly quota. */
+            items: components["schemas"]["EstimateBatchItem"][];
+        };
+        /** @description One stair of a batch: your reference and its estimate request. */
+        EstimateBatchItem: {
+            /**
+             * @description Your reference for the stair (a plot or order number), echoed in its answer.
+             * @example Plot 14
+             */
+            ref?: string;
+            /**
+             * @description An estimate request exactly as `POST /v1/estimates` takes it (the `EstimateRequest` schema). It is validated on its own: an invalid one is answered as that item’s problem, never as a 400 for the batch.
+             * @example {
+             *       "layout": "tread-strips",
+             *       "staircase": {
+             *         "treads": 14,
+             *         "treadWidthMm": 900,
+             *         "riserHeightMm": 185,
+             *         "goingMm": 250
+             *       },
+             *       "treadStrip": {
+             *         "voltageV": 24,
+             *         "powerWPerM": 10,
+             *         "cutPitchMm": 50,
+             *         "sku": "HL-S24-10"
+             *       },
+             *       "controller": {
+             *         "profile": {
+             *           "outputs": 20,
+             *           "maxCurrentPerOutputA": 1.5,
+             *           "dataOutputs": 1,
+             *           "maxPixelsPerOutput": 800,
+             *           "sensorInput": {
+             *             "type": "pnp",
+             *             "supplyV": 5,
+             *             "maxCurrentMa": 12
+             *           },
+             *           "sensorInputs": 2
+             *         }
+             *       },
+             *       "sensors": {
+             *         "motion": {
+             *           "outputType": "pnp",
+             *           "supplyV": 5,
+             *           "currentMa": 8
+             *         }
+             *       }
+             *     }
+             */
+            request?: unknown;
+        };
         ApiKeyPage: {
             items: components["schemas"]["ApiKey"][];
             /** @description Pass as `cursor` for the next page; `null` on the last page. */
@@ -6394,6 +7406,7 @@ export interface components {
          *           "day": "2026-12-01",
          *           "requests": 412,
          *           "limited": 3,
+         *           "units": 409,
          *           "byStatusClass": {
          *             "2xx": 401,
          *             "3xx": 0,
@@ -6408,6 +7421,7 @@ export interface components {
          *               "route": "POST /v1/estimates",
          *               "requests": 412,
          *               "limited": 3,
+         *               "units": 409,
          *               "byStatusClass": {
          *                 "2xx": 401,
          *                 "3xx": 0,
@@ -6424,6 +7438,7 @@ export interface components {
          *       "totals": {
          *         "requests": 412,
          *         "limited": 3,
+         *         "units": 409,
          *         "byStatusClass": {
          *           "2xx": 401,
          *           "3xx": 0,
@@ -6438,6 +7453,7 @@ export interface components {
          *             "route": "POST /v1/estimates",
          *             "requests": 412,
          *             "limited": 3,
+         *             "units": 409,
          *             "byStatusClass": {
          *               "2xx": 401,
          *               "3xx": 0,
@@ -6453,7 +7469,8 @@ export interface components {
          *           {
          *             "keyId": "h7kq2mzx4c5d",
          *             "requests": 412,
-         *             "limited": 3
+         *             "limited": 3,
+         *             "units": 409
          *           }
          *         ]
          *       },
@@ -6494,6 +7511,8 @@ export interface components {
             requests: number;
             /** @description Of those, refused by a rate limit or the monthly quota (429); they do not count against the quota. */
             limited: number;
+            /** @description Quota units the calls used: 1 a call, one per item for a synchronous batch (POST /v1/estimates/batch); refused calls use none. */
+            units: number;
             byStatusClass: components["schemas"]["StatusClassCounts"];
             /** @description Mean time to answer, in ms; null without calls. */
             meanLatencyMs: number | null;
@@ -6519,6 +7538,8 @@ export interface components {
             requests: number;
             /** @description Of those, refused by a rate limit or the monthly quota (429); they do not count against the quota. */
             limited: number;
+            /** @description Quota units the calls used: 1 a call, one per item for a synchronous batch (POST /v1/estimates/batch); refused calls use none. */
+            units: number;
             byStatusClass: components["schemas"]["StatusClassCounts"];
             /** @description Mean time to answer, in ms; null without calls. */
             meanLatencyMs: number | null;
@@ -6533,6 +7554,8 @@ export interface components {
             requests: number;
             /** @description Of those, refused by a rate limit or the monthly quota (429); they do not count against the quota. */
             limited: number;
+            /** @description Quota units the calls used: 1 a call, one per item for a synchronous batch (POST /v1/estimates/batch); refused calls use none. */
+            units: number;
             byStatusClass: components["schemas"]["StatusClassCounts"];
             /** @description Mean time to answer, in ms; null without calls. */
             meanLatencyMs: number | null;
@@ -6549,6 +7572,7 @@ export interface components {
             keyId: string;
             requests: number;
             limited: number;
+            units: number;
         };
         /** @description The organisation's plan and how much of this month's quota is used. */
         QuotaStanding: {
@@ -6556,7 +7580,7 @@ export interface components {
             planId: string;
             /** @example Shop */
             planName: string;
-            /** @description Calls the plan includes per calendar month (UTC). */
+            /** @description Quota units (calls; a synchronous batch uses one per item) the plan includes per calendar month (UTC). */
             monthlyQuota: number;
             /** @description Calls per minute allowed per API key. */
             ratePerMinute: number;
@@ -6565,7 +7589,7 @@ export interface components {
              * @example 2026-12
              */
             month: string;
-            /** @description Calls counted against the quota this month (refused calls are not). */
+            /** @description Quota units used this month: 1 a call, one per item of a synchronous batch (refused calls use none). */
             usedThisMonth: number;
             remaining: number;
             /** @description usedThisMonth / monthlyQuota × 100, one decimal. */
@@ -8049,6 +9073,87 @@ export interface operations {
                 };
             };
             /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    createEstimateBatch: {
+        parameters: {
+            query?: {
+                /** @description `summary` (default): per item its headline figures, failing checks and `bomTotal`; `full` adds the whole estimate as `result`. */
+                detail?: "summary" | "full";
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["EstimateBatchRequest"];
+            };
+        };
+        responses: {
+            /** @description One answer per item and the counts. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["EstimateBatchResponse"];
+                };
+            };
+            /** @description Malformed JSON, no items or more than 500, or an unknown field of the envelope (`validation_failed`); invalid items are answered one by one instead. */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key lacks batches:write (embed keys never have it), or the user is not an estimator. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A body over 4mb (`body_too_large`). */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A `detail=full` answer over the 25165824-byte ceiling (`answer_too_large`): ask for `detail=summary`. */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded` — the batch needs one quota unit per item); see Retry-After. */
             429: {
                 headers: {
                     [name: string]: unknown;
@@ -11066,6 +12171,53 @@ export interface operations {
                 };
             };
             /** @description Rate limit, cost budget or monthly quota reached (`rate_limited`, `cost_budget_exceeded`, `quota_exceeded`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBatchTemplate: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The template CSV. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/csv": string;
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs the batches:write scope (embed keys never have it) or the estimator role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After. */
             429: {
                 headers: {
                     [name: string]: unknown;

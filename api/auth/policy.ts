@@ -20,6 +20,8 @@ export type Policy =
       embed?: true;
       /** Runs the sizing engine though its scope is another: signed-in users' calls are metered as sizing. */
       sizing?: true;
+      /** Uses one quota unit per item of its body (a synchronous batch): the route grows the admitted unit. */
+      unitsPerItem?: true;
     };
 
 const sizing: Policy = { scope: 'sizing:run', role: 'estimator', embed: true };
@@ -32,6 +34,8 @@ const projectsWrite: Policy = { scope: 'projects:write', role: 'estimator' };
 const projectsDelete: Policy = { scope: 'projects:write', role: 'admin' };
 /** Running a stored design: a projects write that runs the engine, metered and charged as sizing. */
 const projectsRun: Policy = { ...projectsWrite, sizing: true };
+/** Batches run the engine item by item: their own scope for keys, estimators for users, metered as sizing. */
+const batchesWrite: Policy = { scope: 'batches:write', role: 'estimator', sizing: true, unitsPerItem: true };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
 export const POLICIES: Record<string, Policy> = {
@@ -46,6 +50,10 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/estimates': sizing,
   // Ranked kits from the catalog: sizing, and the embeddable estimator needs it (embed keys).
   'POST /v1/estimates/options': sizing,
+  // Synchronous batches: their own scope (embed keys never get it); estimators run them, metered as sizing.
+  'POST /v1/estimates/batch': batchesWrite,
+  // The stair-row CSV template: for whoever may run batches; runs nothing, so not metered as sizing for users.
+  'GET /v1/batches/template.csv': { scope: 'batches:write', role: 'estimator' },
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,

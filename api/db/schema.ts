@@ -177,6 +177,8 @@ export const usageCounters = pgTable(
     count: bigint('count', { mode: 'number' }).notNull(),
     // Of `count`, those refused by a rate limit or the monthly quota: metered, never billed.
     limited: bigint('limited', { mode: 'number' }).notNull().default(0),
+    // Quota units the admitted calls used (1 a call, one per item for a synchronous batch); refused calls use none.
+    units: bigint('units', { mode: 'number' }).notNull().default(0),
     latencyMsTotal: bigint('latency_ms_total', { mode: 'number' }).notNull(),
     latencyBuckets: integer('latency_buckets').array().notNull(),
   },

@@ -4,7 +4,7 @@ import { principalOf } from '../auth/principal.js';
 import type { AppDeps } from '../deps.js';
 import { HttpProblem } from '../problem.js';
 import type { Services } from '../services/container.js';
-import type { QuotaTicket } from '../services/quotas.js';
+import type { QuotaDecision, QuotaTicket } from '../services/quotas.js';
 
 /** What the traffic middleware keeps on res.locals for one request. */
 interface TrafficLocals {
@@ -56,7 +56,9 @@ export function meterRequests(deps: AppDeps, services: Services): RequestHandler
       const l = locals(res);
       if (l.metered) return;
       l.metered = true;
-      l.quotaTicket?.settle();
+      // A call refused after admission (cost budget, a batch too large for what is left) gives its units back.
+      if (l.limitedBy) l.quotaTicket?.release();
+      else l.quotaTicket?.settle();
       services.usageMeter.record({
         organizationId: principal.organizationId,
         keyId: principal.keyId,
@@ -66,6 +68,7 @@ export function meterRequests(deps: AppDeps, services: Services): RequestHandler
         status: res.statusCode,
         latencyMs: performance.now() - started,
         limited: l.limitedBy !== undefined,
+        units: l.quotaTicket?.units ?? 1,
       });
     };
     res.once('finish', done);
@@ -85,12 +88,10 @@ export function enforceQuota(deps: AppDeps, services: Services): RequestHandler 
     if (!principal) return next();
     const l = locals(res);
     const at = l.trafficAt ?? deps.clock();
-    const decision = await services.quotas.admit(principal.organizationId, at);
-    const retryAfterS = Math.max(1, Math.ceil((decision.resetsAt.getTime() - at.getTime()) / 1000));
-    const monthStart = Date.UTC(decision.resetsAt.getUTCFullYear(), decision.resetsAt.getUTCMonth() - 1, 1);
-    const windowS = Math.round((decision.resetsAt.getTime() - monthStart) / 1000);
-    res.append('RateLimit-Policy', `"monthly-quota"; q=${decision.plan.monthlyQuota}; w=${windowS}`);
-    res.append('RateLimit', `"monthly-quota"; r=${decision.remaining}; t=${retryAfterS}`);
+    const policy = l.routePolicy;
+    const growing = policy !== undefined && !policy.public && policy.unitsPerItem === true;
+    const decision = await services.quotas.admit(principal.organizationId, at, 1, { growing });
+    const retryAfterS = advertiseQuota(res, decision, at);
     if (!decision.admitted) {
       l.limitedBy = 'quota_exceeded';
       throw new HttpProblem(
@@ -105,6 +106,57 @@ export function enforceQuota(deps: AppDeps, services: Services): RequestHandler 
     // The client may already have gone while the quota was looked up.
     if (l.metered) decision.ticket.settle();
     else l.quotaTicket = decision.ticket;
+    next();
+  };
+}
+
+/** Sets the draft-8 `monthly-quota` entries (replacing earlier ones of this call); returns Retry-After in s. */
+function advertiseQuota(res: Response, decision: QuotaDecision, at: Date, remaining = decision.remaining): number {
+  const retryAfterS = Math.max(1, Math.ceil((decision.resetsAt.getTime() - at.getTime()) / 1000));
+  const monthStart = Date.UTC(decision.resetsAt.getUTCFullYear(), decision.resetsAt.getUTCMonth() - 1, 1);
+  const windowS = Math.round((decision.resetsAt.getTime() - monthStart) / 1000);
+  const without = (name: string) => {
+    const current = res.getHeader(name);
+    const entries = (Array.isArray(current) ? current : current === undefined ? [] : [String(current)]).filter((e) => !e.startsWith('"monthly-quota"'));
+    if (entries.length) res.setHeader(name, entries);
+    else res.removeHeader(name);
+  };
+  without('RateLimit-Policy');
+  without('RateLimit');
+  res.append('RateLimit-Policy', `"monthly-quota"; q=${decision.plan.monthlyQuota}; w=${windowS}`);
+  res.append('RateLimit', `"monthly-quota"; r=${remaining}; t=${retryAfterS}`);
+  return retryAfterS;
+}
+
+/**
+ * For a call that uses more than one quota unit (a synchronous batch: one per item), after its
+ * body is validated: takes the units beyond the one the call was admitted with, all or none.
+ * If they do not fit in what is left the whole call is refused (429 quota_exceeded) before any
+ * work, and uses no units at all.
+ */
+export function enforceQuotaUnits(deps: AppDeps): (unitsOf: (body: never) => number) => RequestHandler {
+  return (unitsOf) => async (_req, res, next) => {
+    const l = locals(res);
+    const ticket = l.quotaTicket;
+    if (!ticket) return next(); // not metered (or the client has gone)
+    // Grown even by 0 (a batch of one): the quota notices of a growing call are sent here.
+    const extra = Math.max(0, unitsOf(res.locals.body as never) - ticket.units);
+    const at = l.trafficAt ?? deps.clock();
+    const decision = await ticket.grow(extra);
+    // Refused, the call gives back the unit it was admitted with: that one is left too.
+    const left = decision.admitted ? decision.remaining : decision.remaining + ticket.units;
+    const retryAfterS = advertiseQuota(res, decision, at, left);
+    if (!decision.admitted) {
+      l.limitedBy = 'quota_exceeded';
+      throw new HttpProblem(
+        429,
+        'quota_exceeded',
+        'Monthly quota too small for this batch',
+        `This batch needs ${extra + ticket.units} quota units (one per item); ${left} of the ${decision.plan.monthlyQuota} ` +
+          `its ${decision.plan.name} plan includes for ${decision.month} are left. Nothing was run. Send fewer items, or wait until ${decision.resetsAt.toISOString()}.`,
+        { headers: { 'Retry-After': String(retryAfterS) } },
+      );
+    }
     next();
   };
 }

@@ -81,6 +81,23 @@ function findingsOf(input: unknown, output: unknown): Findings {
 const unknownFieldErrors = (paths: string[]): FieldError[] => paths.slice(0, MAX_FIELD_ERRORS).map((path) => ({ path, message: UNKNOWN_FIELD_MESSAGE }));
 
 /**
+ * What validateBody checks, on any value: the schema, fields a schema dropped (refused, never
+ * lost) and control characters in text. The parsed value, or the field errors.
+ */
+export function checkInput<S extends z.ZodType>(schema: S, input: unknown): { ok: true; data: z.output<S> } | { ok: false; errors: FieldError[] } {
+  const parsed = schema.safeParse(input);
+  if (!parsed.success) return { ok: false, errors: zodFieldErrors(parsed.error) };
+  const { unknown, controlled } = findingsOf(input, parsed.data);
+  if (unknown.length) return { ok: false, errors: unknownFieldErrors(unknown) };
+  // Every text field, whatever its schema: a NUL or other control character never reaches the
+  // database (PostgreSQL refuses NUL in text) nor a log line.
+  if (controlled.length) {
+    return { ok: false, errors: controlled.slice(0, MAX_FIELD_ERRORS).map((path) => ({ path, message: 'must not contain control characters' })) };
+  }
+  return { ok: true, data: parsed.data };
+}
+
+/**
  * Parses the JSON body and keeps the parsed value in `res.locals.body`, so transforms and
  * defaults survive (Express 5's `req.query` is a getter and cannot be reassigned).
  *
@@ -90,17 +107,9 @@ const unknownFieldErrors = (paths: string[]): FieldError[] => paths.slice(0, MAX
  */
 export function validateBody<S extends z.ZodType>(schema: S): RequestHandler {
   return (req, res, next) => {
-    const input: unknown = req.body ?? {};
-    const parsed = schema.safeParse(input);
-    if (!parsed.success) return next(problems.validation(zodFieldErrors(parsed.error)));
-    const { unknown, controlled } = findingsOf(input, parsed.data);
-    if (unknown.length) return next(problems.validation(unknownFieldErrors(unknown)));
-    // Every text field, whatever its schema: a NUL or other control character never reaches the
-    // database (PostgreSQL refuses NUL in text) nor a log line.
-    if (controlled.length) {
-      return next(problems.validation(controlled.slice(0, MAX_FIELD_ERRORS).map((path) => ({ path, message: 'must not contain control characters' }))));
-    }
-    res.locals.body = parsed.data;
+    const checked = checkInput(schema, req.body ?? {});
+    if (!checked.ok) return next(problems.validation(checked.errors));
+    res.locals.body = checked.data;
     next();
   };
 }

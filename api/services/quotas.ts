@@ -11,9 +11,10 @@ import type { FlushObserver } from './usage-meter.js';
 export const QUOTA_WARNING_PERCENTS = [80, 100] as const;
 
 /**
- * One organisation's calls in one month, as this instance knows them. `base` is what the
- * database held at the last sync; `unsynced` counts calls served here since then (some may be
- * written already, the sync tells); `inFlight` are admitted calls still running.
+ * One organisation's quota units in one month, as this instance knows them (a call uses 1, a
+ * synchronous batch one per item). `base` is what the database held at the last sync; `unsynced`
+ * counts units served here since then (some may be written already, the sync tells); `inFlight`
+ * are units of admitted calls still running.
  */
 interface MonthTally {
   organizationId: string;
@@ -25,9 +26,17 @@ interface MonthTally {
   noticed: Set<number>;
 }
 
-/** An admitted call; settle() once when it has been answered (idempotent). */
+/**
+ * An admitted call holding its units. settle() once it has been answered, release() instead when
+ * it was refused after all (its units are given back); both idempotent, the first one wins.
+ */
 export interface QuotaTicket {
+  /** Units this call holds. */
+  readonly units: number;
+  /** Takes `extra` more units for this call if the quota has them, all or none. */
+  grow(extra: number): Promise<QuotaDecision>;
   settle(): void;
+  release(): void;
 }
 
 export interface QuotaStanding {
@@ -82,7 +91,7 @@ export function createQuotaService({
       .select({
         organizationId: usageCounters.organizationId,
         month: monthExpr,
-        used: sql<string>`sum(${usageCounters.count} - ${usageCounters.limited})`,
+        used: sql<string>`sum(${usageCounters.units})`,
       })
       .from(usageCounters)
       .where(
@@ -185,28 +194,57 @@ export function createQuotaService({
     },
   };
 
+  /** Holds `units` more for a call if all of them fit in what is left; none otherwise. */
+  const take = (tally: MonthTally, plan: Plan, units: number, ticket: () => QuotaTicket, notify = true): QuotaDecision => {
+    const used = tally.base + tally.unsynced + tally.inFlight;
+    if (used + units > plan.monthlyQuota) return { admitted: false, ...standing(tally, plan, used) };
+    tally.inFlight += units;
+    if (notify) warnIfDue(tally, plan, used + units);
+    return { admitted: true, ticket: ticket(), ...standing(tally, plan, used + units) };
+  };
+
+  const ticketFor = (tally: MonthTally, plan: Plan, held: number): QuotaTicket => {
+    let units = held;
+    let ended = false;
+    const ticket: QuotaTicket = {
+      get units() {
+        return units;
+      },
+      /** Takes `extra` more units (0 allowed: it only sends the notices now due). */
+      async grow(extra) {
+        // An ended ticket cannot take more: its call has been answered.
+        const decision = take(tally, plan, ended ? Number.POSITIVE_INFINITY : extra, () => ticket);
+        if (decision.admitted) units += extra;
+        return decision;
+      },
+      settle() {
+        if (ended) return;
+        ended = true;
+        tally.inFlight -= units;
+        tally.unsynced += units;
+      },
+      release() {
+        if (ended) return;
+        ended = true;
+        tally.inFlight -= units;
+      },
+    };
+    return ticket;
+  };
+
   return {
-    /** Counts the call against the month of `at` if the quota allows it. */
-    async admit(organizationId: string, at: Date): Promise<QuotaDecision> {
+    /**
+     * Counts `units` (1 a call) against the month of `at` if all of them fit in what is left.
+     * `growing`: the call will grow() its ticket once it knows its size (a batch); the 80 % and
+     * 100 % notices wait for that, so a batch refused whole never sends one.
+     */
+    async admit(organizationId: string, at: Date, units = 1, options: { growing?: boolean } = {}): Promise<QuotaDecision> {
       const plan = await plans.forOrganization(organizationId);
       const tally = await tallyFor(organizationId, monthOf(at));
-      const used = tally.base + tally.unsynced + tally.inFlight;
-      if (used >= plan.monthlyQuota) return { admitted: false, ...standing(tally, plan, used) };
-      tally.inFlight += 1;
-      warnIfDue(tally, plan, used + 1);
-      let settled = false;
-      const ticket: QuotaTicket = {
-        settle() {
-          if (settled) return;
-          settled = true;
-          tally.inFlight -= 1;
-          tally.unsynced += 1;
-        },
-      };
-      return { admitted: true, ticket, ...standing(tally, plan, used + 1) };
+      return take(tally, plan, units, () => ticketFor(tally, plan, units), !options.growing);
     },
 
-    /** Calls served this month (on the injected clock), for the usage API. */
+    /** Units used this month (on the injected clock), for the usage API. */
     async standing(organizationId: string): Promise<QuotaStanding> {
       const plan = await plans.forOrganization(organizationId);
       const tally = await tallyFor(organizationId, monthOf(clock()));

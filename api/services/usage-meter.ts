@@ -21,6 +21,8 @@ export interface UsageSample {
   latencyMs: number;
   /** Refused by a rate limit or the monthly quota. */
   limited: boolean;
+  /** Quota units the call used: 1 by default, one per item for a synchronous batch, 0 when limited. */
+  units?: number;
 }
 
 /**
@@ -41,6 +43,7 @@ interface Counter {
   statusClass: StatusClass;
   count: number;
   limited: number;
+  units: number;
   latencyMs: number;
   buckets: number[];
 }
@@ -94,6 +97,7 @@ export function createUsageMeter({
     if (!existing) return void counters.set(id, c);
     existing.count += c.count;
     existing.limited += c.limited;
+    existing.units += c.units;
     existing.latencyMs += c.latencyMs;
     addBuckets(existing.buckets, c.buckets);
   };
@@ -116,6 +120,7 @@ export function createUsageMeter({
             statusClass: c.statusClass,
             count: c.count,
             limited: c.limited,
+            units: c.units,
             latencyMsTotal: Math.round(c.latencyMs),
             latencyBuckets: c.buckets,
           })),
@@ -125,6 +130,7 @@ export function createUsageMeter({
           set: {
             count: sql`${usageCounters.count} + excluded.count`,
             limited: sql`${usageCounters.limited} + excluded.limited`,
+            units: sql`${usageCounters.units} + excluded.units`,
             latencyMsTotal: sql`${usageCounters.latencyMsTotal} + excluded.latency_ms_total`,
             latencyBuckets: sql`array(select coalesce(a, 0) + coalesce(b, 0) from unnest(${usageCounters.latencyBuckets}, excluded.latency_buckets) with ordinality as t(a, b, i) order by i)`,
           },
@@ -229,6 +235,7 @@ export function createUsageMeter({
         statusClass: statusClassOf(sample.status),
         count: 1,
         limited: sample.limited ? 1 : 0,
+        units: sample.limited ? 0 : (sample.units ?? 1),
         latencyMs: sample.latencyMs,
         buckets,
       });

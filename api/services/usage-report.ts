@@ -44,6 +44,7 @@ export async function usageRows(db: Db, organizationId: string, range: UsageRang
 class Tally {
   requests = 0;
   limited = 0;
+  units = 0;
   latencyMs = 0;
   byStatusClass = { '2xx': 0, '3xx': 0, '4xx': 0, '5xx': 0 };
   buckets = emptyBuckets();
@@ -51,6 +52,7 @@ class Tally {
   add(row: UsageCounterRow): this {
     this.requests += row.count;
     this.limited += row.limited;
+    this.units += row.units;
     this.latencyMs += row.latencyMsTotal;
     const cls = row.statusClass as keyof Tally['byStatusClass'];
     if (cls in this.byStatusClass) this.byStatusClass[cls] += row.count;
@@ -62,6 +64,7 @@ class Tally {
     return {
       requests: this.requests,
       limited: this.limited,
+      units: this.units,
       byStatusClass: { ...this.byStatusClass },
       meanLatencyMs: this.requests ? Math.round((this.latencyMs / this.requests) * 10) / 10 : null,
       p50LatencyMs: estimatePercentile(this.buckets, 50),
@@ -99,12 +102,13 @@ export function summarizeUsage(rows: UsageCounterRow[], range: UsageRange): Pick
   }
 
   const total = new Tally();
-  const keys = new Map<string, { requests: number; limited: number }>();
+  const keys = new Map<string, { requests: number; limited: number; units: number }>();
   for (const row of rows) {
     total.add(row);
-    const k = keys.get(row.keyId) ?? { requests: 0, limited: 0 };
+    const k = keys.get(row.keyId) ?? { requests: 0, limited: 0, units: 0 };
     k.requests += row.count;
     k.limited += row.limited;
+    k.units += row.units;
     keys.set(row.keyId, k);
   }
   const byKey = [...keys.entries()]

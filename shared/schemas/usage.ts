@@ -36,6 +36,7 @@ export const statusClassCountsSchema = z
 const figures = {
   requests: count.meta({ description: 'Calls made with API keys, whatever the answer.' }),
   limited: count.meta({ description: 'Of those, refused by a rate limit or the monthly quota (429); they do not count against the quota.' }),
+  units: count.meta({ description: 'Quota units the calls used: 1 a call, one per item for a synchronous batch (POST /v1/estimates/batch); refused calls use none.' }),
   byStatusClass: statusClassCountsSchema,
   meanLatencyMs: latencyMs.meta({ description: 'Mean time to answer, in ms; null without calls.' }),
   p50LatencyMs: latencyMs.meta({ description: 'Median time to answer, in ms, estimated from latency buckets; null without calls.' }),
@@ -55,7 +56,7 @@ export const dayUsageSchema = z
   .meta({ id: 'DayUsage', description: 'One UTC day of calls; every day of the range is listed, quiet days with zeros.' });
 
 export const keyUsageSchema = z
-  .object({ keyId: z.string(), requests: count, limited: count })
+  .object({ keyId: z.string(), requests: count, limited: count, units: count })
   .meta({ id: 'KeyUsage', description: 'Calls made with one key over the range.' });
 
 export const usageTotalsSchema = z
@@ -70,10 +71,10 @@ export const quotaStandingSchema = z
   .object({
     planId: z.string().meta({ example: 'shop' }),
     planName: z.string().meta({ example: 'Shop' }),
-    monthlyQuota: count.meta({ description: 'Calls the plan includes per calendar month (UTC).' }),
+    monthlyQuota: count.meta({ description: 'Quota units (calls; a synchronous batch uses one per item) the plan includes per calendar month (UTC).' }),
     ratePerMinute: count.meta({ description: 'Calls per minute allowed per API key.' }),
     month: z.string().regex(/^\d{4}-\d{2}$/).meta({ description: 'The current month (UTC).', example: '2026-12' }),
-    usedThisMonth: count.meta({ description: 'Calls counted against the quota this month (refused calls are not).' }),
+    usedThisMonth: count.meta({ description: 'Quota units used this month: 1 a call, one per item of a synchronous batch (refused calls use none).' }),
     remaining: count,
     percentUsed: z.number().min(0).meta({ description: 'usedThisMonth / monthlyQuota × 100, one decimal.' }),
     resetsAt: z.iso.datetime().meta({ description: 'When the quota starts again (the first day of next month, 00:00 UTC).' }),
@@ -84,6 +85,7 @@ export const quotaStandingSchema = z
 const exampleStats = {
   requests: 412,
   limited: 3,
+  units: 409,
   byStatusClass: { '2xx': 401, '3xx': 0, '4xx': 11, '5xx': 0 },
   meanLatencyMs: 7.4,
   p50LatencyMs: 5.8,
@@ -113,7 +115,7 @@ export const usageReportSchema = z
       totals: {
         ...exampleStats,
         byRoute: [exampleRoute],
-        byKey: [{ keyId: 'h7kq2mzx4c5d', requests: 412, limited: 3 }],
+        byKey: [{ keyId: 'h7kq2mzx4c5d', requests: 412, limited: 3, units: 409 }],
       },
       quota: {
         planId: 'shop',

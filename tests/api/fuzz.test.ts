@@ -21,6 +21,7 @@ import { createApiKeyRequestSchema, rotateApiKeyRequestSchema } from '../../shar
 import { cableRequestSchema } from '../../shared/schemas/cable.js';
 import { driverRequestSchema } from '../../shared/schemas/driver.js';
 import { estimateRequestSchema } from '../../shared/schemas/estimate.js';
+import { estimateBatchRequestSchema } from '../../shared/schemas/estimate-batch.js';
 import { catalogImportQuerySchema, catalogItemQuerySchema, patchCatalogItemSchema, patchCatalogSchema, storedCatalogItemSchema } from '../../shared/schemas/catalog-store.js';
 import { estimateExamples, harborLaneCatalog } from '../../shared/schemas/estimate-examples.js';
 import { alderRowKitOptions, harborLaneKitOptions, kitOptionsRequestSchema } from '../../shared/schemas/estimate-options.js';
@@ -40,7 +41,7 @@ import { organizations } from '../../api/db/schema.js';
 // middleware (cheap), a few thousand through HTTP on one in-memory app. Fixed seeds keep a run
 // reproducible; a failure prints the counterexample.
 
-const DIRECT_RUNS_PER_SCHEMA = 450; // × 26 schemas = 11 700
+const DIRECT_RUNS_PER_SCHEMA = 450; // × 27 schemas = 12 150
 const HTTP_RUNS = 2_000;
 let inputsSent = 0;
 
@@ -131,6 +132,11 @@ const bodySchemas: { name: string; schema: z.ZodType; seeds: Json[] }[] = [
   { name: 'reels', schema: reelsRequestSchema, seeds: [{ piecesMm: [850, 850, 1200, 400], reelLengthMm: 5000, cutPitchMm: 50 }] },
   { name: 'estimate', schema: estimateRequestSchema, seeds: Object.values(estimateExamples) },
   { name: 'kit-options', schema: kitOptionsRequestSchema, seeds: [harborLaneKitOptions, alderRowKitOptions] },
+  {
+    name: 'estimate-batch',
+    schema: estimateBatchRequestSchema,
+    seeds: [seedOf(estimateBatchRequestSchema), { items: Object.values(estimateExamples).map((request, i) => ({ ref: `Stair ${i + 1}`, request })) }],
+  },
   { name: 'sign-in', schema: signInRequestSchema, seeds: [seedOf(signInRequestSchema)] },
   { name: 'refresh', schema: refreshRequestSchema, seeds: [seedOf(refreshRequestSchema)] },
   { name: 'switch-organization', schema: switchOrganizationRequestSchema, seeds: [{ organization: 'harbor-lane' }] },
@@ -234,7 +240,7 @@ beforeAll(async () => {
   t = await createTestApp();
   // The partner plan's rate (3000 a minute) leaves room for every call of this file.
   const [org] = await t.database.db.insert(organizations).values({ slug: 'fuzz', name: 'Fuzz', planId: 'partner' }).returning();
-  ({ token: sizing } = await createKey(t, org!.id, { scopes: ['sizing:run', 'usage:read'] }));
+  ({ token: sizing } = await createKey(t, org!.id, { scopes: ['sizing:run', 'usage:read', 'batches:write'] }));
   admin = (await signIn(t.app, (await createMember(t.app, org!.id, 'admin')).email)).accessToken;
   server = t.app.listen(0);
 });
@@ -252,6 +258,7 @@ const routes: { method: 'post' | 'patch'; path: string; schema: string; token?: 
   { method: 'post', path: '/v1/estimates', schema: 'estimate', token: () => sizing },
   { method: 'post', path: '/v1/estimates', schema: 'estimate', token: () => sizing },
   { method: 'post', path: '/v1/estimates/options', schema: 'kit-options', token: () => sizing },
+  { method: 'post', path: '/v1/estimates/batch', schema: 'estimate-batch', token: () => sizing },
   { method: 'post', path: '/v1/auth/sign-in', schema: 'sign-in' },
   { method: 'post', path: '/v1/auth/refresh', schema: 'refresh' },
   { method: 'post', path: '/v1/auth/invitations/accept', schema: 'accept-invitation' },

@@ -158,7 +158,7 @@ let memberEmail: string;
 beforeAll(async () => {
   t = await createTestApp();
   const org = await createOrganization(t, 'conformance');
-  ({ token: server } = await createKey(t, org.id, { scopes: ['sizing:run', 'usage:read'] }));
+  ({ token: server } = await createKey(t, org.id, { scopes: ['sizing:run', 'usage:read', 'batches:write'] }));
   memberEmail = (await createMember(t.app, org.id, 'admin')).email;
   admin = (await signIn(t.app, memberEmail)).accessToken;
   ops = (await signIn(t.app, (await createOperator(t.app)).email)).accessToken;
@@ -190,6 +190,26 @@ describe('real answers match the documented schema of their route and status', (
       layouts.add(example.layout);
     }
     expect([...layouts].sort()).toEqual(['rail-pixels', 'tread-pixels', 'tread-strips', 'treads-and-rail']);
+  });
+
+  it('a synchronous batch: summary and full detail, good and bad items, its problems', async () => {
+    const items = [
+      ...Object.values(estimateExamples).map((example, i) => ({ ref: `Stair ${i + 1}`, request: example })),
+      { ref: 'Broken', request: { layout: 'tread-strips' } },
+    ];
+    for (const query of ['', '?detail=full']) {
+      const res = await request(t.app).post(`/v1/estimates/batch${query}`).set(bearer(server)).send({ items });
+      expectConforms(res, 'POST', '/v1/estimates/batch', 200, { items });
+      expect(res.body.summary).toMatchObject({ items: items.length, failed: 1 });
+    }
+    expectConforms(await request(t.app).post('/v1/estimates/batch').set(bearer(server)).send({ items: [] }), 'POST', '/v1/estimates/batch', 400);
+    expectConforms(await request(t.app).post('/v1/estimates/batch').set(bearer(admin)).send({ items }), 'POST', '/v1/estimates/batch', 200, { items });
+    const sizingOnly = (await createKey(t, (await createOrganization(t, 'conformance-batch')).id, { scopes: ['sizing:run'] })).token;
+    expectConforms(await request(t.app).post('/v1/estimates/batch').set(bearer(sizingOnly)).send({ items }), 'POST', '/v1/estimates/batch', 403);
+    // The template is CSV text (documented as a string); its refusals are problem+json.
+    const template = await request(t.app).get('/v1/batches/template.csv').set(bearer(server)).expect(200);
+    expect(validate(documentedAnswer('GET', '/v1/batches/template.csv', 200, template.headers['content-type']!), template.text)).toEqual([]);
+    expectConforms(await request(t.app).get('/v1/batches/template.csv').set(bearer(sizingOnly)), 'GET', '/v1/batches/template.csv', 403);
   });
 
   it('kit options: ranked designs and an empty stored catalog', async () => {

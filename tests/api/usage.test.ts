@@ -70,7 +70,7 @@ describe('metering', () => {
     usageReportSchema.parse(res.body);
     expect(res.body.totals).toMatchObject({ requests: n, limited: 0, byStatusClass: { '2xx': n, '3xx': 0, '4xx': 0, '5xx': 0 } });
     expect(res.body.totals.byRoute).toEqual([expect.objectContaining({ route: VOLTAGE_ROUTE, requests: n })]);
-    expect(res.body.totals.byKey).toEqual([{ keyId: key.keyId, requests: n, limited: 0 }]);
+    expect(res.body.totals.byKey).toEqual([{ keyId: key.keyId, requests: n, limited: 0, units: n }]);
     expect(res.body.data.at(-1)).toMatchObject({ day: '2026-12-01', requests: n });
     expect(res.body.totals.p50LatencyMs).not.toBeNull();
     expect(res.body.totals.p95LatencyMs).toBeGreaterThanOrEqual(res.body.totals.p50LatencyMs);
@@ -147,6 +147,7 @@ describe('GET /v1/usage', () => {
       day: '2026-11-02',
       requests: 0,
       limited: 0,
+      units: 0,
       byStatusClass: { '2xx': 0, '3xx': 0, '4xx': 0, '5xx': 0 },
       meanLatencyMs: null,
       p50LatencyMs: null,
@@ -176,7 +177,7 @@ describe('GET /v1/usage', () => {
 
     const byKey = await usage(t.app, one.token, `?keyId=${two.key.keyId}`).expect(200);
     expect(byKey.body.filters).toEqual({ keyId: two.key.keyId, route: null });
-    expect(byKey.body.totals).toMatchObject({ requests: 2, byKey: [{ keyId: two.key.keyId, requests: 2, limited: 0 }] });
+    expect(byKey.body.totals).toMatchObject({ requests: 2, byKey: [{ keyId: two.key.keyId, requests: 2, limited: 0, units: 2 }] });
 
     const byRoute = await usage(t.app, one.token, `?route=${encodeURIComponent(VOLTAGE_ROUTE)}`).expect(200);
     expect(byRoute.body.totals.requests).toBe(3);
@@ -185,8 +186,8 @@ describe('GET /v1/usage', () => {
     // The two usage queries above were made with key one: they count too (GET /v1/usage).
     const all = await usage(t.app, one.token).expect(200);
     expect(all.body.totals.byKey).toEqual([
-      { keyId: one.key.keyId, requests: 5, limited: 0 },
-      { keyId: two.key.keyId, requests: 2, limited: 0 },
+      { keyId: one.key.keyId, requests: 5, limited: 0, units: 5 },
+      { keyId: two.key.keyId, requests: 2, limited: 0, units: 2 },
     ]);
     expect(all.body.totals.byRoute.map((r: { route: string; requests: number }) => [r.route, r.requests])).toEqual([
       [VOLTAGE_ROUTE, 3],
