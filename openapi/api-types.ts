@@ -626,7 +626,7 @@ export interface paths {
         };
         /**
          * Export API usage as CSV
-         * @description The same counters as `GET /v1/usage`, with the same filters, as CSV: one row per day × key × route × status class, with `requests`, `limited`, `latency_ms_total`, estimated `p50_latency_ms` / `p95_latency_ms`, and the latency bucket counts (le_5ms, le_10ms, le_25ms, le_50ms, le_100ms, le_250ms, le_500ms, le_1000ms, le_2500ms, gt_2500ms), so rows can be re-aggregated. Sent as an attachment (Content-Disposition).
+         * @description The same counters as `GET /v1/usage`, with the same filters, as CSV: one row per day × key × route × status class, with `requests`, `limited`, `units` (quota units used: one per call, one per item of a batch; none for calls refused by a limit), `latency_ms_total`, estimated `p50_latency_ms` / `p95_latency_ms`, and the latency bucket counts (le_5ms, le_10ms, le_25ms, le_50ms, le_100ms, le_250ms, le_500ms, le_1000ms, le_2500ms, gt_2500ms), so rows can be re-aggregated. Sent as an attachment (Content-Disposition).
          */
         get: operations["exportUsage"];
         put?: never;

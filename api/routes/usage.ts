@@ -41,7 +41,7 @@ function quotaView(s: QuotaStanding): z.infer<typeof quotaStandingSchema> {
 }
 
 const BUCKET_COLUMNS = [...LATENCY_BOUNDS_MS.map((b) => `le_${b}ms`), `gt_${LATENCY_BOUNDS_MS[LATENCY_BOUNDS_MS.length - 1]}ms`];
-const CSV_HEADER = ['day', 'key_id', 'route', 'status_class', 'requests', 'limited', 'latency_ms_total', 'p50_latency_ms', 'p95_latency_ms', ...BUCKET_COLUMNS];
+const CSV_HEADER = ['day', 'key_id', 'route', 'status_class', 'requests', 'limited', 'units', 'latency_ms_total', 'p50_latency_ms', 'p95_latency_ms', ...BUCKET_COLUMNS];
 
 function csvRow(row: UsageCounterRow): CsvRow {
   return [
@@ -51,6 +51,7 @@ function csvRow(row: UsageCounterRow): CsvRow {
     row.statusClass,
     row.count,
     row.limited,
+    row.units,
     row.latencyMsTotal,
     estimatePercentile(row.latencyBuckets, 50),
     estimatePercentile(row.latencyBuckets, 95),
@@ -134,14 +135,14 @@ export const usageRoutes: RouteModule = {
       summary: 'Export API usage as CSV',
       description:
         'The same counters as `GET /v1/usage`, with the same filters, as CSV: one row per day × key × route × status class, with ' +
-        '`requests`, `limited`, `latency_ms_total`, estimated `p50_latency_ms` / `p95_latency_ms`, and the latency bucket counts ' +
+        '`requests`, `limited`, `units` (quota units used: one per call, one per item of a batch; none for calls refused by a limit), `latency_ms_total`, estimated `p50_latency_ms` / `p95_latency_ms`, and the latency bucket counts ' +
         `(${BUCKET_COLUMNS.join(', ')}), so rows can be re-aggregated. Sent as an attachment (Content-Disposition).`,
       security,
       request: { query: usageQuerySchema },
       responses: {
         200: {
           description: 'CSV with a header row (RFC 4180, CRLF line ends).',
-          content: { 'text/csv': { schema: z.string().meta({ example: `${CSV_HEADER.join(',')}\r\n2026-12-01,h7kq2mzx4c5d,POST /v1/estimates,2xx,401,0,2968,5.8,21.6,180,160,52,9,0,0,0,0,0,0\r\n` }) } },
+          content: { 'text/csv': { schema: z.string().meta({ example: `${CSV_HEADER.join(',')}\r\n2026-12-01,h7kq2mzx4c5d,POST /v1/estimates,2xx,401,0,401,2968,5.8,21.6,180,160,52,9,0,0,0,0,0,0\r\n` }) } },
         },
         ...errors,
       },

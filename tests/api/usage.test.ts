@@ -251,11 +251,13 @@ describe('GET /v1/usage/export', () => {
     expect(res.headers['content-disposition']).toBe(`attachment; filename="treadwise-usage-${org.slug}-2026-11-28-to-2026-12-01.csv"`);
     const [header, ...lines] = res.text.trimEnd().split('\r\n');
     const columns = header.split(',');
-    expect(columns.slice(0, 9)).toEqual(['day', 'key_id', 'route', 'status_class', 'requests', 'limited', 'latency_ms_total', 'p50_latency_ms', 'p95_latency_ms']);
-    expect(columns.slice(9)).toEqual(['le_5ms', 'le_10ms', 'le_25ms', 'le_50ms', 'le_100ms', 'le_250ms', 'le_500ms', 'le_1000ms', 'le_2500ms', 'gt_2500ms']);
+    expect(columns.slice(0, 10)).toEqual(['day', 'key_id', 'route', 'status_class', 'requests', 'limited', 'units', 'latency_ms_total', 'p50_latency_ms', 'p95_latency_ms']);
+    expect(columns.slice(10)).toEqual(['le_5ms', 'le_10ms', 'le_25ms', 'le_50ms', 'le_100ms', 'le_250ms', 'le_500ms', 'le_1000ms', 'le_2500ms', 'gt_2500ms']);
 
     const rows = lines.map((line) => Object.fromEntries(line.split(',').map((v, i) => [columns[i], v])));
     const summary = rows.map((r) => [r.day, r.key_id, r.route, r.status_class, Number(r.requests)]);
+    // single calls: one quota unit each, refused-by-validation calls included (only limits refuse units)
+    for (const r of rows) expect(Number(r.units)).toBe(Number(r.requests) - Number(r.limited));
     expect(summary).toEqual(
       [
         ['2026-12-01', one.key.keyId, VOLTAGE_ROUTE, '2xx', 3],
@@ -264,7 +266,7 @@ describe('GET /v1/usage/export', () => {
       ].sort((x, y) => String(x[1]).localeCompare(String(y[1])) || String(x[2]).localeCompare(String(y[2])) || String(x[3]).localeCompare(String(y[3]))),
     );
     for (const r of rows) {
-      const inBuckets = columns.slice(9).reduce((sum, c) => sum + Number(r[c]), 0);
+      const inBuckets = columns.slice(10).reduce((sum, c) => sum + Number(r[c]), 0);
       expect(inBuckets).toBe(Number(r.requests));
     }
   });
