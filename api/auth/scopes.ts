@@ -1,13 +1,13 @@
-import { SCOPE_VALUES } from '../../shared/schemas/api-keys.js';
+import { EMBED_SCOPE_VALUES, ROLE_GRANTS, ROLE_VALUES, SCOPE_VALUES } from '../../shared/tables/access.js';
 
 /** What an API key may do. Embed (browser) keys only ever get `sizing:run` and `catalog:read`. */
 export const SCOPES = SCOPE_VALUES;
 export type Scope = (typeof SCOPES)[number];
 
-export const EMBED_SCOPES: readonly Scope[] = ['sizing:run', 'catalog:read'];
+export const EMBED_SCOPES: readonly Scope[] = EMBED_SCOPE_VALUES;
 
 /** Roles inside an organisation, most privileged first. */
-export const ROLES = ['admin', 'estimator', 'viewer'] as const;
+export const ROLES = ROLE_VALUES;
 export type Role = (typeof ROLES)[number];
 
 const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };
@@ -20,8 +20,4 @@ export function roleAtLeast(role: Role, needed: Role): boolean {
  * The scopes a user of a role could grant to a key: a new key's scopes can never exceed those of
  * whoever creates it.
  */
-export const ROLE_SCOPES: Record<Role, readonly Scope[]> = {
-  admin: SCOPES,
-  estimator: ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write'],
-  viewer: ['projects:read', 'catalog:read', 'usage:read'],
-};
+export const ROLE_SCOPES: Record<Role, readonly Scope[]> = ROLE_GRANTS;

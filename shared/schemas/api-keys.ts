@@ -1,18 +1,10 @@
 import { z } from 'zod';
+import { SCOPE_VALUES } from '../tables/access.js';
 import { createdByRequestIdSchema } from './common.js';
 import { pageOf } from './page.js';
 import { nameText } from './text.js';
 
-export const SCOPE_VALUES = [
-  'sizing:run',
-  'projects:read',
-  'projects:write',
-  'catalog:read',
-  'catalog:write',
-  'batches:write',
-  'usage:read',
-  'keys:manage',
-] as const;
+export { SCOPE_VALUES };
 
 export const keyKindSchema = z.enum(['server', 'embed']).meta({ id: 'KeyKind', description: '`server` keys for servers, `embed` keys for shop web pages.' });
 

@@ -1,28 +1,11 @@
 import { type AbstractControl, type ValidationErrors, type ValidatorFn } from '@angular/forms';
 
+import { EMBED_SCOPE_VALUES, ROLE_GRANTS, SCOPE_VALUES } from '../../../../shared/tables/access.js';
 import type { CreateApiKeyRequest, KeyKind, Role, Scope } from '../core/api-types.js';
 
-/** Every scope, in the order the API documents them (components['schemas']['Scope']). */
-export const ALL_SCOPES: readonly Scope[] = [
-  'sizing:run',
-  'projects:read',
-  'projects:write',
-  'catalog:read',
-  'catalog:write',
-  'batches:write',
-  'usage:read',
-  'keys:manage',
-];
-
-/** What an embed key may hold (the API's rule in shared/schemas/api-keys.ts). */
-export const EMBED_SCOPES: readonly Scope[] = ['sizing:run', 'catalog:read'];
-
-/** What a role may grant: a key never gets more than its creator (api/auth/scopes.ts, ROLE_SCOPES). */
-const ROLE_GRANTS: Record<Role, readonly Scope[]> = {
-  admin: ALL_SCOPES,
-  estimator: ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write'],
-  viewer: ['projects:read', 'catalog:read', 'usage:read'],
-};
+/** Every scope, what an embed key may hold and what each role may grant: the API's own table. */
+export const ALL_SCOPES: readonly Scope[] = SCOPE_VALUES;
+export const EMBED_SCOPES: readonly Scope[] = EMBED_SCOPE_VALUES;
 
 export function offeredScopes(kind: KeyKind, role: Role | null): Scope[] {
   const grantable = role ? ROLE_GRANTS[role] : [];
