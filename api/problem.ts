@@ -1,9 +1,8 @@
-/** A failure the API reports as RFC 9457 problem+json; thrown anywhere, rendered in one place. */
-export interface FieldError {
-  path: string;
-  message: string;
-}
+import type { FieldError } from '../shared/schemas/check-input.js';
 
+export type { FieldError };
+
+/** A failure the API reports as RFC 9457 problem+json; thrown anywhere, rendered in one place. */
 export class HttpProblem extends Error {
   constructor(
     readonly status: number,

@@ -7,12 +7,12 @@ import {
   type BatchDetail,
   type EstimateBatchRequest,
 } from '../../shared/schemas/estimate-batch.js';
-import { estimateRequestSchema } from '../../shared/schemas/estimate.js';
+import { checkBatchItem } from '../../shared/sizing/batch/items.js';
 import { MAX_ANSWER_BYTES } from '../../shared/tables/limits.js';
 import { organizationOf } from '../auth/principal.js';
 import { costBudget } from '../middleware/cost-budget.js';
 import { enforceQuotaUnits } from '../middleware/metering.js';
-import { checkInput, validateBody, validateQuery } from '../middleware/validate.js';
+import { validateBody, validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
 import { HttpProblem } from '../problem.js';
 import { runBatch, summarize, type CheckedItem } from '../services/estimate-batch.js';
@@ -39,12 +39,7 @@ const locals = (res: Response) => res.locals as unknown as BatchLocals;
 
 /** Validates each item on its own with the schema POST /v1/estimates uses; a bad one becomes its problem. */
 export function checkItems(body: EstimateBatchRequest): CheckedItem[] {
-  return body.items.map((item, index) => {
-    const ref = item.ref ?? null;
-    const checked = checkInput(estimateRequestSchema, item.request);
-    if (checked.ok) return { index, ref, input: checked.data };
-    return { index, ref, problem: { code: 'validation_failed', detail: 'The request does not match the schema.', errors: checked.errors } };
-  });
+  return body.items.map((item, index) => checkBatchItem(index, item.ref ?? null, item.request));
 }
 
 /** The cost-budget charge: each valid item what one estimate of it costs, 1 for each refused one. */
