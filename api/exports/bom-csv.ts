@@ -1,6 +1,6 @@
 import type { BomLine, EstimateResult } from '../../shared/schemas/estimate.js';
 import type { ExportContext } from './context.js';
-import { writeCsv, type CsvRow } from './csv.js';
+import { writeCsv, type CsvRow } from '../../shared/tables/csv.js';
 
 /**
  * The bill of materials as CSV, for the buyer: one row per line, then — when a catalog priced

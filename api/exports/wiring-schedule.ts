@@ -1,6 +1,6 @@
 import type { EstimateResult } from '../../shared/schemas/estimate.js';
 import { contextLines, type ExportContext } from './context.js';
-import { writeCsv, type CsvCell, type CsvRow } from './csv.js';
+import { writeCsv, type CsvCell, type CsvRow } from '../../shared/tables/csv.js';
 import { dataGaps, flightOfTread, pixelRuns } from './estimate-facts.js';
 
 /**

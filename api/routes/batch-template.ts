@@ -8,7 +8,7 @@ import {
   quaysideCorridor,
 } from '../../shared/schemas/estimate-examples.js';
 import { requestToRow, stairRowColumns } from '../../shared/schemas/stair-row.js';
-import { writeCsv } from '../exports/csv.js';
+import { writeCsv } from '../../shared/tables/csv.js';
 import { problemResponse } from '../openapi/document.js';
 import type { RouteModule } from './route-module.js';
 

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { MAX_USAGE_RANGE_DAYS, quotaStandingSchema, usageQuerySchema, usageReportSchema, type UsageQuery } from '../../shared/schemas/usage.js';
 import { organizationOf } from '../auth/principal.js';
 import { organizations } from '../db/schema.js';
-import { writeCsv, type CsvRow } from '../exports/csv.js';
+import { writeCsv, type CsvRow } from '../../shared/tables/csv.js';
 import type { AppDeps } from '../deps.js';
 import { validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';

@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import { storedCatalogItemSchema, toMinorUnits, type StoredCatalogItem } from '../../shared/schemas/catalog-store.js';
 import { catalogItemSchema } from '../../shared/schemas/catalog.js';
 import { hasControlCharacter } from '../../shared/schemas/text.js';
-import { unguardCell, writeCsv, type CsvCell } from '../exports/csv.js';
+import { unguardCell, writeCsv, type CsvCell } from '../../shared/tables/csv.js';
 import { zodFieldErrors } from '../middleware/validate.js';
 
 /**

@@ -1,7 +1,7 @@
 import { parse } from 'csv-parse/sync';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { unguardCell } from '../../api/exports/csv.js';
+import { unguardCell } from '../../shared/tables/csv.js';
 import { estimateRequestSchema } from '../../shared/schemas/estimate.js';
 import { estimateExamples } from '../../shared/schemas/estimate-examples.js';
 import { REF_COLUMN, rowToRequest, stairRowColumns } from '../../shared/schemas/stair-row.js';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { guardCell, unguardCell, writeCsv } from '../../../api/exports/csv.js';
+import { guardCell, unguardCell, writeCsv } from '../../../shared/tables/csv.js';
 import { readCsv } from './estimates.js';
 
 describe('the shared CSV writer', () => {
