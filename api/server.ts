@@ -1,3 +1,4 @@
+import cluster from 'node:cluster';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import path from 'node:path';
@@ -11,6 +12,7 @@ import { migrateDatabase } from './db/migrate.js';
 import { seedDemo, type SeedResult } from './db/seed.js';
 import { gracefulCloser } from './graceful-close.js';
 import { createHttpServer } from './http-server.js';
+import { shareWorkerRegistries } from './metrics/cluster-metrics.js';
 
 export interface RunningServer {
   url: string;
@@ -54,6 +56,8 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     await migrateDatabase(database);
     seed = await seedDemo(database, config.seedDemo, secrets.pepper);
     app = createApp({ config, database, logger, secrets, clock: () => new Date() });
+    // Under WEB_CONCURRENCY the primary gathers every worker's metrics from these registries.
+    if (cluster.isWorker) shareWorkerRegistries(app.locals.services.metrics.registries());
     server = createHttpServer(app, config);
     await new Promise<void>((resolve, reject) => {
       server.once('error', reject);

@@ -22,6 +22,7 @@ import { createPlanService } from './plans.js';
 import { createQuotaService } from './quotas.js';
 import { createRateLimitStores } from './rate-limit-stores.js';
 import { createUsageMeter } from './usage-meter.js';
+import { createMetrics } from '../metrics/metrics.js';
 
 /** Every service the routes use, built once per app from its dependencies. */
 export function createServices(deps: AppDeps) {
@@ -42,7 +43,8 @@ export function createServices(deps: AppDeps) {
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
   const catalog = createCatalogService({ db, clock });
-  const pricedEstimates = createPricedEstimates(catalog);
+  const metrics = createMetrics();
+  const pricedEstimates = createPricedEstimates(catalog, metrics.timeEngine);
   const projects = createProjectService({ db, clock });
   const stairs = createStairService({ db, clock, projects });
   // A stair runs as POST /v1/estimates does: priced from the stored catalog unless its input carries one.
@@ -70,6 +72,7 @@ export function createServices(deps: AppDeps) {
     plans,
     quotas,
     usageMeter,
+    metrics,
     rateLimitStores: createRateLimitStores(deps.config.redisUrl, deps.logger),
   };
 }
