@@ -42,7 +42,9 @@ export function createServices(deps: AppDeps) {
   const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, flushAfterCalls: deps.config.usageFlushAfterCalls, observer: quotas.observer });
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
-  const catalog = createCatalogService({ db, clock });
+  // Catalog changes reach the other instances' priced-catalog caches through the key-change channel.
+  const catalog = createCatalogService({ db, clock, onChange: (organizationId) => keyEvents.catalogChanged(organizationId) });
+  const keyEvents = createKeyEvents({ database: deps.database, keyCache, allowedOrigins, catalog, logger: deps.logger });
   const metrics = createMetrics();
   const pricedEstimates = createPricedEstimates(catalog, metrics.timeEngine);
   const projects = createProjectService({ db, clock });
@@ -52,7 +54,7 @@ export function createServices(deps: AppDeps) {
   return {
     apiKeys,
     keyCache,
-    keyEvents: createKeyEvents({ database: deps.database, keyCache, allowedOrigins, logger: deps.logger }),
+    keyEvents,
     accessTokens,
     users,
     emailTokens,
