@@ -2,7 +2,7 @@ import cluster from 'node:cluster';
 import { runPrimary, singleProcessReason } from './cluster.js';
 import { ConfigError, loadConfig, type Config } from './config.js';
 import { DEMO_PASSWORD, demoMembers, demoOperator } from './db/demo-data.js';
-import { createLogger } from './logger.js';
+import { createServerLogger } from './logger.js';
 import { startServer, type RunningServer } from './server.js';
 
 function configOrExit(): Config {
@@ -17,7 +17,9 @@ function configOrExit(): Config {
 
 async function main(): Promise<void> {
   const config = configOrExit();
-  const logger = createLogger(config.logLevel);
+  const { logger, flush } = createServerLogger(config.logLevel);
+  // Lines still queued reach stdout before the process ends, however it ends normally.
+  process.on('exit', flush);
   const single = singleProcessReason(config);
   if (single) process.stdout.write(`${single}\n`);
   else if (config.webConcurrency > 1 && cluster.isPrimary) return runPrimary(config, logger);
