@@ -8622,7 +8622,10 @@ export interface operations {
     };
     calculateVoltageDrop: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description `false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`. */
+                trace?: "true" | "false";
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -8691,7 +8694,10 @@ export interface operations {
     };
     calculateCable: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description `false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`. */
+                trace?: "true" | "false";
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -8760,7 +8766,10 @@ export interface operations {
     };
     calculateDriver: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description `false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`. */
+                trace?: "true" | "false";
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -8829,7 +8838,10 @@ export interface operations {
     };
     calculatePixels: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description `false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`. */
+                trace?: "true" | "false";
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -8898,7 +8910,10 @@ export interface operations {
     };
     calculateReels: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description `false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`. */
+                trace?: "true" | "false";
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -8967,7 +8982,10 @@ export interface operations {
     };
     createEstimate: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description `false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`. */
+                trace?: "true" | "false";
+            };
             header?: never;
             path?: never;
             cookie?: never;

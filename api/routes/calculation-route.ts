@@ -1,9 +1,10 @@
 import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi';
-import type { RequestHandler, Router } from 'express';
+import type { RequestHandler, Response, Router } from 'express';
+import { traceQuerySchema, type TraceQuery } from '../../shared/schemas/common.js';
 import type { z } from 'zod';
 import { MAX_ANSWER_BYTES } from '../../shared/tables/limits.js';
 import { serializeAnswer } from '../answer.js';
-import { validateBody } from '../middleware/validate.js';
+import { validateBody, validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
 
 export { serializeAnswer };
@@ -46,9 +47,20 @@ const untimed: EngineTimer = (_operation, work) => work();
 
 /** Mounts `POST <path>` on the router: parse → charge its cost → compute → answer. */
 export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation, charge: CostCharger, time: EngineTimer = untimed): void {
-  router.post(calc.path.slice(basePath.length) || '/', validateBody(calc.request), charge(calc.cost ?? ONE_UNIT), (_req, res) => {
-    res.type('application/json').send(serializeAnswer(time(calc.path.slice(calc.path.lastIndexOf('/') + 1), () => calc.compute(res.locals.body))));
+  const operation = calc.path.slice(calc.path.lastIndexOf('/') + 1);
+  router.post(calc.path.slice(basePath.length) || '/', validateTraceQuery, validateBody(calc.request), charge(calc.cost ?? ONE_UNIT), (_req, res) => {
+    const answer = time(operation, () => calc.compute(res.locals.body));
+    res.type('application/json').send(serializeAnswer(withTrace(answer, res)));
   });
+}
+
+export const validateTraceQuery = validateQuery(traceQuerySchema);
+
+/** The answer as asked: with `?trace=false`, its trace emptied (the schema keeps the field). */
+export function withTrace<T>(answer: T, res: Response): T {
+  const query = res.locals.query as TraceQuery | undefined;
+  if (query?.trace !== 'false' || answer === null || typeof answer !== 'object' || !('trace' in answer)) return answer;
+  return { ...answer, trace: [] };
 }
 
 export function documentCalculation(registry: OpenAPIRegistry, calc: AnyCalculation): void {
@@ -60,7 +72,7 @@ export function documentCalculation(registry: OpenAPIRegistry, calc: AnyCalculat
     security: [{ bearer: [] }],
     summary: calc.summary,
     description: calc.description + (calc.notes ?? CALCULATION_NOTES),
-    request: { body: { required: true, content: { 'application/json': { schema: calc.request } } } },
+    request: { query: traceQuerySchema, body: { required: true, content: { 'application/json': { schema: calc.request } } } },
     responses: {
       200: { description: 'The result, with warnings, engineVersion and trace.', content: { 'application/json': { schema: calc.response } } },
       400: problemResponse('Malformed JSON or input outside the schema (`code: validation_failed`, with `errors[].path`).'),

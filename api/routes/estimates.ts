@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { estimateRequestSchema, estimateResponseSchema } from '../../shared/schemas/estimate.js';
 import { estimate } from '../../shared/sizing/estimate/estimate.js';
-import { defineCalculation, documentCalculation, serializeAnswer } from './calculation-route.js';
+import { defineCalculation, documentCalculation, serializeAnswer, validateTraceQuery, withTrace } from './calculation-route.js';
 import { validateBody } from '../middleware/validate.js';
 import { organizationOf } from '../auth/principal.js';
 import { estimateCost } from './sizing-costs.js';
@@ -41,9 +41,9 @@ export const estimateRoutes: RouteModule = {
   router(deps, services) {
     const router = Router();
     const charge = costBudget(services, deps.logger);
-    router.post('/', validateBody(estimateRequestSchema), charge(estimateCost as (body: never) => number), async (_req, res) => {
+    router.post('/', validateTraceQuery, validateBody(estimateRequestSchema), charge(estimateCost as (body: never) => number), async (_req, res) => {
       const result = await services.pricedEstimates.run(organizationOf(res), res.locals.body);
-      res.type('application/json').send(serializeAnswer(result));
+      res.type('application/json').send(serializeAnswer(withTrace(result, res)));
     });
     return router;
   },

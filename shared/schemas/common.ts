@@ -25,3 +25,17 @@ export const engineVersionSchema = z.string().meta({ description: 'Semver of the
 export const createdByRequestIdSchema = z
   .string()
   .meta({ description: 'The X-Request-Id of the request that created this; on an Idempotency-Key replay, the first call’s.', example: '5f0c9a1e-2b7d-4c3e-9a51-0d8e6f4b2a10' });
+
+/**
+ * `?trace=false` on the sizing routes: the answer's `trace` comes back empty. For callers that only
+ * want the figures (a checkout re-pricing a basket); the figures themselves are the same.
+ */
+export const traceQuerySchema = z
+  .strictObject({
+    trace: z
+      .enum(['true', 'false'])
+      .default('true')
+      .meta({ description: '`false`: answer with an empty `trace` (the figures are unchanged), a smaller and quicker answer. Default `true`.' }),
+  })
+  .meta({ id: 'TraceQuery' });
+export type TraceQuery = z.output<typeof traceQuerySchema>;

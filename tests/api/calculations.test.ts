@@ -135,3 +135,18 @@ describe('POST /v1/calculations/reels', () => {
     await expectValidationProblem('reels', { piecesMm: [850, 6000], reelLengthMm: 5000 }, 'piecesMm.1');
   });
 });
+
+describe('?trace=false', () => {
+  it('answers the same figures with an empty trace, and refuses other query values and unknown parameters', async () => {
+    const body = { supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } };
+    const full = await post('voltage-drop', body).expect(200);
+    const lean = await post('voltage-drop?trace=false', body).expect(200);
+    expect(full.body.trace.length).toBeGreaterThan(0);
+    expect(lean.body.trace).toEqual([]);
+    expect({ ...lean.body, trace: undefined }).toEqual({ ...full.body, trace: undefined });
+    expect((await post('voltage-drop?trace=true', body).expect(200)).body).toEqual(full.body);
+    const bad = await post('voltage-drop?trace=no', body).expect(400);
+    expect(bad.body.errors[0].path).toBe('trace');
+    await post('voltage-drop?tracing=false', body).expect(400);
+  });
+});

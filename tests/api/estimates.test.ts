@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { estimateResponseSchema } from '../../shared/schemas/estimate.js';
-import { estimateExamples, harborLaneCheckout, hlK20Profile } from '../../shared/schemas/estimate-examples.js';
+import { alderRowTownhouse, estimateExamples, harborLaneCheckout, hlK20Profile } from '../../shared/schemas/estimate-examples.js';
 import { ENGINE_VERSION } from '../../shared/sizing/version.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
@@ -75,5 +75,15 @@ describe('POST /v1/estimates', () => {
   it('rejects a profile id no catalog holds, naming the field', async () => {
     const res = await post({ ...estimateExamples.alderRowTownhouse, controller: { profileId: 'HL-K99' } }).expect(400);
     expect(res.body.errors.map((e: { path: string }) => e.path)).toContain('controller.profileId');
+  });
+});
+
+describe('POST /v1/estimates?trace=false', () => {
+  it('answers the same estimate with an empty trace', async () => {
+    const full = await request(t.app).post('/v1/estimates').set('Authorization', `Bearer ${token}`).send(alderRowTownhouse).expect(200);
+    const lean = await request(t.app).post('/v1/estimates?trace=false').set('Authorization', `Bearer ${token}`).send(alderRowTownhouse).expect(200);
+    expect(full.body.trace.length).toBeGreaterThan(0);
+    expect(lean.body.trace).toEqual([]);
+    expect({ ...lean.body, trace: [] }).toEqual({ ...full.body, trace: [] });
   });
 });
