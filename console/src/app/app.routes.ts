@@ -1,6 +1,7 @@
 import type { Routes } from '@angular/router';
 
 import { requireSession } from './core/session-guard.js';
+import { requireOperator } from './core/operator-guard.js';
 import { requireRole } from './core/role-guard.js';
 
 export const routes: Routes = [
@@ -37,6 +38,12 @@ export const routes: Routes = [
         title: 'Keys · Treadwise',
         canActivate: [requireRole('keys:manage')],
         loadComponent: () => import('./keys/key-list.js').then((m) => m.KeyList),
+      },
+      {
+        path: 'team',
+        title: 'Team · Treadwise',
+        canActivate: [requireRole('members:manage')],
+        loadComponent: () => import('./team/team-page.js').then((m) => m.TeamPage),
       },
       {
         path: 'status',
