@@ -46,6 +46,12 @@ export const routes: Routes = [
         loadComponent: () => import('./team/team-page.js').then((m) => m.TeamPage),
       },
       {
+        path: 'activity',
+        title: 'Activity · Treadwise',
+        canActivate: [requireRole('audit:read')],
+        loadComponent: () => import('./activity/activity-page.js').then((m) => m.ActivityPage),
+      },
+      {
         path: 'status',
         title: 'Status · Treadwise',
         loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),
