@@ -52,6 +52,18 @@ export const routes: Routes = [
         loadComponent: () => import('./activity/activity-page.js').then((m) => m.ActivityPage),
       },
       {
+        path: 'operator/organizations',
+        title: 'Organisations & plans · Treadwise',
+        canActivate: [requireOperator],
+        loadComponent: () => import('./operator/organization-plans.js').then((m) => m.OrganizationPlans),
+      },
+      {
+        path: 'operator/outbox',
+        title: 'Mail outbox · Treadwise',
+        canActivate: [requireOperator],
+        loadComponent: () => import('./operator/mail-outbox.js').then((m) => m.MailOutbox),
+      },
+      {
         path: 'status',
         title: 'Status · Treadwise',
         loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),
