@@ -40,6 +40,12 @@ export const routes: Routes = [
         loadComponent: () => import('./keys/key-list.js').then((m) => m.KeyList),
       },
       {
+        path: 'traffic',
+        title: 'Traffic · Treadwise',
+        canActivate: [requireRole('usage:read')],
+        loadComponent: () => import('./traffic/traffic-page.js').then((m) => m.TrafficPage),
+      },
+      {
         path: 'team',
         title: 'Team · Treadwise',
         canActivate: [requireRole('members:manage')],
