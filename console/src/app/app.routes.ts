@@ -46,6 +46,12 @@ export const routes: Routes = [
         loadComponent: () => import('./traffic/traffic-page.js').then((m) => m.TrafficPage),
       },
       {
+        path: 'bench',
+        title: 'Bench · Treadwise',
+        canActivate: [requireRole('sizing:run')],
+        loadComponent: () => import('./bench/bench-page.js').then((m) => m.BenchPage),
+      },
+      {
         path: 'team',
         title: 'Team · Treadwise',
         canActivate: [requireRole('members:manage')],

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 
+import { MAX_USAGE_RANGE_DAYS } from '../../../../shared/schemas/usage.js';
 import { day, report } from './traffic-fixtures.js';
-import { OTHER_SERIES, callsPerDayPerKey, chartKeys, dayErrors, defaultRange, exportFilename, rangeProblem, requestsByDay, summarize } from './traffic-data.js';
+import { MAX_RANGE_DAYS, OTHER_SERIES, callsPerDayPerKey, chartKeys, dayErrors, defaultRange, exportFilename, rangeProblem, requestsByDay, summarize } from './traffic-data.js';
 
 const CHECKOUT = 'h7kq2mzx4c5d';
 const PAGES = 'p4g3sk3yabcd';
@@ -54,6 +55,10 @@ describe('traffic data shaping', () => {
     expect(rangeProblem('2026-12-03', '2026-12-02')).toContain('must not be after');
     expect(rangeProblem('2025-12-01', '2026-12-01')).toBeNull(); // 366 days, inclusive
     expect(rangeProblem('2025-11-30', '2026-12-01')).toContain('366 days');
+  });
+
+  it('allows the range the usage API allows', () => {
+    expect(MAX_RANGE_DAYS).toBe(MAX_USAGE_RANGE_DAYS);
   });
 
   it('names the download as the API suggests', () => {
