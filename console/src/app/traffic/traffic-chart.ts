@@ -12,7 +12,12 @@ const COLOURS = ['#27676e', '#e39b2d', '#6b5fa8', '#3f8f4f', '#b5476b', '#8a8f93
   selector: 'tw-traffic-chart',
   imports: [BaseChartDirective],
   // Only the parts a bar chart needs are registered, which keeps the chunk small.
-  providers: [provideCharts({ registerables: [BarController, BarElement, CategoryScale, LinearScale, Legend, Tooltip] })],
+  providers: [
+    provideCharts({
+      registerables: [BarController, BarElement, CategoryScale, LinearScale, Legend, Tooltip],
+      defaults: { font: { family: "'Fira Sans', sans-serif" } }, // the console's own face, not the canvas default
+    }),
+  ],
   template: `
     <div class="tw-chart">
       <canvas baseChart type="bar" [data]="data()" [options]="options" role="img" [attr.aria-label]="description()"></canvas>
