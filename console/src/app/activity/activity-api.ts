@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import type { Observable } from 'rxjs';
+import { type Observable, map } from 'rxjs';
 
-import type { AuditEventPage } from '../core/api-types.js';
+import type { AuditEventPage, MemberPage } from '../core/api-types.js';
 
 export const ACTIVITY_PAGE_SIZE = 25;
 
@@ -16,5 +16,12 @@ export class ActivityApi {
     if (filter.action) params['action'] = filter.action;
     if (filter.cursor) params['cursor'] = filter.cursor;
     return this.http.get<AuditEventPage>('/v1/audit-events', { params });
+  }
+
+  /** Members by user id, so the trail names people rather than ids (former members stay ids). */
+  memberNames(): Observable<Map<string, string>> {
+    return this.http
+      .get<MemberPage>('/v1/members', { params: { limit: 200 } })
+      .pipe(map((page) => new Map(page.items.map((m) => [m.userId, m.name ? `${m.name} (${m.email})` : m.email]))));
   }
 }

@@ -37,6 +37,9 @@ describe('ActivityPage', () => {
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(ActivityPage);
     await fixture.whenStable();
+    if (role === 'admin') {
+      http.expectOne((r) => r.url === '/v1/members').flush({ items: [{ id: 'm-1', userId: 'u-mira', email: 'mira@harborlane.test', name: 'Mira', role: 'admin', createdAt: '2026-11-01T08:00:00.000Z' }], nextCursor: null });
+    }
   }
 
   afterEach(() => http.verify());
@@ -53,7 +56,7 @@ describe('ActivityPage', () => {
     await answer([event('e1', 'api_key.created', { name: 'Checkout server', kind: 'server' })], null);
     const item = page().querySelector('[data-action="api_key.created"]')!;
     expect(item.textContent).toContain('api key created');
-    expect(item.textContent).toContain('user u-mira');
+    expect(item.textContent).toContain('by Mira (mira@harborlane.test)');
     expect(item.textContent).toContain('Checkout server');
   });
 
@@ -90,6 +93,7 @@ describe('ActivityPage', () => {
   it('asks the API nothing for a role that may not read the trail', async () => {
     await render('estimator');
     http.expectNone((r) => r.url === '/v1/audit-events');
+    http.expectNone((r) => r.url === '/v1/members');
     expect(page().querySelector('[data-testid="activity-not-allowed"]')).not.toBeNull();
   });
 });

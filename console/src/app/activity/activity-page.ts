@@ -30,6 +30,8 @@ export class ActivityPage {
 
   protected readonly groups = AUDIT_ACTION_GROUPS;
   protected readonly actionLabel = actionLabel;
+  /** Member names by user id; ids are shown until (or unless) they load. */
+  protected readonly names = signal<ReadonlyMap<string, string>>(new Map());
   protected readonly actorLabel = actorLabel;
   protected readonly dataPairs = dataPairs;
   protected readonly mayRead = computed(() => roleMay(this.auth.role(), 'audit:read'));
@@ -41,7 +43,9 @@ export class ActivityPage {
 
   constructor() {
     inject(DestroyRef).onDestroy(() => this.pending?.unsubscribe());
-    if (this.mayRead()) this.fetch();
+    if (!this.mayRead()) return;
+    this.api.memberNames().subscribe({ next: (names) => this.names.set(names), error: () => undefined });
+    this.fetch();
   }
 
   protected filterBy(action: string): void {

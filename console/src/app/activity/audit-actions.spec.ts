@@ -15,6 +15,8 @@ describe('audit action helpers', () => {
     expect(actorLabel({ type: 'api_key', id: 'h7kq2mzx4c5d' })).toBe('key h7kq2mzx4c5d');
     expect(actorLabel({ type: 'user', id: null })).toBe('user');
     expect(actorLabel({ type: 'system', id: null })).toBe('the system');
+    expect(actorLabel({ type: 'user', id: 'u-theo' }, new Map([['u-theo', 'Theo (theo@harborlane.test)']]))).toBe('Theo (theo@harborlane.test)');
+    expect(actorLabel({ type: 'user', id: 'u-gone' }, new Map())).toBe('user u-gone'); // a former member
   });
 
   it('shows nested data as JSON and strings as they are', () => {

@@ -22,9 +22,11 @@ export function actionLabel(action: string): string {
 }
 
 /** Who did it, in a few words. */
-export function actorLabel(actor: AuditEvent['actor']): string {
+export function actorLabel(actor: AuditEvent['actor'], names: ReadonlyMap<string, string> = new Map()): string {
   if (actor.type === 'system') return 'the system';
   if (actor.type === 'anonymous') return 'someone signed out';
+  const name = actor.type === 'user' && actor.id ? names.get(actor.id) : undefined;
+  if (name) return name;
   const kind = actor.type === 'api_key' ? 'key' : 'user';
   return actor.id ? `${kind} ${actor.id}` : kind;
 }

@@ -76,6 +76,7 @@ describe('OrganizationPlans', () => {
 describe('planChoices', () => {
   it('offers the starting plans, and a plan the console does not know when an organisation is on it', () => {
     expect(planChoices('shop').map((p) => p.id)).toEqual(['free', 'shop', 'partner', 'platform']);
+    expect(planChoices('shop')[1]!.name).toBe('Shop · 50,000 units a month'); // migrations/0001: shop = 50 000 a month
     expect(planChoices('enterprise-2027').map((p) => p.id)).toEqual(['free', 'shop', 'partner', 'platform', 'enterprise-2027']);
   });
 });

@@ -12,6 +12,6 @@ export const KNOWN_PLANS: ReadonlyArray<{ id: string; name: string; monthlyQuota
 
 /** The plans to offer for an organisation: the known ones, and its own if the console does not know it. */
 export function planChoices(currentPlanId: string): Array<{ id: string; name: string }> {
-  const known = KNOWN_PLANS.map(({ id, name }) => ({ id, name }));
+  const known = KNOWN_PLANS.map(({ id, name, monthlyQuota }) => ({ id, name: `${name} · ${monthlyQuota.toLocaleString('en')} units a month` }));
   return known.some((p) => p.id === currentPlanId) ? known : [...known, { id: currentPlanId, name: currentPlanId }];
 }
