@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 
 import { MAX_USAGE_RANGE_DAYS } from '../../../../shared/schemas/usage.js';
 import { day, report } from './traffic-fixtures.js';
-import { MAX_RANGE_DAYS, OTHER_SERIES, callsPerDayPerKey, chartKeys, dayErrors, defaultRange, exportFilename, rangeProblem, requestsByDay, summarize } from './traffic-data.js';
+import { MAX_RANGE_DAYS, OTHER_SERIES, formatCount, formatOneDecimal, callsPerDayPerKey, chartKeys, dayErrors, defaultRange, exportFilename, rangeProblem, requestsByDay, summarize } from './traffic-data.js';
 
 const CHECKOUT = 'h7kq2mzx4c5d';
 const PAGES = 'p4g3sk3yabcd';
@@ -55,6 +55,13 @@ describe('traffic data shaping', () => {
     expect(rangeProblem('2026-12-03', '2026-12-02')).toContain('must not be after');
     expect(rangeProblem('2025-12-01', '2026-12-01')).toBeNull(); // 366 days, inclusive
     expect(rangeProblem('2025-11-30', '2026-12-01')).toContain('366 days');
+  });
+
+  it('formats counts with thousands separators and latencies to one decimal', () => {
+    expect(formatCount(50000)).toBe('50,000');
+    expect(formatOneDecimal(21.64)).toBe('21.6');
+    expect(formatOneDecimal(5)).toBe('5');
+    expect(formatOneDecimal(null)).toBe('—');
   });
 
   it('allows the range the usage API allows', () => {

@@ -104,3 +104,18 @@ export function exportFilename(contentDisposition: string | null, filter: Traffi
   const named = contentDisposition ? /filename="([^"]+)"/.exec(contentDisposition)?.[1] : undefined;
   return named ?? `treadwise-usage-${filter.from}-to-${filter.to}.csv`;
 }
+
+// Intl rather than Angular's number pipe: the pipe's module is shared with the first page's code, so
+// using it here would move it into the initial bundle.
+const WHOLE = new Intl.NumberFormat('en');
+const ONE_DECIMAL = new Intl.NumberFormat('en', { maximumFractionDigits: 1 });
+
+/** 50000 → "50,000". */
+export function formatCount(value: number): string {
+  return WHOLE.format(value);
+}
+
+/** 21.64 → "21.6"; null (no calls) → "—". */
+export function formatOneDecimal(value: number | null): string {
+  return value === null ? '—' : ONE_DECIMAL.format(value);
+}

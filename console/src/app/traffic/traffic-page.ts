@@ -1,4 +1,4 @@
-import { DOCUMENT, DatePipe, DecimalPipe } from '@angular/common';
+import { DOCUMENT, DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
@@ -26,6 +26,8 @@ import {
   dayErrors,
   defaultRange,
   exportFilename,
+  formatCount,
+  formatOneDecimal,
   rangeProblem,
   requestsByDay,
   summarize,
@@ -36,7 +38,7 @@ type View = { state: 'loading' } | { state: 'ready'; report: UsageReport; keys: 
 /** The organisation's API traffic: calls per day per key, errors and 429s, latency, the month's quota. */
 @Component({
   selector: 'tw-traffic-page',
-  imports: [DatePipe, DecimalPipe, ReactiveFormsModule, MatButton, MatIcon, MatFormField, MatLabel, MatInput, MatSelect, MatOption, MatProgressBar, TrafficChart],
+  imports: [DatePipe, ReactiveFormsModule, MatButton, MatIcon, MatFormField, MatLabel, MatInput, MatSelect, MatOption, MatProgressBar, TrafficChart],
   templateUrl: './traffic-page.html',
   styleUrl: './traffic-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -73,6 +75,8 @@ export class TrafficPage {
     return view.state === 'ready' ? callsPerDayPerKey(view.report, view.keys) : null;
   });
   protected readonly dayErrors = dayErrors;
+  protected readonly formatCount = formatCount;
+  protected readonly formatOneDecimal = formatOneDecimal;
 
   constructor() {
     inject(DestroyRef).onDestroy(() => this.pending?.unsubscribe());
