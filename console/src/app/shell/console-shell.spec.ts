@@ -80,7 +80,7 @@ describe('ConsoleShell', () => {
 
   it('lists the operator pages for the operator', async () => {
     await render(fakeAuth('admin', true));
-    expect(sections()).toEqual(expect.arrayContaining(['Organisations & plans', 'Mail outbox']));
+    expect(sections()).toEqual(expect.arrayContaining(['Organisations', 'Mail outbox']));
   });
 
   it('lets the operator pick any organisation and switches to it', async () => {

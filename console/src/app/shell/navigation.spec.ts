@@ -32,9 +32,9 @@ describe('destinationsFor', () => {
   });
 
   it('shows the operator pages to the operator only, never to an admin', () => {
-    expect(labels('admin')).not.toContain('Organisations & plans');
+    expect(labels('admin')).not.toContain('Organisations');
     expect(labels('admin')).not.toContain('Mail outbox');
-    expect(labels('admin', true)).toEqual(expect.arrayContaining(['Organisations & plans', 'Mail outbox']));
-    expect(labels(null, true)).toEqual(['Organisations & plans', 'Mail outbox', 'Status']); // acting in no organisation
+    expect(labels('admin', true)).toEqual(expect.arrayContaining(['Organisations', 'Mail outbox']));
+    expect(labels(null, true)).toEqual(['Organisations', 'Mail outbox', 'Status']); // acting in no organisation
   });
 });
