@@ -31,6 +31,11 @@ describe('console routes', () => {
     ['/', '/status'], // the home page is the status page
     ['/keys', '/keys'],
     ['/status', '/status'],
+    ['/traffic', '/traffic'],
+    ['/bench', '/bench'],
+    ['/team', '/team'],
+    ['/activity', '/activity'],
+    ['/operator/outbox', '/operator/outbox'],
   ])('sends a visitor who is not signed in from %s to sign in', async (url, next) => {
     const harness = await RouterTestingHarness.create();
     await harness.navigateByUrl(url, SignInPage);

@@ -1,6 +1,7 @@
 import type { Routes } from '@angular/router';
 
 import { requireSession } from './core/session-guard.js';
+import { requireOperator } from './core/operator-guard.js';
 import { requireRole } from './core/role-guard.js';
 
 export const routes: Routes = [
@@ -37,6 +38,42 @@ export const routes: Routes = [
         title: 'Keys · Treadwise',
         canActivate: [requireRole('keys:manage')],
         loadComponent: () => import('./keys/key-list.js').then((m) => m.KeyList),
+      },
+      {
+        path: 'traffic',
+        title: 'Traffic · Treadwise',
+        canActivate: [requireRole('usage:read')],
+        loadComponent: () => import('./traffic/traffic-page.js').then((m) => m.TrafficPage),
+      },
+      {
+        path: 'bench',
+        title: 'Bench · Treadwise',
+        canActivate: [requireRole('sizing:run')],
+        loadComponent: () => import('./bench/bench-page.js').then((m) => m.BenchPage),
+      },
+      {
+        path: 'team',
+        title: 'Team · Treadwise',
+        canActivate: [requireRole('members:manage')],
+        loadComponent: () => import('./team/team-page.js').then((m) => m.TeamPage),
+      },
+      {
+        path: 'activity',
+        title: 'Activity · Treadwise',
+        canActivate: [requireRole('audit:read')],
+        loadComponent: () => import('./activity/activity-page.js').then((m) => m.ActivityPage),
+      },
+      {
+        path: 'operator/organizations',
+        title: 'Organisations & plans · Treadwise',
+        canActivate: [requireOperator],
+        loadComponent: () => import('./operator/organization-plans.js').then((m) => m.OrganizationPlans),
+      },
+      {
+        path: 'operator/outbox',
+        title: 'Mail outbox · Treadwise',
+        canActivate: [requireOperator],
+        loadComponent: () => import('./operator/mail-outbox.js').then((m) => m.MailOutbox),
       },
       {
         path: 'status',

@@ -1,11 +1,14 @@
 import type { Role } from './api-types.js';
 
 /** What the console offers a role. The API decides (api/auth/policy.ts); this only hides what it would refuse. */
-export type Capability = 'keys:manage' | 'sizing:run';
+export type Capability = 'keys:manage' | 'sizing:run' | 'usage:read' | 'members:manage' | 'audit:read';
 
 const LEAST_ROLE: Record<Capability, Role> = {
   'keys:manage': 'admin',
   'sizing:run': 'estimator',
+  'usage:read': 'viewer',
+  'members:manage': 'admin',
+  'audit:read': 'admin',
 };
 
 const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };

@@ -21,6 +21,16 @@ const CONSOLE_ICONS: Readonly<Record<string, string>> = {
   revoke: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="12" cy="12" r="8.5"/><path ${stroke} d="M6 6l12 12"/></svg>`,
   code: `<svg viewBox="0 0 24 24"><path ${stroke} d="m8.5 7-5 5 5 5M15.5 7l5 5-5 5"/></svg>`,
   refresh: `<svg viewBox="0 0 24 24"><path ${stroke} d="M19.5 12a7.5 7.5 0 1 1-2.2-5.3"/><path ${stroke} d="M19.5 4v4h-4"/></svg>`,
+  // Rising columns like treads seen from the front: calls over days.
+  traffic: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20h16M6.5 20v-5M11 20v-9M15.5 20v-7M20 20V6"/></svg>`,
+  team: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="9" cy="8.5" r="3.5"/><path ${stroke} d="M3 19.5c.9-3.2 3.2-4.8 6-4.8s5.1 1.6 6 4.8"/><path ${stroke} d="M15.5 5.2a3.5 3.5 0 0 1 0 6.6M17.5 14.9c1.6.6 2.8 2.1 3.5 4.6"/></svg>`,
+  activity: `<svg viewBox="0 0 24 24"><path ${stroke} d="M8 6h12M8 12h12M8 18h12"/><circle cx="4" cy="6" r="1.2" fill="currentColor"/><circle cx="4" cy="12" r="1.2" fill="currentColor"/><circle cx="4" cy="18" r="1.2" fill="currentColor"/></svg>`,
+  // A set square over a short flight: quick calculations.
+  bench: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20V6l14 14z"/><path ${stroke} d="M8 16v-2h2v2zM4 20h16"/></svg>`,
+  organizations: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20V8l6-3v15M10 20V10l10 2v8M3 20h18M13 15h4"/></svg>`,
+  mail: `<svg viewBox="0 0 24 24"><rect ${stroke} x="3" y="5.5" width="18" height="13" rx="2"/><path ${stroke} d="m3.5 7 8.5 6.5L20.5 7"/></svg>`,
+  download: `<svg viewBox="0 0 24 24"><path ${stroke} d="M12 4v11M7 10.5l5 5 5-5M5 19.5h14"/></svg>`,
+  open: `<svg viewBox="0 0 24 24"><path ${stroke} d="M14 4.5h5.5V10M19 5l-8 8M17 14v4.5a1.5 1.5 0 0 1-1.5 1.5h-10A1.5 1.5 0 0 1 4 18.5v-10A1.5 1.5 0 0 1 5.5 7H10"/></svg>`,
 };
 
 export function provideConsoleIcons(): EnvironmentProviders {

@@ -70,10 +70,17 @@ describe('ConsoleShell', () => {
 
   it('lists the keys section for an admin and hides it from a viewer', async () => {
     await render(fakeAuth('admin'));
-    expect(sections()).toEqual(['Keys', 'Status']);
+    expect(sections()).toContain('Keys');
+    expect(sections()).not.toContain('Mail outbox'); // operator pages: the operator only
     TestBed.resetTestingModule();
     await render(fakeAuth('viewer'));
-    expect(sections()).toEqual(['Status']);
+    expect(sections()).not.toContain('Keys');
+    expect(sections()).toContain('Status');
+  });
+
+  it('lists the operator pages for the operator', async () => {
+    await render(fakeAuth('admin', true));
+    expect(sections()).toEqual(expect.arrayContaining(['Organisations', 'Mail outbox']));
   });
 
   it('lets the operator pick any organisation and switches to it', async () => {

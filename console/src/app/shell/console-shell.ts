@@ -59,7 +59,7 @@ export class ConsoleShell {
   protected readonly user = this.auth.user;
   protected readonly organization = this.auth.organization;
   protected readonly role = this.auth.role;
-  protected readonly destinations = computed(() => destinationsFor(this.role()));
+  protected readonly destinations = computed(() => destinationsFor(this.role(), this.user()?.operator === true));
   protected readonly compact = toSignal(
     inject(BreakpointObserver)
       .observe(COMPACT_QUERY)

@@ -2,14 +2,39 @@ import { describe, expect, it } from 'vitest';
 
 import { destinationsFor } from './navigation.js';
 
+const labels = (...args: Parameters<typeof destinationsFor>) => destinationsFor(...args).map((d) => d.label);
+
 describe('destinationsFor', () => {
   it('offers the keys page to admins only (GET /v1/keys needs the admin role)', () => {
-    expect(destinationsFor('admin').map((d) => d.label)).toContain('Keys');
-    expect(destinationsFor('estimator').map((d) => d.label)).not.toContain('Keys');
-    expect(destinationsFor('viewer').map((d) => d.label)).not.toContain('Keys');
+    expect(labels('admin')).toContain('Keys');
+    expect(labels('estimator')).not.toContain('Keys');
+    expect(labels('viewer')).not.toContain('Keys');
   });
 
   it('always offers the status page', () => {
-    expect(destinationsFor(null).map((d) => d.label)).toEqual(['Status']);
+    expect(labels(null)).toEqual(['Status']);
+  });
+
+  it('offers traffic to every role (GET /v1/usage needs the viewer role)', () => {
+    for (const role of ['admin', 'estimator', 'viewer'] as const) expect(labels(role)).toContain('Traffic');
+  });
+
+  it('offers team and activity to admins only (member changes and the audit trail need the admin role)', () => {
+    expect(labels('admin')).toEqual(expect.arrayContaining(['Team', 'Activity']));
+    expect(labels('estimator')).not.toContain('Team');
+    expect(labels('viewer')).not.toContain('Activity');
+  });
+
+  it('offers the bench to estimators and admins, not viewers (the calculations need the estimator role)', () => {
+    expect(labels('estimator')).toContain('Bench');
+    expect(labels('admin')).toContain('Bench');
+    expect(labels('viewer')).not.toContain('Bench');
+  });
+
+  it('shows the operator pages to the operator only, never to an admin', () => {
+    expect(labels('admin')).not.toContain('Organisations');
+    expect(labels('admin')).not.toContain('Mail outbox');
+    expect(labels('admin', true)).toEqual(expect.arrayContaining(['Organisations', 'Mail outbox']));
+    expect(labels(null, true)).toEqual(['Organisations', 'Mail outbox', 'Status']); // acting in no organisation
   });
 });

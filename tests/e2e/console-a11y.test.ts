@@ -1,0 +1,91 @@
+/// <reference lib="dom" />
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { type AxeFinding, seriousViolations } from './axe-scan.js';
+import { BrowserProfiles } from './browser-profiles.js';
+import { signIn } from './console-session.js';
+import { startServerProcess, type ServerProcess } from './server-process.js';
+
+const SCREENSHOTS = path.resolve('tests/e2e/screenshots'); // git-ignored
+const WIDTHS = { desktop: 1280, phone: 360 } as const;
+
+const dataDir = mkdtempSync(path.join(tmpdir(), 'treadwise-e2e-a11y-'));
+const profiles = new BrowserProfiles();
+let server: ServerProcess;
+
+beforeAll(async () => {
+  server = await startServerProcess({ DATA_DIR: dataDir });
+  mkdirSync(SCREENSHOTS, { recursive: true });
+});
+
+afterAll(async () => {
+  await profiles.close();
+  await server?.stop();
+  rmSync(dataDir, { recursive: true, force: true });
+});
+
+/** Opens a screen, waits for what shows it has loaded, and scans it at desktop and phone widths. */
+async function scan(page: Page, name: string, url: string, ready: string): Promise<Record<string, AxeFinding[]>> {
+  const found: Record<string, AxeFinding[]> = {};
+  for (const [label, width] of Object.entries(WIDTHS)) {
+    await page.setViewportSize({ width, height: 800 });
+    await page.goto(`${server.url}${url}`, { waitUntil: 'networkidle' });
+    await page.waitForSelector(ready, { timeout: 15_000 });
+    await page.screenshot({ path: path.join(SCREENSHOTS, `a11y-${name}-${label}.png`), fullPage: true });
+    const violations = await seriousViolations(page);
+    if (violations.length) found[`${name} (${label})`] = violations;
+  }
+  return found;
+}
+
+describe('accessibility of the console (axe-core: no serious or critical violations)', () => {
+  it('passes on the sign-in page', async () => {
+    const page = await profiles.page();
+    expect(await scan(page, 'sign-in', '/sign-in', '[data-testid="email"]')).toEqual({});
+  });
+
+  it('passes on the admin’s screens: keys, traffic, bench, team, activity', async () => {
+    const page = await profiles.page();
+    await page.goto(`${server.url}/keys`, { waitUntil: 'networkidle' });
+    await signIn(page, 'mira@harborlane.test'); // demo-scenario.md: Harbor Lane's admin
+    const found = {
+      ...(await scan(page, 'keys', '/keys', '[data-testid="key-table"], [data-testid="keys-empty"]')),
+      ...(await scan(page, 'traffic', '/traffic', '[data-testid="traffic-quota"]')),
+      ...(await scan(page, 'bench', '/bench', '[data-testid="bench-calculate"]')),
+      ...(await scan(page, 'team', '/team', '[data-testid="member-table"]')),
+      ...(await scan(page, 'activity', '/activity', '[data-testid="activity-list"], [data-testid="activity-empty"]')),
+    };
+    // An answer and an error beside a field are part of the bench too.
+    await page.setViewportSize({ width: WIDTHS.desktop, height: 800 });
+    await page.goto(`${server.url}/bench`, { waitUntil: 'networkidle' });
+    await page.click('[data-calculator="voltage-drop"] [data-testid="bench-calculate"]');
+    await page.waitForSelector('[data-testid="bench-answer"]', { timeout: 15_000 });
+    await page.fill('[data-calculator="voltage-drop"] [data-field="lengthM"] input', '-1');
+    await page.click('[data-calculator="voltage-drop"] [data-testid="bench-calculate"]');
+    await page.waitForSelector('[data-testid="field-error"]');
+    const benchStates = await seriousViolations(page);
+    if (benchStates.length) Object.assign(found, { 'bench with an error': benchStates });
+    expect(found).toEqual({});
+  });
+
+  it('passes on the operator’s screens: organisations and plans, the mail outbox with a message open', async () => {
+    // A message in the outbox: a password reset asked for one of the demo accounts (a public route).
+    const reset = await fetch(`${server.url}/v1/auth/password-reset`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'theo@harborlane.test' }) });
+    expect(reset.status).toBeLessThan(300);
+    const page = await profiles.page();
+    await page.goto(`${server.url}/operator/organizations`, { waitUntil: 'networkidle' });
+    await signIn(page, 'ops@treadwise.test'); // demo-scenario.md: the demo operator
+    const found = {
+      ...(await scan(page, 'operator-organizations', '/operator/organizations', '[data-testid="organization-table"]')),
+      ...(await scan(page, 'operator-outbox', '/operator/outbox', '[data-testid="outbox-list"]')),
+    };
+    await page.locator('[data-testid="outbox-message"]').first().click();
+    await page.waitForSelector('[data-testid="outbox-body"]');
+    const open = await seriousViolations(page);
+    if (open.length) Object.assign(found, { 'outbox with a message open': open });
+    expect(found).toEqual({});
+  });
+});
