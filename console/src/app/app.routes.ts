@@ -39,6 +39,12 @@ export const routes: Routes = [
         loadComponent: () => import('./keys/key-list.js').then((m) => m.KeyList),
       },
       {
+        path: 'catalog',
+        title: 'Catalog · Treadwise',
+        canActivate: [requireRole('catalog:read')],
+        loadComponent: () => import('./catalog/catalog-page.js').then((m) => m.CatalogPage),
+      },
+      {
         path: 'status',
         title: 'Status · Treadwise',
         loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),

@@ -1,11 +1,15 @@
 import type { Role } from './api-types.js';
 
 /** What the console offers a role. The API decides (api/auth/policy.ts); this only hides what it would refuse. */
-export type Capability = 'keys:manage' | 'sizing:run';
+export type Capability = 'keys:manage' | 'sizing:run' | 'catalog:read' | 'catalog:manage' | 'projects:read' | 'projects:write';
 
 const LEAST_ROLE: Record<Capability, Role> = {
   'keys:manage': 'admin',
   'sizing:run': 'estimator',
+  'catalog:read': 'viewer',
+  'catalog:manage': 'admin',
+  'projects:read': 'viewer',
+  'projects:write': 'estimator',
 };
 
 const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };

@@ -13,6 +13,8 @@ export interface Destination {
 
 export const DESTINATIONS: readonly Destination[] = [
   { path: '/keys', label: 'Keys', icon: 'tw:key', needs: 'keys:manage' },
+  { path: '/projects', label: 'Projects', icon: 'tw:stair', needs: 'projects:read' },
+  { path: '/catalog', label: 'Catalog', icon: 'tw:catalog', needs: 'catalog:read' },
   { path: '/status', label: 'Status', icon: 'tw:status' },
 ];
 
