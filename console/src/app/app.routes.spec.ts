@@ -31,6 +31,8 @@ describe('console routes', () => {
     ['/', '/status'], // the home page is the status page
     ['/keys', '/keys'],
     ['/status', '/status'],
+    ['/catalog', '/catalog'],
+    ['/projects', '/projects'],
   ])('sends a visitor who is not signed in from %s to sign in', async (url, next) => {
     const harness = await RouterTestingHarness.create();
     await harness.navigateByUrl(url, SignInPage);

@@ -1,0 +1,139 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { provideZonelessChangeDetection, signal } from '@angular/core';
+import { type ComponentFixture, TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { Router, provideRouter } from '@angular/router';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+
+import type { Project, Role, Stair, StoredEstimate } from '../core/api-types.js';
+import { Auth } from '../core/auth.js';
+import { provideConsoleIcons } from '../core/console-icons.js';
+import { StairPage } from './stair-page.js';
+
+const PROJECT_ID = '3b9d2f4e-6a1c-4e8b-9f2d-7c5a1e0b4d63';
+const STAIR_ID = '8e2c6a1f-4b7d-4c3e-a9f0-1d5b8e2c7a94';
+const PROJECT: Project = {
+  id: PROJECT_ID,
+  name: 'Saltmarsh Cottage staircase',
+  clientName: 'Wren & Tansy Holiday Lets',
+  siteAddress: null,
+  notes: null,
+  stairCount: 1,
+  createdBy: { type: 'user', id: '1f6d4c2a-8b3e-4f71-9a0c-5e2b7d9c1a34' },
+  createdAt: '2026-12-01T10:00:00.000Z',
+  updatedAt: '2026-12-01T10:00:00.000Z',
+};
+// The demo stair (api/db/demo-data.ts).
+const STAIR: Stair = {
+  id: STAIR_ID,
+  projectId: PROJECT_ID,
+  name: 'Main stair',
+  notes: null,
+  input: {
+    layout: 'tread-strips',
+    staircase: { treads: 12, treadWidthMm: 1000, riserHeightMm: 180, goingMm: 260 },
+    treadStrip: { voltageV: 24, powerWPerM: 10, cutPitchMm: 50, sku: 'HL-S24-10' },
+    controller: { profileId: 'HL-K20' },
+  },
+  createdAt: '2026-12-01T10:00:00.000Z',
+  updatedAt: '2026-12-01T10:00:00.000Z',
+};
+
+describe('StairPage', () => {
+  let fixture: ComponentFixture<StairPage>;
+  let http: HttpTestingController;
+
+  async function render(role: Role): Promise<void> {
+    TestBed.configureTestingModule({
+      providers: [
+        provideZonelessChangeDetection(),
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideConsoleIcons(),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+        { provide: Auth, useValue: { role: signal<Role | null>(role) } },
+      ],
+    });
+    http = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(StairPage);
+    fixture.componentRef.setInput('projectId', PROJECT_ID);
+    fixture.componentRef.setInput('stairId', STAIR_ID);
+    await fixture.whenStable();
+    http.expectOne(`/v1/projects/${PROJECT_ID}`).flush(PROJECT);
+    http.expectOne(`/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}`).flush(STAIR);
+    http.expectOne((r) => r.url === `/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}/estimates`).flush({ items: [], nextCursor: null });
+    await settle();
+  }
+
+  afterEach(() => http.verify());
+  const page = () => fixture.nativeElement as HTMLElement;
+  const settle = async () => {
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    await fixture.whenStable();
+  };
+  async function type(testId: string, value: string): Promise<void> {
+    const field = page().querySelector<HTMLInputElement>(`[data-testid="${testId}"]`)!;
+    field.value = value;
+    field.dispatchEvent(new Event('input'));
+    field.dispatchEvent(new Event('blur'));
+    await settle();
+  }
+  const litTreads = () => page().querySelectorAll('[data-testid="lit-tread"]').length;
+
+  it('redraws the side view as the treads change, and keeps the last good drawing while a field is out of bounds', async () => {
+    await render('estimator');
+    expect(litTreads()).toBe(12);
+    await type('field-treads', '15');
+    expect(litTreads()).toBe(15);
+    await type('field-treads', '201');
+    expect(litTreads()).toBe(15);
+    expect(page().textContent).toContain('A whole number from 1 to 200.'); // beside the field
+  });
+
+  it('draws a landing when the stair is split into flights, and lights it when ticked', async () => {
+    await render('estimator');
+    (page().querySelector('[data-testid="add-flight"]') as HTMLButtonElement).click();
+    await settle();
+    expect(page().querySelectorAll('[data-testid="flight"]')).toHaveLength(2);
+    expect(page().querySelectorAll('[data-testid="landing"]')).toHaveLength(1);
+    (page().querySelector('[data-testid="flight"] input[type="checkbox"]') as HTMLInputElement).click();
+    await settle();
+    expect(page().querySelectorAll('[data-testid="lit-landing"]')).toHaveLength(1);
+  });
+
+  it('saves the edited stair and then runs it, opening the estimate', async () => {
+    await render('estimator');
+    const navigate = vi.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    await type('field-goingMm', '270');
+    (page().querySelector('[data-testid="run-stair"]') as HTMLButtonElement).click();
+    await settle();
+    const patch = http.expectOne((r) => r.method === 'PATCH' && r.url === `/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}`);
+    expect(patch.request.body.input.staircase).toEqual({ treads: 12, treadWidthMm: 1000, riserHeightMm: 180, goingMm: 270 });
+    patch.flush({ ...STAIR, input: patch.request.body.input });
+    await settle();
+    http.expectOne((r) => r.method === 'POST' && r.url === `/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}/estimates`).flush({ id: 'c4a7e1d9-2f6b-4a8c-b3e5-9d0f1a2b6c78' } as StoredEstimate);
+    await settle();
+    expect(navigate).toHaveBeenCalledWith(['/projects', 'estimates', 'c4a7e1d9-2f6b-4a8c-b3e5-9d0f1a2b6c78']);
+  });
+
+  it('does not send a stair the API would refuse', async () => {
+    await render('estimator');
+    await type('field-riserHeightMm', '20');
+    (page().querySelector('[data-testid="save-stair"]') as HTMLButtonElement).click();
+    await settle();
+    http.expectNone((r) => r.method === 'PATCH');
+    expect(page().querySelector('[data-testid="stair-failure"]')).not.toBeNull();
+    expect(page().textContent).toContain('From 50 to 400.');
+  });
+
+  it('shows a viewer the stair read only, without save or run', async () => {
+    await render('viewer');
+    expect(page().querySelector('[data-testid="save-stair"]')).toBeNull();
+    expect(page().querySelector('[data-testid="run-stair"]')).toBeNull();
+    expect(page().querySelector<HTMLInputElement>('[data-testid="field-treads"]')!.disabled).toBe(true);
+    expect(page().querySelector('[data-testid="show-options"]')).toBeNull();
+    expect(litTreads()).toBe(12); // the drawing is still there
+  });
+});
