@@ -10,6 +10,11 @@ export const PROJECT_ROUTES: Routes = [
     loadComponent: () => import('./project-list.js').then((m) => m.ProjectList),
   },
   {
+    path: 'estimates/:estimateId',
+    title: 'Estimate · Treadwise',
+    loadComponent: () => import('./estimate/estimate-page.js').then((m) => m.EstimatePage),
+  },
+  {
     path: ':projectId',
     title: 'Project · Treadwise',
     loadComponent: () => import('./project-page.js').then((m) => m.ProjectPage),
