@@ -104,6 +104,12 @@ describe('the projects screens in Chromium', () => {
     expect(download.suggestedFilename()).toMatch(/^saltmarsh-cottage-staircase-main-stair-estimate-\d{4}-\d{2}-\d{2}\.pdf$/);
     const saved = await download.path();
     expect(readFileSync(saved!).subarray(0, 5).toString()).toBe('%PDF-');
+
+    await page.setViewportSize({ width: 360, height: 800 }); // a phone: wide tables scroll inside their frames
+    await page.waitForTimeout(300); // the layout settles after the resize (not a timed assertion)
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    expect(overflow).toBeLessThanOrEqual(0);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'estimate-phone.png'), fullPage: true });
   });
 
   it('shows a viewer the stair and its estimates on a phone, with no save or run', async () => {
@@ -115,6 +121,7 @@ describe('the projects screens in Chromium', () => {
     expect(await page.locator('[data-testid="save-stair"]').count()).toBe(0);
     expect(await page.locator('[data-testid="run-stair"]').count()).toBe(0);
     expect(await page.locator('[data-testid="field-treads"]').isDisabled()).toBe(true);
+    expect(await page.locator('[data-testid="add-flight"]').count()).toBe(0);
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
     expect(overflow).toBeLessThanOrEqual(0); // nothing wider than the phone
     await page.screenshot({ path: path.join(SCREENSHOTS, 'stair-viewer-phone.png'), fullPage: true });

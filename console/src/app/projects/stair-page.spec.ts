@@ -134,6 +134,7 @@ describe('StairPage', () => {
     expect(page().querySelector('[data-testid="run-stair"]')).toBeNull();
     expect(page().querySelector<HTMLInputElement>('[data-testid="field-treads"]')!.disabled).toBe(true);
     expect(page().querySelector('[data-testid="show-options"]')).toBeNull();
+    expect(page().querySelector('[data-testid="add-flight"]')).toBeNull();
     expect(litTreads()).toBe(12); // the drawing is still there
   });
 });
