@@ -75,6 +75,9 @@ describe('the projects screens in Chromium', () => {
     expect(await page.locator('[data-testid="cautions"] li').count()).toBeGreaterThan(0);
     expect(await page.locator('[data-testid="drop-chart"] [data-testid="bar"]').count()).toBe(12);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'estimate-desktop.png'), fullPage: true });
+    await page.locator('.tw-charts').screenshot({ path: path.join(SCREENSHOTS, 'estimate-charts.png') });
+    await page.locator('[data-testid="reel-plan"]').screenshot({ path: path.join(SCREENSHOTS, 'estimate-reels.png') });
+    await page.locator('[data-testid="bom"]').screenshot({ path: path.join(SCREENSHOTS, 'estimate-bom.png') });
     const firstEstimate = page.url();
 
     await page.click('[data-testid="rerun"]');
@@ -145,6 +148,7 @@ describe('the projects screens in Chromium', () => {
     await page.goto(`${server.url}/catalog`, { waitUntil: 'networkidle' });
     await signIn(page, 'mira@harborlane.test'); // demo-scenario.md: Harbor Lane's admin
     await page.waitForSelector('[data-testid="catalog-table"]', { timeout: 15_000 });
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-phone.png'), fullPage: true });
     await page.setInputFiles('[data-testid="catalog-file"]', { name: 'harbor-lane.csv', mimeType: 'text/csv', buffer: Buffer.from(file) });
     const errors = page.locator('[data-testid="import-errors"]');
     await errors.waitFor({ timeout: 15_000 });

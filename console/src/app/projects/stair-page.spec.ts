@@ -128,6 +128,53 @@ describe('StairPage', () => {
     expect(page().textContent).toContain('From 50 to 400.');
   });
 
+  it('creates a new stair under an Idempotency-Key and opens it', async () => {
+    TestBed.configureTestingModule({
+      providers: [
+        provideZonelessChangeDetection(),
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideConsoleIcons(),
+        { provide: Auth, useValue: { role: signal<Role | null>('estimator') } },
+      ],
+    });
+    http = TestBed.inject(HttpTestingController);
+    const navigate = vi.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    fixture = TestBed.createComponent(StairPage);
+    fixture.componentRef.setInput('projectId', PROJECT_ID);
+    await fixture.whenStable();
+    http.expectOne(`/v1/projects/${PROJECT_ID}`).flush(PROJECT);
+    await settle();
+    expect(page().querySelector('[data-testid="run-stair"]')).toBeNull(); // nothing to run before it is saved
+    await type('stair-name', 'Stair to the loft');
+    (page().querySelector('[data-testid="save-stair"]') as HTMLButtonElement).click();
+    await settle();
+    const create = http.expectOne((r) => r.method === 'POST' && r.url === `/v1/projects/${PROJECT_ID}/stairs`);
+    expect(create.request.headers.get('Idempotency-Key')).toMatch(/^[0-9a-f]{32}$/);
+    expect(create.request.body).toMatchObject({ name: 'Stair to the loft', input: { layout: 'tread-strips', staircase: { treads: 14 }, controller: { profileId: 'HL-K20' } } });
+    create.flush({ ...STAIR, name: 'Stair to the loft' }, { status: 201, statusText: 'Created' });
+    await settle();
+    expect(navigate).toHaveBeenCalledWith(['/projects', PROJECT_ID, 'stairs', STAIR_ID], { replaceUrl: true });
+  });
+
+  it('shows the fields the API refused, beside its detail', async () => {
+    await render('estimator');
+    await type('field-goingMm', '270');
+    (page().querySelector('[data-testid="save-stair"]') as HTMLButtonElement).click();
+    await settle();
+    http
+      .expectOne((r) => r.method === 'PATCH')
+      .flush(
+        { title: 'Invalid request', status: 400, detail: 'The request has 1 invalid field.', code: 'validation_failed', errors: [{ path: 'input.controller.profileId', message: 'no controller HL-K20 in the catalog' }] },
+        { status: 400, statusText: 'Bad Request' },
+      );
+    await settle();
+    const failure = page().querySelector('[data-testid="stair-failure"]')!.textContent!;
+    expect(failure).toContain('The request has 1 invalid field.');
+    expect(failure).toContain('input.controller.profileId: no controller HL-K20 in the catalog');
+  });
+
   it('shows a viewer the stair read only, without save or run', async () => {
     await render('viewer');
     expect(page().querySelector('[data-testid="save-stair"]')).toBeNull();
