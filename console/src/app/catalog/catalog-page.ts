@@ -18,6 +18,7 @@ import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { saveDownload } from '../core/file-download.js';
 import { problemMessage } from '../core/problem-details.js';
+import { LoadFailure } from '../core/load-failure.js';
 import { CatalogApi } from './catalog-api.js';
 import { CatalogImport } from './catalog-import.js';
 import { CatalogItemDialog, type CatalogItemDialogData } from './catalog-item-dialog.js';
@@ -44,6 +45,7 @@ const READ_COLUMNS = ['sku', 'kind', 'description', 'details', 'unitPrice', 'act
     MatFormFieldModule,
     MatInput,
     CatalogImport,
+    LoadFailure,
   ],
   templateUrl: './catalog-page.html',
   styleUrl: './catalog-page.scss',

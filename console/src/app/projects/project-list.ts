@@ -13,6 +13,7 @@ import type { Project } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { problemMessage } from '../core/problem-details.js';
+import { LoadFailure } from '../core/load-failure.js';
 import { ProjectCreateDialog } from './project-create-dialog.js';
 import { ProjectsApi } from './projects-api.js';
 
@@ -28,7 +29,7 @@ export function projectMatches(project: Project, query: string): boolean {
 /** The organisation's projects, newest change first, with a search. */
 @Component({
   selector: 'tw-project-list',
-  imports: [DatePipe, RouterLink, MatButton, MatIcon, MatProgressBar, MatFormFieldModule, MatInput],
+  imports: [DatePipe, RouterLink, MatButton, MatIcon, MatProgressBar, MatFormFieldModule, MatInput, LoadFailure],
   template: `
     <header class="tw-page-head">
       <div>
@@ -49,11 +50,7 @@ export function projectMatches(project: Project, query: string): boolean {
         <mat-progress-bar mode="indeterminate" aria-label="Loading projects" />
       }
       @case ('failed') {
-        <section class="tw-empty" role="alert" data-testid="projects-failed">
-          <h2>The projects could not be loaded</h2>
-          <p>{{ list.reason }}</p>
-          <button matButton="tonal" type="button" (click)="load()">Try again</button>
-        </section>
+        <tw-load-failure data-testid="projects-failed" what="The projects" [reason]="list.reason" (retry)="load()" />
       }
       @case ('ready') {
         @if (list.projects.length === 0) {
@@ -84,44 +81,7 @@ export function projectMatches(project: Project, query: string): boolean {
       }
     }
   `,
-  styles: `
-    .tw-search {
-      width: 100%;
-      max-width: 420px;
-    }
-    .tw-projects {
-      list-style: none;
-      margin: 0;
-      padding: 0;
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-radius: 12px;
-      overflow: hidden;
-    }
-    li + li {
-      border-top: 1px solid var(--mat-sys-outline-variant);
-    }
-    a {
-      display: flex;
-      flex-direction: column;
-      gap: 2px;
-      padding: 12px 16px;
-      color: inherit;
-      text-decoration: none;
-    }
-    a:hover {
-      background: var(--mat-sys-surface-container-high);
-    }
-    .tw-project-name {
-      font: var(--mat-sys-title-medium);
-    }
-    .tw-project-meta {
-      color: var(--mat-sys-on-surface-variant);
-    }
-    .tw-no-match {
-      padding: 16px;
-      color: var(--mat-sys-on-surface-variant);
-    }
-  `,
+  styleUrl: './project-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ProjectList {

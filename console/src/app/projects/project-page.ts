@@ -10,6 +10,7 @@ import type { Project, Stair } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { problemMessage } from '../core/problem-details.js';
+import { LoadFailure } from '../core/load-failure.js';
 import { ProjectsApi } from './projects-api.js';
 
 type Loaded = { state: 'loading' } | { state: 'ready'; project: Project; stairs: Stair[] } | { state: 'failed'; reason: string };
@@ -25,7 +26,7 @@ export function stairLine(stair: Stair): string {
 /** One project: client, site, notes and its stairs. */
 @Component({
   selector: 'tw-project-page',
-  imports: [DatePipe, RouterLink, MatButton, MatIcon, MatProgressBar],
+  imports: [DatePipe, RouterLink, MatButton, MatIcon, MatProgressBar, LoadFailure],
   template: `
     <a matButton routerLink="/projects" class="tw-back"><mat-icon svgIcon="tw:back" />Projects</a>
     @let d = loaded();
@@ -34,11 +35,7 @@ export function stairLine(stair: Stair): string {
         <mat-progress-bar mode="indeterminate" aria-label="Loading the project" />
       }
       @case ('failed') {
-        <section class="tw-empty" role="alert" data-testid="project-failed">
-          <h2>The project could not be loaded</h2>
-          <p>{{ d.reason }}</p>
-          <button matButton="tonal" type="button" (click)="load()">Try again</button>
-        </section>
+        <tw-load-failure data-testid="project-failed" what="The project" [reason]="d.reason" (retry)="load()" />
       }
       @case ('ready') {
         <header class="tw-page-head">
@@ -85,56 +82,7 @@ export function stairLine(stair: Stair): string {
       }
     }
   `,
-  styles: `
-    .tw-back {
-      margin-bottom: 8px;
-    }
-    .tw-facts {
-      display: grid;
-      grid-template-columns: max-content 1fr;
-      gap: 4px 16px;
-      margin: 0 0 24px;
-      dt {
-        color: var(--mat-sys-on-surface-variant);
-      }
-      dd {
-        margin: 0;
-      }
-    }
-    .tw-multiline {
-      white-space: pre-line;
-    }
-    .tw-section {
-      font: var(--mat-sys-title-large);
-    }
-    .tw-stairs {
-      list-style: none;
-      margin: 0;
-      padding: 0;
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-radius: 12px;
-      overflow: hidden;
-    }
-    li + li {
-      border-top: 1px solid var(--mat-sys-outline-variant);
-    }
-    a[data-testid='stair-link'] {
-      display: flex;
-      flex-direction: column;
-      padding: 12px 16px;
-      color: inherit;
-      text-decoration: none;
-    }
-    a[data-testid='stair-link']:hover {
-      background: var(--mat-sys-surface-container-high);
-    }
-    .tw-stair-name {
-      font: var(--mat-sys-title-medium);
-    }
-    .tw-stair-meta {
-      color: var(--mat-sys-on-surface-variant);
-    }
-  `,
+  styleUrl: './project-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ProjectPage {

@@ -3,17 +3,11 @@ import { describe, expect, it } from 'vitest';
 import { createStairSchema } from '../../../../shared/schemas/projects.js';
 import { estimateRequestSchema } from '../../../../shared/schemas/estimate.js';
 import type { EstimateRequest } from '../core/api-types.js';
+import { SALTMARSH_INPUT } from './saltmarsh-fixtures.js';
 import { STAIR_BOUNDS, type StairBoundName } from './stair-bounds.js';
 import { requestOf, stairForm } from './stair-form.js';
 
-// The Saltmarsh Cottage demo stair (api/db/demo-data.ts), the request the editor starts from.
-const SALTMARSH: EstimateRequest = {
-  layout: 'tread-strips',
-  staircase: { treads: 12, treadWidthMm: 1000, riserHeightMm: 180, goingMm: 260 },
-  treadStrip: { voltageV: 24, powerWPerM: 10, cutPitchMm: 50, sku: 'HL-S24-10' },
-  controller: { profileId: 'HL-K20' },
-  sensors: { motion: { outputType: 'pnp', supplyV: 5, currentMa: 8 } },
-};
+const SALTMARSH = SALTMARSH_INPUT; // the request the editor starts from
 
 type Path = (string | number)[];
 

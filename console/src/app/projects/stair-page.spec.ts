@@ -6,39 +6,14 @@ import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { Router, provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 
-import type { Project, Role, Stair, StoredEstimate } from '../core/api-types.js';
+import type { Role, StoredEstimate } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { provideConsoleIcons } from '../core/console-icons.js';
+import { PROJECT_ID, SALTMARSH_PROJECT, SALTMARSH_STAIR, STAIR_ID } from './saltmarsh-fixtures.js';
 import { StairPage } from './stair-page.js';
 
-const PROJECT_ID = '3b9d2f4e-6a1c-4e8b-9f2d-7c5a1e0b4d63';
-const STAIR_ID = '8e2c6a1f-4b7d-4c3e-a9f0-1d5b8e2c7a94';
-const PROJECT: Project = {
-  id: PROJECT_ID,
-  name: 'Saltmarsh Cottage staircase',
-  clientName: 'Wren & Tansy Holiday Lets',
-  siteAddress: null,
-  notes: null,
-  stairCount: 1,
-  createdBy: { type: 'user', id: '1f6d4c2a-8b3e-4f71-9a0c-5e2b7d9c1a34' },
-  createdAt: '2026-12-01T10:00:00.000Z',
-  updatedAt: '2026-12-01T10:00:00.000Z',
-};
-// The demo stair (api/db/demo-data.ts).
-const STAIR: Stair = {
-  id: STAIR_ID,
-  projectId: PROJECT_ID,
-  name: 'Main stair',
-  notes: null,
-  input: {
-    layout: 'tread-strips',
-    staircase: { treads: 12, treadWidthMm: 1000, riserHeightMm: 180, goingMm: 260 },
-    treadStrip: { voltageV: 24, powerWPerM: 10, cutPitchMm: 50, sku: 'HL-S24-10' },
-    controller: { profileId: 'HL-K20' },
-  },
-  createdAt: '2026-12-01T10:00:00.000Z',
-  updatedAt: '2026-12-01T10:00:00.000Z',
-};
+const PROJECT = SALTMARSH_PROJECT;
+const STAIR = SALTMARSH_STAIR;
 
 describe('StairPage', () => {
   let fixture: ComponentFixture<StairPage>;

@@ -12,6 +12,7 @@ import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { CreationKey } from '../core/idempotency.js';
 import { problemMessage, readProblem } from '../core/problem-details.js';
+import { LoadFailure } from '../core/load-failure.js';
 import { KitOptions } from './kit-options.js';
 import { ProjectsApi } from './projects-api.js';
 import { StairEditor } from './stair-editor.js';
@@ -25,7 +26,7 @@ type Loaded =
 /** One stair: the editor with its side view, running it, the estimates it stored, and kit options. */
 @Component({
   selector: 'tw-stair-page',
-  imports: [CurrencyPipe, DatePipe, DecimalPipe, RouterLink, MatButton, MatIcon, MatProgressBar, StairEditor, KitOptions],
+  imports: [CurrencyPipe, DatePipe, DecimalPipe, RouterLink, MatButton, MatIcon, MatProgressBar, StairEditor, KitOptions, LoadFailure],
   templateUrl: './stair-page.html',
   styleUrl: './stair-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

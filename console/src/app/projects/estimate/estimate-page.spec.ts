@@ -9,9 +9,10 @@ import { provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 
 import { alderRowTownhouseResponse } from '../../../../../shared/schemas/estimate-examples.js';
-import type { EstimateChanges, EstimateRequest, EstimateResponse, Role, StoredEstimate } from '../../core/api-types.js';
+import type { EstimateResponse, Role, StoredEstimate } from '../../core/api-types.js';
 import { Auth } from '../../core/auth.js';
 import { provideConsoleIcons } from '../../core/console-icons.js';
+import { ESTIMATE_ID, PRICE_CHANGE, PROJECT_ID, SALTMARSH_INPUT, STAIR_ID, USER_ID } from '../saltmarsh-fixtures.js';
 import { EstimatePage } from './estimate-page.js';
 
 const RESULT = alderRowTownhouseResponse as unknown as EstimateResponse;
@@ -21,34 +22,20 @@ const PRICED: EstimateResponse = {
   pricing: { source: 'stored', catalogVersion: 21, currency: 'EUR', taxRatePercent: 20, net: 310.4, tax: 62.08, gross: 372.48, complete: true, unpricedLines: 0 },
 };
 const ESTIMATE: StoredEstimate = {
-  id: 'c4a7e1d9-2f6b-4a8c-b3e5-9d0f1a2b6c78',
-  projectId: '3b9d2f4e-6a1c-4e8b-9f2d-7c5a1e0b4d63',
-  stairId: '8e2c6a1f-4b7d-4c3e-a9f0-1d5b8e2c7a94',
+  id: ESTIMATE_ID,
+  projectId: PROJECT_ID,
+  stairId: STAIR_ID,
   engineVersion: '2.1.0',
   catalogVersion: 21,
   pricingSource: 'stored',
-  ranBy: { type: 'user', id: '1f6d4c2a-8b3e-4f71-9a0c-5e2b7d9c1a34' },
+  ranBy: { type: 'user', id: USER_ID },
   createdAt: '2026-12-01T10:00:00.000Z',
   rerunOf: null,
-  input: { layout: 'tread-strips' } as EstimateRequest,
+  input: SALTMARSH_INPUT,
   result: PRICED,
 };
 const RERUN_ID = '5d1e9a7c-3b2f-4e6a-8c0d-1f2e3a4b5c6d';
-const CHANGES: EstimateChanges = {
-  changed: true,
-  engineVersion: { old: '2.1.0', new: '2.1.0', changed: false },
-  catalogVersion: { old: 21, new: 22, changed: true },
-  currency: { old: 'EUR', new: 'EUR', changed: false },
-  figures: {
-    totalLoadW: { old: 119, new: 119, changed: false },
-    driverCount: { old: 1, new: 1, changed: false },
-    worstDropPercent: { old: 2.399, new: 2.399, changed: false },
-    reels: { old: 3, new: 3, changed: false },
-    bomTotal: { old: 310.4, new: 316.4, changed: true },
-    gross: { old: 372.48, new: 379.68, changed: true },
-  },
-  checks: [],
-};
+const CHANGES = PRICE_CHANGE;
 
 describe('EstimatePage', () => {
   let fixture: ComponentFixture<EstimatePage>;

@@ -12,6 +12,7 @@ import { Auth } from '../../core/auth.js';
 import { roleMay } from '../../core/capabilities.js';
 import { saveDownload } from '../../core/file-download.js';
 import { problemMessage } from '../../core/problem-details.js';
+import { LoadFailure } from '../../core/load-failure.js';
 import { type EstimateDocument, ProjectsApi } from '../projects-api.js';
 import { EstimateChangesPanel } from './estimate-changes.js';
 import { EstimateView } from './estimate-view.js';
@@ -27,7 +28,7 @@ const DOCUMENTS: { file: EstimateDocument; label: string }[] = [
 /** A stored estimate: the view, the downloads, and a re-run that says what changed. */
 @Component({
   selector: 'tw-estimate-page',
-  imports: [DatePipe, RouterLink, MatButton, MatIcon, MatProgressBar, EstimateView, EstimateChangesPanel],
+  imports: [DatePipe, RouterLink, MatButton, MatIcon, MatProgressBar, EstimateView, EstimateChangesPanel, LoadFailure],
   template: `
     @let d = loaded();
     @switch (d.state) {
@@ -35,11 +36,7 @@ const DOCUMENTS: { file: EstimateDocument; label: string }[] = [
         <mat-progress-bar mode="indeterminate" aria-label="Loading the estimate" />
       }
       @case ('failed') {
-        <section class="tw-empty" role="alert" data-testid="estimate-failed">
-          <h2>The estimate could not be loaded</h2>
-          <p>{{ d.reason }}</p>
-          <button matButton="tonal" type="button" (click)="load()">Try again</button>
-        </section>
+        <tw-load-failure data-testid="estimate-failed" what="The estimate" [reason]="d.reason" (retry)="load()" />
       }
       @case ('ready') {
         @let e = d.estimate;

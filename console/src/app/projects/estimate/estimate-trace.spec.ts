@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
 import type { TraceEntry } from '../../core/api-types.js';
+import { PRICE_CHANGE } from '../saltmarsh-fixtures.js';
 import { changedLines } from './estimate-changes.js';
 import { searchTrace, traceOf } from './estimate-trace.js';
 
@@ -23,22 +24,7 @@ describe('traceOf', () => {
 
 describe('changedLines', () => {
   it('lists only what a re-run changed, old → new', () => {
-    // The API's own example: a catalog price change between runs.
-    const lines = changedLines({
-      changed: true,
-      engineVersion: { old: '2.1.0', new: '2.1.0', changed: false },
-      catalogVersion: { old: 21, new: 22, changed: true },
-      currency: { old: 'EUR', new: 'EUR', changed: false },
-      figures: {
-        totalLoadW: { old: 119, new: 119, changed: false },
-        driverCount: { old: 1, new: 1, changed: false },
-        worstDropPercent: { old: 2.399, new: 2.399, changed: false },
-        reels: { old: 3, new: 3, changed: false },
-        bomTotal: { old: 310.4, new: 316.4, changed: true },
-        gross: { old: 372.48, new: 379.68, changed: true },
-      },
-      checks: [],
-    });
+    const lines = changedLines(PRICE_CHANGE);
     expect(lines).toEqual([
       { label: 'Catalog version', old: '21', new: '22' },
       { label: 'Net total', old: '310.4', new: '316.4' },
