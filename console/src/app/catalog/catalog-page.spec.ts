@@ -1,14 +1,10 @@
 import { OverlayContainer } from '@angular/cdk/overlay';
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { provideZonelessChangeDetection, signal } from '@angular/core';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { type ComponentFixture, TestBed } from '@angular/core/testing';
-import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { afterEach, describe, expect, it } from 'vitest';
 
 import type { CatalogImportReport, Role, StoredCatalog, StoredCatalogItem } from '../core/api-types.js';
-import { Auth } from '../core/auth.js';
-import { provideConsoleIcons } from '../core/console-icons.js';
+import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { CatalogPage } from './catalog-page.js';
 
 // Items of Harbor Lane's invented demo catalog (demo-scenario.md).
@@ -22,16 +18,7 @@ describe('CatalogPage', () => {
   let http: HttpTestingController;
 
   async function render(role: Role, items: StoredCatalogItem[] = [STRIP, DRIVER, CABLE]): Promise<void> {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
-        { provide: Auth, useValue: { role: signal<Role | null>(role) } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders(role) });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(CatalogPage);
     http.expectOne('/v1/catalog').flush(CATALOG);
@@ -156,15 +143,7 @@ describe('CatalogPage', () => {
   });
 
   it('shows the problem detail when the catalog cannot be loaded', async () => {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: Auth, useValue: { role: signal<Role | null>('viewer') } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders('viewer') });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(CatalogPage);
     http.expectOne('/v1/catalog').flush({ title: 'Forbidden', status: 403, detail: 'Needs the catalog:read scope.' }, { status: 403, statusText: 'Forbidden' });

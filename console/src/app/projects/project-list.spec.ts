@@ -1,13 +1,9 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { provideZonelessChangeDetection, signal } from '@angular/core';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { type ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it } from 'vitest';
 
 import type { Project, Role } from '../core/api-types.js';
-import { Auth } from '../core/auth.js';
-import { provideConsoleIcons } from '../core/console-icons.js';
+import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { ProjectList, projectMatches } from './project-list.js';
 
 // Invented projects (demo-scenario.md and api/db/demo-data.ts).
@@ -29,16 +25,7 @@ describe('ProjectList', () => {
   let http: HttpTestingController;
 
   async function render(role: Role, projects: Project[] | 'fail' = [SALTMARSH, ALDER]): Promise<void> {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideRouter([]),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: Auth, useValue: { role: signal<Role | null>(role) } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders(role) });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(ProjectList);
     const req = http.expectOne((r) => r.url === '/v1/projects');

@@ -1,13 +1,9 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { provideZonelessChangeDetection, signal } from '@angular/core';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { type ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it } from 'vitest';
 
 import type { Project, Role, Stair } from '../core/api-types.js';
-import { Auth } from '../core/auth.js';
-import { provideConsoleIcons } from '../core/console-icons.js';
+import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { ProjectPage, stairLine } from './project-page.js';
 
 const PROJECT: Project = {
@@ -42,16 +38,7 @@ describe('ProjectPage', () => {
   let http: HttpTestingController;
 
   async function render(role: Role, stairs: Stair[]): Promise<void> {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideRouter([]),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: Auth, useValue: { role: signal<Role | null>(role) } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders(role) });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(ProjectPage);
     fixture.componentRef.setInput('projectId', PROJECT.id);

@@ -1,14 +1,10 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { provideZonelessChangeDetection, signal } from '@angular/core';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { type ComponentFixture, TestBed } from '@angular/core/testing';
-import { MATERIAL_ANIMATIONS } from '@angular/material/core';
-import { Router, provideRouter } from '@angular/router';
+import { Router } from '@angular/router';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 
 import type { Role, StoredEstimate } from '../core/api-types.js';
-import { Auth } from '../core/auth.js';
-import { provideConsoleIcons } from '../core/console-icons.js';
+import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { PROJECT_ID, SALTMARSH_PROJECT, SALTMARSH_STAIR, STAIR_ID } from './saltmarsh-fixtures.js';
 import { StairPage } from './stair-page.js';
 
@@ -20,17 +16,7 @@ describe('StairPage', () => {
   let http: HttpTestingController;
 
   async function render(role: Role): Promise<void> {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideRouter([]),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
-        { provide: Auth, useValue: { role: signal<Role | null>(role) } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders(role) });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(StairPage);
     fixture.componentRef.setInput('projectId', PROJECT_ID);
@@ -104,16 +90,7 @@ describe('StairPage', () => {
   });
 
   it('creates a new stair under an Idempotency-Key and opens it', async () => {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideRouter([]),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: Auth, useValue: { role: signal<Role | null>('estimator') } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders('estimator') });
     http = TestBed.inject(HttpTestingController);
     const navigate = vi.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
     fixture = TestBed.createComponent(StairPage);

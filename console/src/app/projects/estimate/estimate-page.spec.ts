@@ -1,17 +1,12 @@
 import { OverlayContainer } from '@angular/cdk/overlay';
 import { Location } from '@angular/common';
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { provideZonelessChangeDetection, signal } from '@angular/core';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { type ComponentFixture, TestBed } from '@angular/core/testing';
-import { MATERIAL_ANIMATIONS } from '@angular/material/core';
-import { provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 
 import { alderRowTownhouseResponse } from '../../../../../shared/schemas/estimate-examples.js';
 import type { EstimateResponse, Role, StoredEstimate } from '../../core/api-types.js';
-import { Auth } from '../../core/auth.js';
-import { provideConsoleIcons } from '../../core/console-icons.js';
+import { pageSpecProviders } from '../../core/page-spec-providers.js';
 import { ESTIMATE_ID, PRICE_CHANGE, PROJECT_ID, SALTMARSH_INPUT, STAIR_ID, USER_ID } from '../saltmarsh-fixtures.js';
 import { EstimatePage } from './estimate-page.js';
 
@@ -42,17 +37,7 @@ describe('EstimatePage', () => {
   let http: HttpTestingController;
 
   async function render(role: Role): Promise<void> {
-    TestBed.configureTestingModule({
-      providers: [
-        provideZonelessChangeDetection(),
-        provideRouter([]),
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideConsoleIcons(),
-        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
-        { provide: Auth, useValue: { role: signal<Role | null>(role) } },
-      ],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders(role) });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(EstimatePage);
     fixture.componentRef.setInput('estimateId', ESTIMATE.id);
@@ -135,9 +120,7 @@ describe('EstimatePage', () => {
   });
 
   it('shows the problem when the estimate cannot be loaded', async () => {
-    TestBed.configureTestingModule({
-      providers: [provideZonelessChangeDetection(), provideRouter([]), provideHttpClient(), provideHttpClientTesting(), provideConsoleIcons(), { provide: Auth, useValue: { role: signal<Role | null>('viewer') } }],
-    });
+    TestBed.configureTestingModule({ providers: pageSpecProviders('viewer') });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(EstimatePage);
     fixture.componentRef.setInput('estimateId', 'missing');
