@@ -68,6 +68,8 @@ describe('EstimatePage', () => {
     const pieces = RESULT.reels.treads!.plan.reduce((n, reel) => n + reel.piecesMm.length, 0);
     expect(page().querySelectorAll('[data-testid="reel-piece"]')).toHaveLength(pieces);
     expect(page().querySelector('[data-testid="gross"]')?.textContent).toContain('372.48');
+    expect(page().querySelectorAll('[data-testid="cables"] li')).toHaveLength(RESULT.cables.length + 1); // and the sensors
+    expect(page().querySelector('[data-testid="pixel-run"]')).toBeNull(); // tread strips only
   });
 
   it('gives a viewer the downloads but no re-run', async () => {

@@ -60,6 +60,7 @@ export class EstimateView {
   protected readonly tiles = computed(() => summaryTiles(this.result()));
   protected readonly dropChart = computed(() => treadDropChart(this.result()));
   protected readonly outputChart = computed(() => outputLoadChart(this.result()));
+  protected readonly pixelRuns = computed(() => [this.result().pixels.rail, this.result().pixels.treads].filter((run) => run !== null));
   protected readonly changedChecks = computed(() => new Set((this.changes()?.checks ?? []).map((c) => c.id)));
   protected readonly traceQuery = signal('');
   protected readonly traceShown = computed(() => searchTrace(this.result().trace, this.traceQuery()));
