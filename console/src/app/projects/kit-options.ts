@@ -2,6 +2,7 @@ import { CurrencyPipe, DecimalPipe, KeyValuePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import type { Subscription } from 'rxjs';
 
 import type { KitOptionsResponse, Staircase } from '../core/api-types.js';
 import { problemMessage } from '../core/problem-details.js';
@@ -26,13 +27,16 @@ export class KitOptions {
 
   protected readonly options = signal<Options>({ state: 'loading' });
 
+  private pending?: Subscription;
+
   constructor() {
     effect(() => this.load());
   }
 
   protected load(): void {
     this.options.set({ state: 'loading' });
-    this.api.kitOptions({ layout: 'tread-strips', staircase: this.staircase(), limit: this.limit() }).subscribe({
+    this.pending?.unsubscribe(); // a newer load wins over an answer still on its way
+    this.pending = this.api.kitOptions({ layout: 'tread-strips', staircase: this.staircase(), limit: this.limit() }).subscribe({
       next: (result) => this.options.set({ state: 'ready', result }),
       error: (error: unknown) => this.options.set({ state: 'failed', reason: problemMessage(error) }),
     });

@@ -4,7 +4,7 @@ import { MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { forkJoin } from 'rxjs';
+import { forkJoin, type Subscription } from 'rxjs';
 
 import type { Project, Stair } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
@@ -96,6 +96,8 @@ export class ProjectPage {
   protected readonly mayWrite = computed(() => roleMay(this.auth.role(), 'projects:write'));
   protected readonly line = stairLine;
 
+  private pending?: Subscription;
+
   constructor() {
     effect(() => this.load());
   }
@@ -103,7 +105,8 @@ export class ProjectPage {
   protected load(): void {
     const id = this.projectId();
     this.loaded.set({ state: 'loading' });
-    forkJoin([this.api.project(id), this.api.stairs(id)]).subscribe({
+    this.pending?.unsubscribe(); // a newer load wins over an answer still on its way
+    this.pending = forkJoin([this.api.project(id), this.api.stairs(id)]).subscribe({
       next: ([project, stairs]) => this.loaded.set({ state: 'ready', project, stairs }),
       error: (error: unknown) => this.loaded.set({ state: 'failed', reason: problemMessage(error) }),
     });

@@ -79,6 +79,19 @@ describe('StairPage', () => {
     expect(navigate).toHaveBeenCalledWith(['/projects', 'estimates', 'c4a7e1d9-2f6b-4a8c-b3e5-9d0f1a2b6c78']);
   });
 
+  it('asks for kit options once for the numbers of the moment, not on every keystroke', async () => {
+    await render('estimator');
+    (page().querySelector('[data-testid="show-options"]') as HTMLButtonElement).click();
+    await settle();
+    const first = http.expectOne('/v1/estimates/options');
+    expect(first.request.body.staircase).toEqual(STAIR.input.staircase);
+    await type('field-treads', '13');
+    http.expectNone('/v1/estimates/options');
+    (page().querySelector('[data-testid="show-options"]') as HTMLButtonElement).click();
+    await settle();
+    expect(http.expectOne('/v1/estimates/options').request.body.staircase.treads).toBe(13);
+  });
+
   it('does not send a stair the API would refuse', async () => {
     await render('estimator');
     await type('field-riserHeightMm', '20');

@@ -5,9 +5,9 @@ import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
-import { type Observable, firstValueFrom, forkJoin, of } from 'rxjs';
+import { firstValueFrom, forkJoin, type Observable, of, type Subscription } from 'rxjs';
 
-import type { EstimateRequest, Project, Stair, StoredEstimateSummary } from '../core/api-types.js';
+import type { EstimateRequest, Project, Staircase, Stair, StoredEstimateSummary } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { CreationKey } from '../core/idempotency.js';
@@ -45,10 +45,13 @@ export class StairPage {
   protected readonly loaded = signal<Loaded>({ state: 'loading' });
   protected readonly busy = signal<'saving' | 'running' | null>(null);
   protected readonly failure = signal<string[]>([]);
-  protected readonly showOptions = signal(false);
+  /** The stair the kit options were asked for: taken when asked, so typing does not call the API. */
+  protected readonly optionsFor = signal<Staircase | null>(null);
   protected readonly mayWrite = computed(() => roleMay(this.auth.role(), 'projects:write'));
   protected readonly maySize = computed(() => roleMay(this.auth.role(), 'sizing:run'));
   protected readonly treadStrip = hasTreadStrip;
+
+  private pending?: Subscription;
 
   constructor() {
     effect(() => this.load());
@@ -60,7 +63,8 @@ export class StairPage {
     this.loaded.set({ state: 'loading' });
     const stair: Observable<Stair | null> = stairId ? this.api.stair(projectId, stairId) : of(null);
     const estimates: Observable<StoredEstimateSummary[]> = stairId ? this.api.estimates(projectId, stairId) : of([]);
-    forkJoin([this.api.project(projectId), stair, estimates]).subscribe({
+    this.pending?.unsubscribe(); // a newer load wins over an answer still on its way
+    this.pending = forkJoin([this.api.project(projectId), stair, estimates]).subscribe({
       next: ([project, stair, estimates]) => {
         const base = stair?.input ?? NEW_STAIR;
         const form = stairForm(stair?.name ?? 'Main stair', base);
@@ -123,9 +127,9 @@ export class StairPage {
     }
   }
 
-  /** The staircase of the form as it stands, for kit options. */
-  protected staircaseNow(d: Extract<Loaded, { state: 'ready' }>) {
-    return requestOf(d.form.getRawValue(), d.base).staircase;
+  /** Asks for kit options for the stair as the form stands. */
+  protected findKits(d: Extract<Loaded, { state: 'ready' }>): void {
+    this.optionsFor.set(requestOf(d.form.getRawValue(), d.base).staircase ?? null);
   }
 
   private tell(message: string): void {

@@ -5,7 +5,7 @@ import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
+import { firstValueFrom, type Subscription } from 'rxjs';
 
 import type { EstimateChanges, StoredEstimate } from '../../core/api-types.js';
 import { Auth } from '../../core/auth.js';
@@ -100,6 +100,8 @@ export class EstimatePage {
   protected readonly downloading = signal<EstimateDocument | null>(null);
   protected readonly mayRun = computed(() => roleMay(this.auth.role(), 'projects:write'));
 
+  private pending?: Subscription;
+
   constructor() {
     effect(() => this.load());
   }
@@ -107,7 +109,8 @@ export class EstimatePage {
   protected load(): void {
     const id = this.estimateId();
     this.loaded.set({ state: 'loading' });
-    this.api.estimate(id).subscribe({
+    this.pending?.unsubscribe(); // a newer load wins over an answer still on its way
+    this.pending = this.api.estimate(id).subscribe({
       next: (estimate) => this.loaded.set({ state: 'ready', estimate, changes: null }),
       error: (error: unknown) => this.loaded.set({ state: 'failed', reason: problemMessage(error) }),
     });
