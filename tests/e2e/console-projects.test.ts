@@ -115,6 +115,34 @@ describe('the projects screens in Chromium', () => {
     await page.screenshot({ path: path.join(SCREENSHOTS, 'estimate-phone.png'), fullPage: true });
   });
 
+  it('lets the estimator start a project, add a stair, compare kits and run it', async () => {
+    const page = await freshPage();
+    await page.goto(`${server.url}/projects`, { waitUntil: 'networkidle' });
+    await signIn(page, 'theo@harborlane.test');
+    await page.click('[data-testid="create-project"]');
+    await page.fill('[data-testid="project-name"]', 'Alder Row, house 7'); // demo-scenario.md
+    await page.click('[data-testid="project-create-submit"]');
+    await page.waitForSelector('[data-testid="stairs-empty"]', { timeout: 15_000 });
+    expect(await page.locator('[data-testid="project-title"]').innerText()).toBe('Alder Row, house 7');
+
+    await page.click('[data-testid="create-stair"]');
+    await page.waitForSelector('[data-testid="side-view"]', { timeout: 15_000 });
+    await page.fill('[data-testid="stair-name"]', 'Townhouse stair');
+    await page.click('[data-testid="save-stair"]');
+    await page.waitForSelector('[data-testid="run-stair"]', { timeout: 15_000 }); // saved: now it can run
+    expect(new URL(page.url()).pathname).toMatch(/^\/projects\/[0-9a-f-]{36}\/stairs\/[0-9a-f-]{36}$/);
+
+    await page.click('[data-testid="show-options"]');
+    await page.waitForSelector('[data-testid="kit"]', { timeout: 30_000 });
+    expect(await page.locator('[data-testid="kit"]').count()).toBeGreaterThan(0);
+    expect(await page.locator('[data-testid="kit"]').first().innerText()).toContain('€');
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'kit-options-desktop.png'), fullPage: true });
+
+    await page.click('[data-testid="run-stair"]');
+    await page.waitForSelector('[data-testid="totals"]', { timeout: 30_000 });
+    expect(await page.locator('[data-testid="totals"]').innerText()).toContain('14 of 14'); // the new stair's 14 treads
+  });
+
   it('shows a viewer the stair and its estimates on a phone, with no save or run', async () => {
     const page = await freshPage(360);
     await page.goto(`${server.url}/projects`, { waitUntil: 'networkidle' });
