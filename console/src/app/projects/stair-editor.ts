@@ -21,8 +21,10 @@ import { StairSideView } from './stair-side-view.js';
 })
 export class StairEditor {
   readonly form = input.required<StairForm>();
-  /** Layouts with a strip on every tread show the strip's fields and draw the treads lit. */
+  /** Layouts with a strip on every tread show the strip's fields (and may light landings). */
   readonly treadStrip = input(true);
+  /** Whether the layout lights the treads (every layout but a rail run alone). */
+  readonly treadsLit = input(true);
   /** The controller is an inline profile in the stored request: no profile id to edit. */
   readonly inlineController = input(false);
 
@@ -33,7 +35,7 @@ export class StairEditor {
   /** The last drawable stair: while a measurement is out of bounds the drawing keeps the last good one. */
   protected readonly view = linkedSignal<StairFormValue | null, SideView | null>({
     source: this.value,
-    computation: (value, previous) => (value && this.drawable() ? sideView(this.staircase(value), this.treadStrip()) : (previous?.value ?? null)),
+    computation: (value, previous) => (value && this.drawable() ? sideView(this.staircase(value), this.treadsLit()) : (previous?.value ?? null)),
   });
 
   constructor() {

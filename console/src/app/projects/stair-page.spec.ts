@@ -15,7 +15,7 @@ describe('StairPage', () => {
   let fixture: ComponentFixture<StairPage>;
   let http: HttpTestingController;
 
-  async function render(role: Role): Promise<void> {
+  async function render(role: Role, stair = STAIR): Promise<void> {
     TestBed.configureTestingModule({ providers: pageSpecProviders(role) });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(StairPage);
@@ -23,7 +23,7 @@ describe('StairPage', () => {
     fixture.componentRef.setInput('stairId', STAIR_ID);
     await fixture.whenStable();
     http.expectOne(`/v1/projects/${PROJECT_ID}`).flush(PROJECT);
-    http.expectOne(`/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}`).flush(STAIR);
+    http.expectOne(`/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}`).flush(stair);
     http.expectOne((r) => r.url === `/v1/projects/${PROJECT_ID}/stairs/${STAIR_ID}/estimates`).flush({ items: [], nextCursor: null });
     await settle();
   }
@@ -90,6 +90,24 @@ describe('StairPage', () => {
     (page().querySelector('[data-testid="show-options"]') as HTMLButtonElement).click();
     await settle();
     expect(http.expectOne('/v1/estimates/options').request.body.staircase.treads).toBe(13);
+  });
+
+  it('draws a handrail-only stair unlit and asks nothing about a tread strip', async () => {
+    // Quayside-style rail run along a stair (demo-scenario.md): pixels on the rail, none on the treads.
+    const rail = {
+      ...STAIR,
+      input: {
+        layout: 'rail-pixels',
+        staircase: STAIR.input.staircase,
+        railPixels: { lengthM: 4, pixelsPerM: 60, voltageV: 5, protocol: 'one-wire-800k' },
+        controller: { profileId: 'HL-K20' },
+      },
+    } as typeof STAIR;
+    await render('estimator', rail);
+    expect(litTreads()).toBe(0);
+    expect(page().querySelectorAll('[data-testid="side-view"] text').length).toBeGreaterThan(0); // still drawn
+    expect(page().querySelector('[data-testid="field-voltageV"]')).toBeNull();
+    expect(page().querySelector('[data-testid="show-options"]')).toBeNull(); // kit options size tread strips only
   });
 
   it('does not send a stair the API would refuse', async () => {
