@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 
-import { sideView } from './side-view-geometry.js';
+import { RAIL_HEIGHT_MM, railLine, sideView } from './side-view-geometry.js';
 
 describe('sideView', () => {
   it('climbs one riser and runs one going per tread of a straight flight', () => {
@@ -31,5 +31,19 @@ describe('sideView', () => {
     const view = sideView({ treads: 4, treadWidthMm: 900, riserHeightMm: 170, goingMm: 280, flights: [{ treads: 2 }, { treads: 2 }] }, false);
     expect(view.landings[0]).toMatchObject({ x1: 560, x2: 1460, lit: false });
     expect(view.treads.every((t) => !t.lit)).toBe(true);
+  });
+
+  it('runs a handrail along the nosings, level over a landing', () => {
+    const view = sideView({ treads: 4, treadWidthMm: 900, riserHeightMm: 170, goingMm: 280, flights: [{ treads: 2, landingLengthMm: 1000 }, { treads: 2 }] }, false);
+    const h = RAIL_HEIGHT_MM;
+    expect(railLine(view)).toEqual([
+      { x: 0, y: 170 + h },
+      { x: 280, y: 340 + h },
+      { x: 560, y: 340 + h }, // the landing, level
+      { x: 1560, y: 340 + h },
+      { x: 1560, y: 510 + h },
+      { x: 1840, y: 680 + h },
+      { x: 2120, y: 680 + h },
+    ]);
   });
 });

@@ -51,3 +51,14 @@ export function sideView(stair: Pick<Staircase, 'treads' | 'riserHeightMm' | 'go
   });
   return { outline, treads, landings, widthMm: x, heightMm: y };
 }
+
+/** Handrail height above the nosings, mm: a typical figure for drawing only (common practice, no published source). */
+export const RAIL_HEIGHT_MM = 900;
+
+/** A handrail drawn along the nosings (sloping up each flight, level over each landing), foot first. */
+export function railLine(view: SideView): { x: number; y: number }[] {
+  const points = [...view.treads.map((t) => ({ x: t.x1, y: t.y })), ...view.landings.flatMap((l) => [{ x: l.x1, y: l.y }, { x: l.x2, y: l.y }])];
+  const last = view.treads.at(-1);
+  if (last) points.push({ x: last.x2, y: last.y });
+  return points.sort((a, b) => a.x - b.x || a.y - b.y).map((p) => ({ x: p.x, y: p.y + RAIL_HEIGHT_MM }));
+}

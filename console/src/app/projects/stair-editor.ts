@@ -25,6 +25,8 @@ export class StairEditor {
   readonly treadStrip = input(true);
   /** Whether the layout lights the treads (every layout but a rail run alone). */
   readonly treadsLit = input(true);
+  /** Whether the layout runs pixels along a handrail. */
+  readonly railLit = input(false);
   /** The controller is an inline profile in the stored request: no profile id to edit. */
   readonly inlineController = input(false);
 

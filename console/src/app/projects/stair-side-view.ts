@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 
-import type { SideView } from './side-view-geometry.js';
+import { RAIL_HEIGHT_MM, type SideView, railLine } from './side-view-geometry.js';
 
 const MARGIN_MM = 120;
 
@@ -18,6 +18,9 @@ const MARGIN_MM = 120;
     >
       <line class="floor" [attr.x1]="-margin" [attr.x2]="v.widthMm + margin" [attr.y1]="v.heightMm" [attr.y2]="v.heightMm" vector-effect="non-scaling-stroke" />
       <polyline class="profile" [attr.points]="points()" vector-effect="non-scaling-stroke" />
+      @if (rail()) {
+        <polyline class="rail" data-testid="lit-rail" [attr.points]="railPoints()" vector-effect="non-scaling-stroke" />
+      }
       @for (t of v.treads; track t.index) {
         @if (t.lit) {
           <line class="lit" data-testid="lit-tread" [attr.x1]="t.x1 + 10" [attr.x2]="t.x2 - 10" [attr.y1]="y(t.y) + strip()" [attr.y2]="y(t.y) + strip()" vector-effect="non-scaling-stroke" />
@@ -52,6 +55,13 @@ const MARGIN_MM = 120;
       stroke-width: 2;
       stroke-linejoin: round;
     }
+    .rail {
+      fill: none;
+      stroke: var(--mat-sys-tertiary);
+      stroke-width: 3;
+      stroke-dasharray: 2 4;
+      stroke-linecap: round;
+    }
     .lit {
       stroke: var(--mat-sys-tertiary);
       stroke-width: 4;
@@ -72,6 +82,8 @@ const MARGIN_MM = 120;
 })
 export class StairSideView {
   readonly view = input.required<SideView>();
+  /** Draws a lit handrail (layouts with a rail pixel run). */
+  readonly rail = input(false);
 
   protected readonly margin = MARGIN_MM;
   /** SVG's y runs down; the geometry's runs up from the floor. */
@@ -81,11 +93,18 @@ export class StairSideView {
 
   protected readonly viewBox = computed(() => {
     const v = this.view();
-    return `${-MARGIN_MM} ${-MARGIN_MM * 2} ${v.widthMm + 2 * MARGIN_MM} ${v.heightMm + 3 * MARGIN_MM}`;
+    const top = MARGIN_MM * 2 + (this.rail() ? RAIL_HEIGHT_MM : 0);
+    return `${-MARGIN_MM} ${-top} ${v.widthMm + 2 * MARGIN_MM} ${v.heightMm + top + MARGIN_MM}`;
   });
   protected readonly points = computed(() => {
     const v = this.view();
     return v.outline.map((p) => `${p.x},${v.heightMm - p.y}`).join(' ');
+  });
+  protected readonly railPoints = computed(() => {
+    const v = this.view();
+    return railLine(v)
+      .map((p) => `${p.x},${v.heightMm - p.y}`)
+      .join(' ');
   });
   /** Text and strip offsets follow the drawing's size, so a long stair still reads. */
   protected readonly fontMm = computed(() => Math.max(60, Math.max(this.view().widthMm, this.view().heightMm) / 40));
