@@ -36,6 +36,8 @@ describe('console routes', () => {
     ['/team', '/team'],
     ['/activity', '/activity'],
     ['/operator/outbox', '/operator/outbox'],
+    ['/catalog', '/catalog'],
+    ['/projects', '/projects'],
   ])('sends a visitor who is not signed in from %s to sign in', async (url, next) => {
     const harness = await RouterTestingHarness.create();
     await harness.navigateByUrl(url, SignInPage);

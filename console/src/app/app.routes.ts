@@ -76,6 +76,17 @@ export const routes: Routes = [
         loadComponent: () => import('./operator/mail-outbox.js').then((m) => m.MailOutbox),
       },
       {
+        path: 'catalog',
+        title: 'Catalog · Treadwise',
+        canActivate: [requireRole('catalog:read')],
+        loadComponent: () => import('./catalog/catalog-page.js').then((m) => m.CatalogPage),
+      },
+      {
+        path: 'projects',
+        canActivate: [requireRole('projects:read')],
+        loadChildren: () => import('./projects/projects.routes.js').then((m) => m.PROJECT_ROUTES),
+      },
+      {
         path: 'status',
         title: 'Status · Treadwise',
         loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),

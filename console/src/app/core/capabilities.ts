@@ -1,7 +1,16 @@
 import type { Role } from './api-types.js';
 
 /** What the console offers a role. The API decides (api/auth/policy.ts); this only hides what it would refuse. */
-export type Capability = 'keys:manage' | 'sizing:run' | 'usage:read' | 'members:manage' | 'audit:read';
+export type Capability =
+  | 'keys:manage'
+  | 'sizing:run'
+  | 'usage:read'
+  | 'members:manage'
+  | 'audit:read'
+  | 'catalog:read'
+  | 'catalog:manage'
+  | 'projects:read'
+  | 'projects:write';
 
 const LEAST_ROLE: Record<Capability, Role> = {
   'keys:manage': 'admin',
@@ -9,6 +18,10 @@ const LEAST_ROLE: Record<Capability, Role> = {
   'usage:read': 'viewer',
   'members:manage': 'admin',
   'audit:read': 'admin',
+  'catalog:read': 'viewer',
+  'catalog:manage': 'admin',
+  'projects:read': 'viewer',
+  'projects:write': 'estimator',
 };
 
 const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };

@@ -20,6 +20,15 @@ const CONSOLE_ICONS: Readonly<Record<string, string>> = {
   rotate: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4.5 12a7.5 7.5 0 0 1 12.8-5.3L20 9.5M20 4.5v5h-5M19.5 12a7.5 7.5 0 0 1-12.8 5.3L4 14.5M4 19.5v-5h5"/></svg>`,
   revoke: `<svg viewBox="0 0 24 24"><circle ${stroke} cx="12" cy="12" r="8.5"/><path ${stroke} d="M6 6l12 12"/></svg>`,
   code: `<svg viewBox="0 0 24 24"><path ${stroke} d="m8.5 7-5 5 5 5M15.5 7l5 5-5 5"/></svg>`,
+  // A stair in side view: three treads and their risers.
+  stair: `<svg viewBox="0 0 24 24"><path ${stroke} d="M3 20h5v-5h5v-5h5V5h3"/></svg>`,
+  // A price tag.
+  catalog: `<svg viewBox="0 0 24 24"><path ${stroke} d="M3.5 12.5V4.5a1 1 0 0 1 1-1h8l8 8-9 9z"/><circle cx="8.5" cy="8.5" r="1.5" fill="currentColor"/></svg>`,
+  upload: `<svg viewBox="0 0 24 24"><path ${stroke} d="M12 16V4M7 9l5-5 5 5M4.5 16v3.5h15V16"/></svg>`,
+  download: `<svg viewBox="0 0 24 24"><path ${stroke} d="M12 4v12M7 11l5 5 5-5M4.5 16v3.5h15V16"/></svg>`,
+  edit: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20h4L19.5 8.5l-4-4L4 16z"/></svg>`,
+  run: `<svg viewBox="0 0 24 24"><path ${stroke} d="M7 4.5v15l12-7.5z"/></svg>`,
+  back: `<svg viewBox="0 0 24 24"><path ${stroke} d="M19 12H5M11 6l-6 6 6 6"/></svg>`,
   refresh: `<svg viewBox="0 0 24 24"><path ${stroke} d="M19.5 12a7.5 7.5 0 1 1-2.2-5.3"/><path ${stroke} d="M19.5 4v4h-4"/></svg>`,
   // Rising columns like treads seen from the front: calls over days.
   traffic: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20h16M6.5 20v-5M11 20v-9M15.5 20v-7M20 20V6"/></svg>`,
@@ -29,7 +38,6 @@ const CONSOLE_ICONS: Readonly<Record<string, string>> = {
   bench: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20V6l14 14z"/><path ${stroke} d="M8 16v-2h2v2zM4 20h16"/></svg>`,
   organizations: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20V8l6-3v15M10 20V10l10 2v8M3 20h18M13 15h4"/></svg>`,
   mail: `<svg viewBox="0 0 24 24"><rect ${stroke} x="3" y="5.5" width="18" height="13" rx="2"/><path ${stroke} d="m3.5 7 8.5 6.5L20.5 7"/></svg>`,
-  download: `<svg viewBox="0 0 24 24"><path ${stroke} d="M12 4v11M7 10.5l5 5 5-5M5 19.5h14"/></svg>`,
   open: `<svg viewBox="0 0 24 24"><path ${stroke} d="M14 4.5h5.5V10M19 5l-8 8M17 14v4.5a1.5 1.5 0 0 1-1.5 1.5h-10A1.5 1.5 0 0 1 4 18.5v-10A1.5 1.5 0 0 1 5.5 7H10"/></svg>`,
 };
 

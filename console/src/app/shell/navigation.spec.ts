@@ -11,6 +11,12 @@ describe('destinationsFor', () => {
     expect(labels('viewer')).not.toContain('Keys');
   });
 
+  it('offers projects and the catalog to every role, since viewers may read both', () => {
+    for (const role of ['admin', 'estimator', 'viewer'] as const) {
+      expect(destinationsFor(role).map((d) => d.label)).toEqual(expect.arrayContaining(['Projects', 'Catalog']));
+    }
+  });
+
   it('always offers the status page', () => {
     expect(labels(null)).toEqual(['Status']);
   });

@@ -15,6 +15,8 @@ export interface Destination {
 
 export const DESTINATIONS: readonly Destination[] = [
   { path: '/keys', label: 'Keys', icon: 'tw:key', needs: 'keys:manage' },
+  { path: '/projects', label: 'Projects', icon: 'tw:stair', needs: 'projects:read' },
+  { path: '/catalog', label: 'Catalog', icon: 'tw:catalog', needs: 'catalog:read' },
   { path: '/traffic', label: 'Traffic', icon: 'tw:traffic', needs: 'usage:read' },
   { path: '/bench', label: 'Bench', icon: 'tw:bench', needs: 'sizing:run' },
   { path: '/team', label: 'Team', icon: 'tw:team', needs: 'members:manage' },
