@@ -68,18 +68,22 @@ function catalogFrom(io: CliIo, file: string, settings: { currency: string; taxR
   return catalog;
 }
 
-/** The words to type again for --resume: the same command with --resume added. */
-function resumeCommand(file: string, output: string, raw: Record<string, unknown>, local: boolean): string {
-  const quote = (s: string) => (/^[\w./@:+-]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`);
+/** The words to type again for --resume: the same command, the options typed (not defaults) kept, --resume added. */
+function resumeCommand(file: string, output: string, raw: Record<string, unknown>, typed: (option: string) => boolean): string {
+  const quote = (s: string) => (/^[\w./@:+,=-]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`);
   const parts = ['treadwise', 'batch', quote(file), '-o', quote(output)];
-  if (raw.format) parts.push('--format', String(raw.format));
-  if (local) {
-    parts.push('--local');
-    if (raw.catalog) parts.push('--catalog', quote(String(raw.catalog)));
-    if (raw.currency) parts.push('--currency', String(raw.currency));
-    if (raw.taxRatePercent) parts.push('--tax-rate-percent', String(raw.taxRatePercent));
-    if (raw.detail) parts.push('--detail', String(raw.detail));
-  }
+  const valued: [string, string][] = [
+    ['format', '--format'],
+    ['detail', '--detail'],
+    ['catalog', '--catalog'],
+    ['currency', '--currency'],
+    ['taxRatePercent', '--tax-rate-percent'],
+    ['concurrency', '--concurrency'],
+    ['apiUrl', '--api-url'],
+  ];
+  if (raw.local) parts.push('--local');
+  for (const [key, flag] of valued) if (typed(key) && raw[key] !== undefined) parts.push(flag, quote(String(raw[key])));
+  if (raw.cancelOnInterrupt) parts.push('--cancel-on-interrupt');
   parts.push('--resume');
   return parts.join(' ');
 }
@@ -130,7 +134,7 @@ export function batchCommand(io: CliIo): Command {
     });
     const input = await openBatchInput(io, file);
     try {
-      const resume = resumeCommand(file, flags.output, raw, flags.local);
+      const resume = resumeCommand(file, flags.output, raw, (option) => command.getOptionValueSource(option) === 'cli');
       if (flags.local) {
         const catalog = flags.catalog ? catalogFrom(io, flags.catalog, { currency: flags.currency, taxRatePercent: flags.taxRatePercent }) : null;
         const concurrency = flags.concurrency ?? defaultConcurrency();

@@ -218,7 +218,8 @@ describe('treadwise batch through batch jobs on the API', () => {
     const stopped = await runCli(['batch', stairs, '-o', out, ...key()], { interrupt: interrupt.signal });
     expect(stopped.code).toBe(130);
     const job = [...fake.jobs.values()].at(-1)!;
-    expect(stopped.stderr).toContain(`the job ${job.id} keeps running on the server. Re-attach with: treadwise batch ${stairs} -o ${out} --resume`);
+    expect(stopped.stderr).toContain(`the job ${job.id} keeps running on the server. Re-attach with: treadwise batch ${stairs} -o ${out} --api-url ${apiUrl} --resume`);
+    expect(stopped.stderr).not.toContain(KEY); // the key is never printed
     const state = JSON.parse(readFileSync(`${out}.treadwise-batch.json`, 'utf8'));
     expect(state).toMatchObject({ jobId: job.id, apiUrl, format: 'ndjson', detail: 'summary' });
     expect(fake.cancels).not.toContain(job.id);
