@@ -1,4 +1,4 @@
-import { createReadStream, createWriteStream, mkdtempSync, openSync, readSync, closeSync, rmSync } from 'node:fs';
+import { closeSync, createReadStream, createWriteStream, mkdtempSync, openSync, readSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
@@ -40,6 +40,7 @@ function kindOf(file: string): InputKind {
 
 export async function openBatchInput(io: CliIo, file: string): Promise<BatchInput> {
   if (file !== '-') {
+    if (!statSync(file).isFile()) throw new CliError(`${file} is not a file`, EXIT.usage);
     return { path: file, name: file, kind: kindOf(file), cleanup: () => {} };
   }
   const dir = mkdtempSync(path.join(tmpdir(), 'treadwise-batch-'));

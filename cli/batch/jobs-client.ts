@@ -2,7 +2,7 @@ import { openAsBlob } from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
 import { API_VERSION } from '../../api/version.js';
-import { problemLine } from '../api-client.js';
+import { problemLine, unreachable } from '../api-client.js';
 import { CliError, EXIT } from '../errors.js';
 import type { CliIo } from '../io.js';
 import type { ApiTarget } from '../target.js';
@@ -50,10 +50,6 @@ export function createJobsClient(io: CliIo, target: Required<ApiTarget>, opts: J
   const base = target.apiUrl.replace(/\/+$/, '');
   const headers = { 'user-agent': `treadwise-cli/${API_VERSION}`, authorization: `Bearer ${target.apiKey}` };
 
-  const unreachable = (err: unknown) => {
-    const cause = (err as { cause?: { code?: string } }).cause;
-    return new CliError(`cannot reach ${new URL(base).origin} (${cause?.code ?? (err as Error).message})`);
-  };
 
   async function call(method: string, route: string, init: { body?: () => Promise<BodyInit>; accept: string; extra?: Record<string, string>; timeout?: boolean }): Promise<Response> {
     const response = await withRetries(
@@ -66,7 +62,7 @@ export function createJobsClient(io: CliIo, target: Required<ApiTarget>, opts: J
             signal: init.timeout === false ? opts.signal : AbortSignal.any([AbortSignal.timeout(JSON_TIMEOUT_MS), ...(opts.signal ? [opts.signal] : [])]),
           });
         } catch (err) {
-          throw unreachable(err);
+          throw unreachable(base, err);
         }
       },
       { policy: opts.retry, signal: opts.signal, onRetry: opts.onRetry },

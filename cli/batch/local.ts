@@ -1,4 +1,4 @@
-import { createWriteStream, existsSync, statSync, type WriteStream } from 'node:fs';
+import { createWriteStream, existsSync, openSync, statSync, type WriteStream } from 'node:fs';
 import type { Catalog } from '../../shared/schemas/catalog.js';
 import type { BatchDetail } from '../../shared/schemas/estimate-batch.js';
 import { csvRecords, ndjsonLines, type BatchInput } from './input.js';
@@ -53,7 +53,8 @@ function write(stream: WriteStream, text: string): Promise<void> {
 export async function runLocal(run: LocalRun): Promise<LocalOutcome> {
   const skipped = run.resume ? await resumableRows(run.output, run.format, (b) => run.summary.add(b)) : 0;
   const fresh = !run.resume || !existsSync(run.output) || statSync(run.output).size === 0;
-  const out = createWriteStream(run.output, { flags: fresh ? 'w' : 'a' });
+  // Opened at once, so a folder that does not exist is an error here, not in a stream later.
+  const out = createWriteStream('', { fd: openSync(run.output, fresh ? 'w' : 'a') });
   const outClosed = new Promise<void>((resolve, reject) => {
     out.once('close', resolve);
     out.once('error', reject);

@@ -1,4 +1,4 @@
-import { readFileSync } from 'node:fs';
+import { accessSync, constants, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { Command, Option } from 'commander';
@@ -119,6 +119,8 @@ export function batchCommand(io: CliIo): Command {
     const opts = apiOptionsSchema.parse({ apiUrl: raw.apiUrl, apiKey: raw.apiKey, json: raw.json, color: raw.color });
     const flags = batchFlagsSchema.parse({ ...raw, apiUrl: undefined, apiKey: undefined, json: undefined, color: undefined });
     const format = formatOf(flags.output, flags.format);
+    // The results must have somewhere to go before a job is started or a row sized.
+    accessSync(path.dirname(path.resolve(flags.output)), constants.W_OK);
     if (!flags.local && (flags.catalog || raw.concurrency !== undefined)) throw new CliError('--catalog and --concurrency go with --local (the API prices from the stored catalog)', EXIT.usage);
     if (flags.local && (flags.cancelOnInterrupt || flags.name)) throw new CliError('--cancel-on-interrupt and --name are for batch jobs on the API, not --local', EXIT.usage);
     if (flags.detail === 'full' && format === 'csv') io.err('batch: --detail full adds the whole estimate to NDJSON results only; the CSV holds the same columns');
