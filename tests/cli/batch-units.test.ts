@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { backoffMs, DEFAULT_RETRY, Interrupted, retryAfterMs, withRetries } from '../../cli/batch/retry.js';
 import { CliError } from '../../cli/errors.js';
 import { csvRecordItem, ndjsonLineItem, stairRowHeaderProblems } from '../../shared/sizing/batch/input-items.js';
+import { inlineCatalogOf, type StoredCatalogItem } from '../../shared/schemas/catalog-store.js';
 import { alderRowTownhouse } from '../../shared/schemas/estimate-examples.js';
 
 const FAST = { attempts: 4, baseDelayMs: 1, maxDelayMs: 4, maxRetryAfterMs: 5 };
@@ -97,5 +98,31 @@ describe('batch input rows', () => {
     expect(ndjsonLineItem(2, JSON.stringify({ ref: 'Plot 3', request: alderRowTownhouse }))).toMatchObject({ index: 2, ref: 'Plot 3', input: { layout: 'tread-strips' } });
     expect(ndjsonLineItem(0, '{"ref": "Plot 1", ')).toMatchObject({ problem: { detail: 'The line is not valid JSON.', errors: [{ path: '(line)' }] } });
     expect(ndjsonLineItem(0, JSON.stringify({ request: alderRowTownhouse, note: 'x' }))).toMatchObject({ problem: { errors: [{ path: 'note', message: 'unknown field' }] } });
+  });
+});
+
+describe('a stored catalog as the inline catalog the engine prices from', () => {
+  const items = [
+    { sku: 'hl-d24', kind: 'driver', unitPrice: 34.5, voltageV: 24, ratingW: 100, active: true },
+    { sku: 'HL-D24-150', kind: 'driver', unitPrice: 46, voltageV: 24, ratingW: 150 },
+    { sku: 'HL-OLD', kind: 'driver', unitPrice: 12, voltageV: 24, ratingW: 60, active: false },
+    { sku: 'HL-C050', kind: 'cable', unitPrice: 0.6, crossSectionMm2: 0.5 },
+  ] as StoredCatalogItem[];
+
+  it('keeps the active items without `active`, by SKU in code-point order (upper case before lower), with its currency and tax', () => {
+    const catalog = inlineCatalogOf(items, { currency: 'EUR', taxRatePercent: 20 });
+    expect(catalog).toEqual({
+      currency: 'EUR',
+      taxRatePercent: 20,
+      items: [
+        { sku: 'HL-C050', kind: 'cable', unitPrice: 0.6, crossSectionMm2: 0.5 },
+        { sku: 'HL-D24-150', kind: 'driver', unitPrice: 46, voltageV: 24, ratingW: 150 },
+        { sku: 'hl-d24', kind: 'driver', unitPrice: 34.5, voltageV: 24, ratingW: 100 },
+      ],
+    });
+  });
+
+  it('is null when no item is active', () => {
+    expect(inlineCatalogOf([items[2]!], { currency: 'EUR', taxRatePercent: 0 })).toBeNull();
   });
 });
