@@ -26,7 +26,9 @@ const KEY = 'tw_server_fakekey0001_secret';
 interface FakeJob {
   id: string;
   items: EstimateBatchItemResult[];
-  status: 'queued' | 'running' | 'succeeded' | 'cancelled';
+  status: 'queued' | 'running' | 'succeeded' | 'stopped' | 'cancelled';
+  /** A job named "stop at quota" stops at half its rows, as one that reaches the monthly quota does. */
+  stopsAtQuota: boolean;
   polls: number;
   detail: string;
 }
@@ -72,7 +74,7 @@ function view(job: FakeJob) {
     id: job.id,
     name: null,
     status: job.status,
-    stopReason: job.status === 'cancelled' ? 'cancelled' : null,
+    stopReason: job.status === 'cancelled' ? 'cancelled' : job.status === 'stopped' ? 'quota_exceeded' : null,
     source: 'csv',
     detail: job.detail,
     rows: {
@@ -109,7 +111,7 @@ function fakeApi(): express.Express {
       return;
     }
     const kind = file.mimetype === 'text/csv' ? 'csv' : 'ndjson';
-    const job: FakeJob = { id: `00000000-0000-4000-8000-${String(fake.jobs.size + 1).padStart(12, '0')}`, items: sizeFile(kind, file.buffer), status: 'queued', polls: 0, detail: String(req.query.detail) };
+    const job: FakeJob = { id: `00000000-0000-4000-8000-${String(fake.jobs.size + 1).padStart(12, '0')}`, items: sizeFile(kind, file.buffer), status: 'queued', polls: 0, detail: String(req.query.detail), stopsAtQuota: req.body?.name === 'stop at quota' };
     fake.jobs.set(job.id, job);
     res.status(202).location(`/v1/batches/${job.id}`).json(view(job));
   });
@@ -125,7 +127,7 @@ function fakeApi(): express.Express {
       else problem(res, 503, 'unavailable', 'Service unavailable');
       return;
     }
-    if (job.status !== 'cancelled') job.status = fake.hold ? 'running' : 'succeeded';
+    if (job.status !== 'cancelled') job.status = fake.hold ? 'running' : job.stopsAtQuota ? 'stopped' : 'succeeded';
     res.json(view(job));
     fake.onPoll(job);
   });
@@ -248,6 +250,16 @@ describe('treadwise batch through batch jobs on the API', () => {
     expect(fake.cancels).toContain(job.id);
     expect(run.stderr).toContain(`interrupted: job ${job.id} cancelled (500 rows done)`);
     expect(existsSync(`${out}.treadwise-batch.json`)).toBe(false);
+  });
+
+  it('writes the rows done of a job stopped at the quota, and exits 1 saying so', async () => {
+    const out = path.join(dir, 'stopped.csv');
+    const run = await runCli(['batch', stairs, '-o', out, '--name', 'stop at quota', ...key()]);
+    expect(run.code).toBe(1);
+    expect(run.stderr).toContain(`treadwise: the job stopped (quota_exceeded) after 500 of 1000 rows; the rows done are in ${out}`);
+    const rows = readFileSync(out, 'utf8').trimEnd().split('\r\n').slice(1);
+    expect(rows.map((r) => Number(r.split(',')[0]))).toEqual(Array.from({ length: 500 }, (_, i) => i + 1));
+    expect(run.stdout).toMatch(/^Rows +500$/m);
   });
 
   it('refuses to start a second job for an output a job already writes, and to resume without one', async () => {
