@@ -21,6 +21,8 @@ import { batchItems, tempDir, writeStairCsv } from './batch-fixtures.js';
  * real routes live with the API; this checks the CLI's side of the contract: upload, polling
  * through a 429 with Retry-After and a 503, the results streamed to the file, resume and cancel.
  */
+/** Worker threads start and warm up slowly on a busy machine: room enough, never a timing assertion. */
+const SLOW = 120_000;
 const KEY = 'tw_server_fakekey0001_secret';
 
 interface FakeJob {
@@ -210,7 +212,7 @@ describe('treadwise batch through batch jobs on the API', () => {
     expect(run.stdout).toContain('  row 12 (Plot 12)  validation_failed: staircase.treads:');
     expect(run.stdout).toContain('  …and 80 more');
     expect(existsSync(`${out}.treadwise-batch.json`)).toBe(false);
-  });
+  }, SLOW);
 
   it('leaves the job running on Ctrl-C with a state file, and --resume re-attaches to it instead of uploading again', async () => {
     const out = path.join(dir, 'resumed.ndjson');
@@ -237,7 +239,7 @@ describe('treadwise batch through batch jobs on the API', () => {
     expect(lines.join('\n') + '\n').toBe(job.items.map((i) => `${JSON.stringify(i)}\n`).join(''));
     expect(JSON.parse(resumed.stdout)).toMatchObject({ jobId: job.id, status: 'succeeded', rows: 1000, failed: 100 });
     expect(existsSync(`${out}.treadwise-batch.json`)).toBe(false);
-  });
+  }, SLOW);
 
   it('cancels the job on Ctrl-C with --cancel-on-interrupt', async () => {
     const out = path.join(dir, 'cancelled.csv');
@@ -250,7 +252,7 @@ describe('treadwise batch through batch jobs on the API', () => {
     expect(fake.cancels).toContain(job.id);
     expect(run.stderr).toContain(`interrupted: job ${job.id} cancelled (500 rows done)`);
     expect(existsSync(`${out}.treadwise-batch.json`)).toBe(false);
-  });
+  }, SLOW);
 
   it('writes the rows done of a job stopped at the quota, and exits 1 saying so', async () => {
     const out = path.join(dir, 'stopped.csv');
@@ -260,7 +262,7 @@ describe('treadwise batch through batch jobs on the API', () => {
     const rows = readFileSync(out, 'utf8').trimEnd().split('\r\n').slice(1);
     expect(rows.map((r) => Number(r.split(',')[0]))).toEqual(Array.from({ length: 500 }, (_, i) => i + 1));
     expect(run.stdout).toMatch(/^Rows +500$/m);
-  });
+  }, SLOW);
 
   it('refuses to start a second job for an output a job already writes, and to resume without one', async () => {
     const out = path.join(dir, 'busy.csv');
@@ -273,7 +275,7 @@ describe('treadwise batch through batch jobs on the API', () => {
     expect(none.code).toBe(2);
     expect(none.stderr).toContain('nothing to resume');
     expect(fake.uploads.length).toBe(uploads);
-  });
+  }, SLOW);
 
   it('shows a refused upload as one line with its code and request id (usage error)', async () => {
     const refused = path.join(dir, 'refused.csv');
@@ -281,5 +283,5 @@ describe('treadwise batch through batch jobs on the API', () => {
     const run = await runCli(['batch', refused, '-o', path.join(dir, 'refused-out.csv'), ...key()]);
     expect(run.code).toBe(2);
     expect(run.stderr.trim()).toBe('treadwise: Not CSV (code not_csv, request req-not_csv)');
-  });
+  }, SLOW);
 });

@@ -14,6 +14,9 @@ import { ALL_KEY_SCOPES, startCliServer, type CliServer } from '../support/cli-s
 import { createKey } from '../support/fixtures.js';
 import { batchItems, tempDir, writeNdjson, writeStairCsv, type BatchItem } from './batch-fixtures.js';
 
+/** Worker threads start and warm up slowly on a busy machine: room enough, never a timing assertion. */
+const SLOW = 120_000;
+
 let s: CliServer;
 /** A key that may run synchronous batches (batches:write) and manage the catalog. */
 let token: string;
@@ -67,7 +70,7 @@ describe('treadwise batch --local', () => {
     expect(run.stdout).toContain(`  row 12 (Plot 12)  validation_failed: staircase.treads:`);
     expect(run.stdout).toContain(`  …and ${failed.length - 20} more`);
     expect(run.stderr).toContain(`treadwise: ${failed.length} row(s) could not be sized`);
-  });
+  }, SLOW);
 
   it('writes the NDJSON of the same answers, in row order, from an NDJSON input with --detail full', async () => {
     const full = await syncBatch(ITEMS.slice(0, 60), 'full');
@@ -79,7 +82,7 @@ describe('treadwise batch --local', () => {
     const summary = JSON.parse(run.stdout);
     expect(summary).toMatchObject({ output: out, format: 'ndjson', rows: 60, ok: full.filter((i) => i.status === 'ok').length });
     expect(summary.failedRows.map((f: { row: number }) => f.row)).toEqual(full.filter((i) => i.status === 'error').map((i) => i.index + 1));
-  });
+  }, SLOW);
 
   it('reads stdin (-) and exits 0 when every row was sized', async () => {
     const good = ITEMS.filter((_, i) => ![11, 23, 31, 40, 47].includes(i % 50)).slice(0, 30);
@@ -88,7 +91,7 @@ describe('treadwise batch --local', () => {
     const run = await runCli(['batch', '-', '-o', out, '--local'], { stdin });
     expect(run.code).toBe(0);
     expect(readFileSync(out, 'utf8')).toBe(asCsv(await syncBatch(good)));
-  });
+  }, SLOW);
 
   it('prices from --catalog exactly as the API prices from the same catalog stored', async () => {
     // The catalog travels as the CSV the catalog upload takes; the API stores it, the CLI reads the file.
@@ -124,7 +127,7 @@ describe('treadwise batch --local', () => {
     const unpriced = path.join(dir, 'unpriced.csv');
     await runCli(['batch', input, '-o', unpriced, '--local']);
     expect(bomTotals(readFileSync(unpriced, 'utf8')).every((cell) => cell === '')).toBe(true);
-  });
+  }, SLOW);
 
   it('refuses a catalog file with bad rows, naming line and column (usage error)', async () => {
     const bad = path.join(dir, 'bad-catalog.csv');
@@ -132,7 +135,7 @@ describe('treadwise batch --local', () => {
     const run = await runCli(['batch', path.join(dir, 'stairs.csv'), '-o', path.join(dir, 'never.csv'), '--local', '--catalog', bad]);
     expect(run.code).toBe(2);
     expect(run.stderr).toMatch(/bad-catalog\.csv is not a usable catalog: line 2 unitPrice: not a number/);
-  });
+  }, SLOW);
 });
 
 describe('treadwise batch --local --resume', () => {
@@ -152,7 +155,7 @@ describe('treadwise batch --local --resume', () => {
     expect(run.stdout).toMatch(new RegExp(`^Resumed +after row ${resumedAfter}$`, 'm'));
     // the summary counts the whole file, not only the rows of this run
     expect(run.stdout).toMatch(/^Rows +300$/m);
-  });
+  }, SLOW);
 
   it('stops cleanly on Ctrl-C (exit 130, whole rows, the resume command), then --resume finishes the file', async () => {
     const out = path.join(dir, 'interrupted.ndjson');
@@ -177,7 +180,7 @@ describe('treadwise batch --local --resume', () => {
     const resumed = await runCli(['batch', path.join(dir, 'stairs.csv'), '-o', out, '--local', '--resume']);
     expect(resumed.code).toBe(1);
     expect(readFileSync(out, 'utf8')).toBe(headerless);
-  });
+  }, SLOW);
 
   it('refuses to resume into a file that is not this format’s results', async () => {
     const out = path.join(dir, 'other.csv');
@@ -186,5 +189,5 @@ describe('treadwise batch --local --resume', () => {
     expect(run.code).toBe(2);
     expect(run.stderr).toContain('cannot be resumed: it does not start with the batch results header');
     expect(readFileSync(out, 'utf8')).toBe('a,b\r\n1,2\r\n');
-  });
+  }, SLOW);
 });
