@@ -14,7 +14,7 @@ export interface ApiResponse {
 const TIMEOUT_MS = 60_000;
 
 /** A network failure as one line: which origin, and the system's reason. */
-function unreachable(url: URL | string, err: unknown): CliError {
+export function unreachable(url: URL | string, err: unknown): CliError {
   const cause = (err as { cause?: { code?: string; errors?: { code?: string }[] } }).cause;
   const code = cause?.code ?? cause?.errors?.[0]?.code ?? (cause as Error | undefined)?.message ?? (err as Error).message;
   return new CliError(`cannot reach ${new URL(url).origin} (${code})`);

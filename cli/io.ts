@@ -20,6 +20,26 @@ export interface CliIo {
   configDir(): string;
   /** Asks on the terminal without echoing; absent when stdin is not a terminal (pipes, tests). */
   promptSecret?(question: string): Promise<string>;
+  /** stdin as a stream, for inputs too large to hold (`treadwise batch -`); else readStdin is used. */
+  stdinStream?(): NodeJS.ReadableStream;
+  /** A progress bar only on a terminal; quiet lines otherwise. */
+  stderrIsTTY?: boolean;
+  /**
+   * Calls `handler` on Ctrl-C (SIGINT) until the returned function is called, so a long command
+   * stops cleanly instead of dying; a second Ctrl-C ends the process at once.
+   */
+  onInterrupt?(handler: () => void): () => void;
+}
+
+function onSigint(handler: () => void): () => void {
+  let seen = false;
+  const listener = () => {
+    if (seen) process.exit(130);
+    seen = true;
+    handler();
+  };
+  process.on('SIGINT', listener);
+  return () => process.off('SIGINT', listener);
 }
 
 /** Reads one line from the terminal with echo off, so a pasted key never shows on screen. */
@@ -60,6 +80,9 @@ export const processIo: CliIo = {
   // No "-nodejs" suffix: the folder is ~/.config/treadwise on Linux.
   configDir: () => envPaths('treadwise', { suffix: '' }).config,
   promptSecret: process.stdin.isTTY ? promptHidden : undefined,
+  stdinStream: () => process.stdin,
+  stderrIsTTY: Boolean(process.stderr.isTTY),
+  onInterrupt: onSigint,
 };
 
 /** A file's text, or stdin's for `-`; a missing file is a readable error. */

@@ -1,5 +1,6 @@
 import { Command } from 'commander';
 import { API_VERSION } from '../api/version.js';
+import { batchCommand } from './commands/batch.js';
 import { calcCommand } from './commands/calc.js';
 import { catalogCommand } from './commands/catalog.js';
 import { estimateCommand } from './commands/estimate.js';
@@ -28,12 +29,13 @@ export function createProgram(io: CliIo): Command {
       'after',
       '\nExit codes: 0 ok, 1 failure, 2 usage error (bad flags or request), 3 design checks failed.\n' +
         'Credentials: --api-url/--api-key, else TREADWISE_API_URL/TREADWISE_API_KEY, else treadwise login.\n\n' +
-        'Examples:\n  $ treadwise login --api-url https://api.example.test --api-key -\n  $ treadwise estimate stair.yaml\n  $ treadwise calc cable --supply-v 24 --current-a 4 --length-m 12\n',
+        'Examples:\n  $ treadwise login --api-url https://api.example.test --api-key -\n  $ treadwise estimate stair.yaml\n  $ treadwise batch stairs.csv -o results.csv\n  $ treadwise calc cable --supply-v 24 --current-a 4 --length-m 12\n',
     );
   program.addCommand(loginCommand(io));
   program.addCommand(logoutCommand(io));
   program.addCommand(whoamiCommand(io));
   program.addCommand(estimateCommand(io));
+  program.addCommand(batchCommand(io));
   program.addCommand(calcCommand(io));
   program.addCommand(keysCommand(io));
   program.addCommand(catalogCommand(io));

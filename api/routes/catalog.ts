@@ -23,7 +23,7 @@ import { validateBody, validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
 import { HttpProblem } from '../problem.js';
 import { auditContext } from '../services/audit.js';
-import { CATALOG_CSV_COLUMNS, catalogCsv, catalogTemplateCsv, CsvNotReadable, readCatalogCsv } from '../services/catalog-csv.js';
+import { CATALOG_CSV_COLUMNS, catalogCsv, catalogTemplateCsv, CsvNotReadable, readCatalogCsv } from '../../shared/schemas/catalog-csv.js';
 import type { RouteModule } from './route-module.js';
 
 const skuOf = (req: Request) => String(req.params.sku);

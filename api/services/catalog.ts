@@ -1,7 +1,8 @@
 import { and, asc, count, eq, gt, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { minorUnitDigits, type Catalog, type CatalogItem } from '../../shared/schemas/catalog.js';
+import { minorUnitDigits, type Catalog } from '../../shared/schemas/catalog.js';
 import {
+  inlineCatalogOf,
   toMajorUnits,
   toMinorUnits,
   type CatalogItemQuery,
@@ -268,12 +269,11 @@ export function createCatalogService({ db, clock, onChange = () => undefined }: 
         .from(catalogItems)
         .where(and(eq(catalogItems.organizationId, organizationId), eq(catalogItems.active, true)))
         .orderBy(asc(catalogItems.sku));
-      const items = rows.map((r) => {
-        const { active: _active, ...item } = itemView(r, row.currency);
-        return item as CatalogItem;
-      });
-      const catalog: Catalog | null =
-        items.length > 0 ? { currency: row.currency, taxRatePercent: row.taxRateBasisPoints / 100, items } : null;
+      // Shared with `treadwise batch --local --catalog`, so a catalog CSV prices as the stored catalog does.
+      const catalog = inlineCatalogOf(
+        rows.map((r) => itemView(r, row.currency)),
+        { currency: row.currency, taxRatePercent: row.taxRateBasisPoints / 100 },
+      );
       if (pricingCache.size >= PRICING_CACHE_SIZE) pricingCache.delete(pricingCache.keys().next().value as string);
       pricingCache.set(organizationId, { version: row.version, catalog, checkedAt: now });
       return catalog && { version: row.version, catalog };

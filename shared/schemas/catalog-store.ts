@@ -15,6 +15,8 @@ import {
   currencySchema,
   minorUnitDigits,
   taxRateSchema,
+  type Catalog,
+  type CatalogItem,
 } from './catalog.js';
 
 /**
@@ -102,6 +104,23 @@ export function toMinorUnits(price: number, currency: string): number | null {
 export function toMajorUnits(minor: number, currency: string): number {
   const digits = minorUnitDigits(currency);
   return Number((minor / 10 ** digits).toFixed(digits));
+}
+
+/**
+ * Stored items as the inline catalog the engine prices from: active items only, without `active`,
+ * prices as whole minor units read back, by SKU in code-point order (the same on every database
+ * and in the CLI); null when no item is active. The API turns its stored catalog into this, and
+ * `treadwise batch --local --catalog` a catalog CSV, so both price a stair alike.
+ */
+export function inlineCatalogOf(items: readonly StoredCatalogItem[], settings: { currency: string; taxRatePercent: number }): Catalog | null {
+  const active = items
+    .filter((item) => item.active !== false)
+    .map(({ active: _active, ...item }) => {
+      const minor = item.unitPrice === undefined ? null : toMinorUnits(item.unitPrice, settings.currency);
+      return (minor === null ? item : { ...item, unitPrice: toMajorUnits(minor, settings.currency) }) as CatalogItem;
+    })
+    .sort((a, b) => (a.sku < b.sku ? -1 : a.sku > b.sku ? 1 : 0));
+  return active.length > 0 ? { currency: settings.currency, taxRatePercent: settings.taxRatePercent, items: active } : null;
 }
 
 export const catalogImportQuerySchema = z

@@ -180,30 +180,56 @@ export function requestToRow(request: unknown, ref?: string): StairRow {
 export function rowToRequest(row: StairRow): StairRowRequest {
   const request: Record<string, unknown> = {};
   let ref: string | undefined;
-  const root = alternatives(estimateRequestSchema);
   for (const [column, cell] of Object.entries(row)) {
     if (cell === undefined || cell === null || cell === '') continue;
     if (column === REF_COLUMN) {
       ref = String(cell);
       continue;
     }
-    const segments = column.split('.');
-    if (segments.some((s) => s === '' || s === '__proto__' || s === 'constructor' || s === 'prototype')) continue;
-    let schemas = root;
+    const plan = columnPlan(column);
+    if (!plan) continue;
     let parent: Record<string, unknown> | unknown[] = request;
-    segments.forEach((segment, i) => {
-      const inArray = schemas.some((s) => defOf(s).type === 'array') && /^\d+$/.test(segment);
-      const key: string | number = inArray && Array.isArray(parent) ? Number(segment) : segment;
-      schemas = step(schemas, segment);
+    plan.steps.forEach((step, i) => {
+      const key: string | number = step.inArray && Array.isArray(parent) ? Number(step.segment) : step.segment;
       const holder = parent as Record<string | number, unknown>;
-      if (i === segments.length - 1) {
-        holder[key] = typeof cell === 'string' ? typedCell(cell, leafKinds(schemas)) : cell;
+      if (i === plan.steps.length - 1) {
+        holder[key] = typeof cell === 'string' ? typedCell(cell, plan.kinds) : cell;
         return;
       }
-      const nextIsIndex = schemas.some((s) => defOf(s).type === 'array') && /^\d+$/.test(segments[i + 1]!);
-      if (holder[key] === undefined || typeof holder[key] !== 'object' || holder[key] === null) holder[key] = nextIsIndex ? [] : {};
+      if (holder[key] === undefined || typeof holder[key] !== 'object' || holder[key] === null) holder[key] = step.nextIsIndex ? [] : {};
       parent = holder[key] as Record<string, unknown> | unknown[];
     });
   }
   return ref === undefined ? { request } : { ref, request };
+}
+
+/** How a column's path is walked: per segment, whether it indexes an array; the kinds its cell may be. */
+interface ColumnPlan {
+  steps: { segment: string; inArray: boolean; nextIsIndex: boolean }[];
+  kinds: Set<LeafKind>;
+}
+
+/** Plans by column name: a file repeats its columns on every row, and walking the schema is most of a row's cost. */
+const plans = new Map<string, ColumnPlan | null>();
+const MAX_PLANS = 10_000;
+
+function columnPlan(column: string): ColumnPlan | null {
+  const known = plans.get(column);
+  if (known !== undefined) return known;
+  const segments = column.split('.');
+  let plan: ColumnPlan | null = null;
+  if (!segments.some((s) => s === '' || s === '__proto__' || s === 'constructor' || s === 'prototype')) {
+    let schemas = alternatives(estimateRequestSchema);
+    const steps: ColumnPlan['steps'] = [];
+    segments.forEach((segment, i) => {
+      const inArray = schemas.some((s) => defOf(s).type === 'array') && /^\d+$/.test(segment);
+      schemas = step(schemas, segment);
+      const nextIsIndex = i < segments.length - 1 && schemas.some((s) => defOf(s).type === 'array') && /^\d+$/.test(segments[i + 1]!);
+      steps.push({ segment, inArray, nextIsIndex });
+    });
+    plan = { steps, kinds: leafKinds(schemas) };
+  }
+  if (plans.size >= MAX_PLANS) plans.clear();
+  plans.set(column, plan);
+  return plan;
 }

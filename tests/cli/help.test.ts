@@ -18,7 +18,7 @@ describe('treadwise conventions', () => {
   it('has the fixed command names', () => {
     expect(paths.map((p) => p.path.join(' ')).sort()).toEqual(
       [
-        'calc', 'calc cable', 'calc driver', 'calc pixels', 'calc reels', 'calc voltage-drop',
+        'batch', 'calc', 'calc cable', 'calc driver', 'calc pixels', 'calc reels', 'calc voltage-drop',
         'catalog', 'catalog export', 'catalog import', 'estimate', 'health',
         'keys', 'keys create', 'keys list', 'keys revoke', 'keys rotate',
         'login', 'logout', 'projects', 'projects export', 'projects list', 'projects show', 'usage', 'whoami',

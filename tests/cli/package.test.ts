@@ -1,11 +1,12 @@
 import { execFile } from 'node:child_process';
 import { createServer, type AddressInfo } from 'node:net';
-import { mkdtempSync, readFileSync, statSync, symlinkSync } from 'node:fs';
+import { mkdtempSync, readFileSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { API_VERSION } from '../../api/version.js';
+import { alderRowTownhouse } from '../../shared/schemas/estimate-examples.js';
 import { startCliServer, type CliServer } from '../support/cli-server.js';
 
 const run = promisify(execFile);
@@ -39,10 +40,10 @@ const treadwise = (args: string[], env: NodeJS.ProcessEnv = {}) =>
 
 describe('the npm package', () => {
   it('packs the built CLI, the README and package.json with its bin', () => {
-    expect(packedFiles.sort()).toEqual(['README.md', 'dist/cli/main.js', 'package.json']);
+    expect(packedFiles.sort()).toEqual(['README.md', 'dist/cli/batch-worker.js', 'dist/cli/main.js', 'package.json']);
     const manifest = JSON.parse(readFileSync(path.join(unpacked, 'package.json'), 'utf8'));
     expect(manifest.bin).toEqual({ treadwise: 'dist/cli/main.js' });
-    for (const dep of ['commander', 'zod', 'yaml', 'env-paths', 'openapi-fetch']) expect(manifest.dependencies[dep], dep).toBeDefined();
+    for (const dep of ['commander', 'zod', 'yaml', 'env-paths', 'openapi-fetch', 'piscina', 'cli-progress', 'csv-parse', 'csv-stringify']) expect(manifest.dependencies[dep], dep).toBeDefined();
     const main = path.join(unpacked, 'dist/cli/main.js');
     expect(readFileSync(main, 'utf8').startsWith('#!/usr/bin/env node\n')).toBe(true);
     expect(statSync(main).mode & 0o111).not.toBe(0);
@@ -58,6 +59,18 @@ describe('the npm package', () => {
     expect(statSync(file).mode & 0o777).toBe(0o600);
     const whoami = await treadwise(['whoami', '--json'], { XDG_CONFIG_HOME: xdg });
     expect(JSON.parse(whoami.stdout).credential.keyId).toBe(s.keyId);
+  });
+
+  it('sizes a batch offline on the packed worker thread (batch --local)', async () => {
+    const dir = mkdtempSync(path.join(tmpdir(), 'treadwise-pack-batch-'));
+    const input = path.join(dir, 'stairs.ndjson');
+    writeFileSync(input, [{ ref: 'Plot 1', request: alderRowTownhouse }, { ref: 'Plot 2', request: { layout: 'tread-strips' } }].map((l) => JSON.stringify(l)).join('\n'));
+    const out = path.join(dir, 'results.ndjson');
+    const batch = await treadwise(['batch', input, '-o', out, '--local', '--json']);
+    expect(batch.code).toBe(1); // Plot 2 has no stair: refused
+    expect(JSON.parse(batch.stdout)).toMatchObject({ rows: 2, ok: 1, failed: 1, failedRows: [{ row: 2, ref: 'Plot 2', code: 'validation_failed' }] });
+    const [first] = readFileSync(out, 'utf8').split('\n').map((l) => l && JSON.parse(l));
+    expect(first).toMatchObject({ index: 0, ref: 'Plot 1', status: 'ok', summary: { treads: 14 } });
   });
 
   it('fails in one line with exit 1 when nothing answers, and exit 2 on a bad flag', async () => {

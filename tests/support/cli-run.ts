@@ -19,6 +19,8 @@ export interface CliRunOptions {
   /** Where login is stored; default: a fresh temporary folder, so tests never touch the user's. */
   configDir?: string;
   stdoutIsTTY?: boolean;
+  /** Ctrl-C: aborting it calls the command's interrupt handler (as SIGINT does in a terminal). */
+  interrupt?: AbortSignal;
 }
 
 /** Runs the `treadwise` program in-process the way cli/main.ts does, capturing its output. */
@@ -35,6 +37,16 @@ export async function runCli(args: string[], options: CliRunOptions | typeof fet
     readStdin: async () => opts.stdin ?? '',
     stdoutIsTTY: opts.stdoutIsTTY ?? false,
     configDir: () => configDir,
+    onInterrupt: (handler) => {
+      const signal = opts.interrupt;
+      if (!signal) return () => {};
+      if (signal.aborted) {
+        queueMicrotask(handler);
+        return () => {};
+      }
+      signal.addEventListener('abort', handler, { once: true });
+      return () => signal.removeEventListener('abort', handler);
+    },
   };
   const program = createProgram(io).exitOverride();
   let code = 0;

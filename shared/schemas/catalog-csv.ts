@@ -1,16 +1,17 @@
 import { parse } from 'csv-parse/sync';
 import type { z } from 'zod';
-import { storedCatalogItemSchema, toMinorUnits, type StoredCatalogItem } from '../../shared/schemas/catalog-store.js';
-import { catalogItemSchema } from '../../shared/schemas/catalog.js';
-import { hasControlCharacter } from '../../shared/schemas/text.js';
-import { unguardCell, writeCsv, type CsvCell } from '../../shared/tables/csv.js';
-import { zodFieldErrors } from '../middleware/validate.js';
+import { unguardCell, writeCsv, type CsvCell } from '../tables/csv.js';
+import { zodFieldErrors } from './check-input.js';
+import { storedCatalogItemSchema, toMinorUnits, type StoredCatalogItem } from './catalog-store.js';
+import { catalogItemSchema } from './catalog.js';
+import { hasControlCharacter } from './text.js';
 
 /**
  * The catalog as CSV: one row per item, one column per field of any kind (nested fields such as a
  * controller's profile as `profile.outputs`). Cells of fields an item's kind lacks stay empty.
- * Written by the shared CSV writer (api/exports/csv.ts: RFC 4180, CRLF, UTF-8 with BOM, the
- * formula-injection guard) and read back with csv-parse, which strips the guard again.
+ * Written by the shared CSV writer (shared/tables/csv.ts: RFC 4180, CRLF, UTF-8 with BOM, the
+ * formula-injection guard) and read back with csv-parse, which strips the guard again. Pure (no
+ * I/O), so the API's catalog import and `treadwise batch --local --catalog` read a file alike.
  */
 
 type CellType = 'text' | 'number' | 'boolean';
@@ -121,7 +122,7 @@ function setPath(target: Record<string, unknown>, path: string, value: unknown):
  * Reads a catalog CSV: every row checked by its kind's schema, prices checked against the
  * currency's decimals, SKUs unique in the file. Throws CsvNotReadable for what is not CSV at all.
  */
-export function readCatalogCsv(data: Buffer, currency: string): { items: StoredCatalogItem[]; errors: CsvRowError[]; rows: number } {
+export function readCatalogCsv(data: Uint8Array, currency: string): { items: StoredCatalogItem[]; errors: CsvRowError[]; rows: number } {
   if (data.includes(0)) throw new CsvNotReadable('The file holds binary data (NUL bytes), not CSV text.');
   const text = new TextDecoder('utf-8', { fatal: false }).decode(data);
   if (text.includes('\uFFFD')) throw new CsvNotReadable('The file is not UTF-8 text.');
