@@ -146,12 +146,13 @@ export function createBatchJobService(deps: BatchJobDeps) {
   /** pg-boss: one message per chunk of rows still unanswered. */
   const enqueue = async (jobId: string) => {
     if (!boss) return kick();
+    // The divisor is a constant of ours, written into the statement so GROUP BY sees one expression.
+    const chunkOf = sql<number>`${batchJobRows.idx} / ${sql.raw(String(CHUNK_ROWS))}`.mapWith(Number);
     const open = await db
-      .select({ chunk: sql<number>`${batchJobRows.idx} / ${CHUNK_ROWS}`.mapWith(Number) })
+      .selectDistinct({ chunk: chunkOf })
       .from(batchJobRows)
       .where(and(eq(batchJobRows.jobId, jobId), isNull(batchJobRows.answer)))
-      .groupBy(sql`${batchJobRows.idx} / ${CHUNK_ROWS}`)
-      .orderBy(sql`${batchJobRows.idx} / ${CHUNK_ROWS}`);
+      .orderBy(chunkOf);
     const messages = open.map(({ chunk: n }) => ({
       name: QUEUE,
       data: { jobId, from: n * CHUNK_ROWS, to: (n + 1) * CHUNK_ROWS } satisfies ChunkMessage,
