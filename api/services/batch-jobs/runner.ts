@@ -177,9 +177,20 @@ export function createBatchJobService(deps: BatchJobDeps) {
     }
   };
 
+  /** A job that ended just before a crash may not have sent its e-mail: send it now. */
+  const notifyMissed = async () => {
+    const cutoff = new Date(clock().getTime() - 60_000);
+    const missed = await db
+      .select({ id: batchJobs.id })
+      .from(batchJobs)
+      .where(and(inArray(batchJobs.status, ['succeeded', 'stopped', 'failed']), isNull(batchJobs.notifiedAt), lt(batchJobs.finishedAt, cutoff)));
+    for (const job of missed) ended(job);
+  };
+
   const sweep = async () => {
     const deleted = await store.sweep();
     if (deleted) logger.info({ deleted }, 'expired batch jobs deleted');
+    await notifyMissed();
     await resendStalled();
   };
 
