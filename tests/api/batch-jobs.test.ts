@@ -12,6 +12,7 @@ import { bearer, createMember, signIn } from '../support/accounts.js';
 import { closeTraffic } from '../support/app-instance.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
+import { batchJobView, type BatchJobRow } from '../../api/services/batch-jobs/view.js';
 
 const { catalog: _inline, ...alderRowUnpriced } = harborLaneCheckout;
 // A plan made for these tests: 10 quota units a month, a rate that never binds.
@@ -307,5 +308,20 @@ describe('retention', () => {
     await jobs().sweep();
     await request(t.app).get(`/v1/batches/${created.body.id}`).set(bearer(batchKey)).expect(404);
     expect(await t.database.db.select().from(batchJobRows).where(and(eq(batchJobRows.jobId, created.body.id)))).toEqual([]);
+  });
+});
+
+describe('progress of a running job', () => {
+  it('gives the rate since the start and the time left at that rate; none before the start or after the end', async () => {
+    const created = await postJson(batchKey, { items: ITEMS }).expect(202);
+    const [row] = await t.database.db.select().from(batchJobs).where(eq(batchJobs.id, created.body.id));
+    const startedAt = new Date('2026-12-01T09:00:00Z');
+    const running: BatchJobRow = { ...row, status: 'running', rowsTotal: 1000, rowsDone: 250, startedAt };
+    // 250 rows in 10 s: 25 rows/s, 750 left: 30 s.
+    expect(batchJobView(running, new Date('2026-12-01T09:00:10Z'))).toMatchObject({ progress: 0.25, rowsPerSecond: 25, etaSeconds: 30 });
+    expect(batchJobView({ ...row, rowsTotal: 1000 }, new Date('2026-12-01T09:00:10Z'))).toMatchObject({ status: 'queued', progress: 0, rowsPerSecond: null, etaSeconds: null });
+    const finished: BatchJobRow = { ...running, status: 'succeeded', rowsDone: 1000, finishedAt: new Date('2026-12-01T09:00:20Z') };
+    expect(batchJobView(finished, new Date('2026-12-02T00:00:00Z'))).toMatchObject({ progress: 1, rowsPerSecond: 50, etaSeconds: null });
+    await request(t.app).post(`/v1/batches/${created.body.id}/cancel`).set(bearer(batchKey)).expect(200);
   });
 });

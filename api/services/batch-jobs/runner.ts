@@ -45,7 +45,7 @@ export interface BatchJobDeps {
 /** pg-boss speaks through our own pool, so it shares the configured server and schema search path. */
 function bossDb(database: Database): PgBoss.Db {
   const pool = (database.db as unknown as { $client: { query(text: string, values?: unknown[]): Promise<{ rows: unknown[] }> } }).$client;
-  return { executeSql: (text, values) => pool.query(text, values) as Promise<{ rows: any[] }> }; // eslint-disable-line @typescript-eslint/no-explicit-any
+  return { executeSql: (text, values) => pool.query(text, values) } as PgBoss.Db;
 }
 
 /**
