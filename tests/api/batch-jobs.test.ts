@@ -13,6 +13,10 @@ import { closeTraffic } from '../support/app-instance.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 import { batchJobView, type BatchJobRow } from '../../api/services/batch-jobs/view.js';
+import { createBatchJobService } from '../../api/services/batch-jobs/runner.js';
+import { jsonRows } from '../../api/services/batch-jobs/intake.js';
+import { createLogger } from '../../api/logger.js';
+import { HttpProblem } from '../../api/problem.js';
 
 const { catalog: _inline, ...alderRowUnpriced } = harborLaneCheckout;
 // A plan made for these tests: 10 quota units a month, a rate that never binds.
@@ -214,6 +218,22 @@ describe('POST /v1/batches with a file', () => {
   });
 });
 
+describe('the row cap', () => {
+  it('refuses a job over the cap whole (413 too_many_rows) after reading one row too many, and leaves no rows behind', async () => {
+    const services = t.app.locals.services;
+    // The real cap is MAX_JOB_ROWS (100 000); the same code with a cap of 3.
+    const small = createBatchJobService({ database: t.database, clock, logger: createLogger('silent'), quotas: services.quotas, usageMeter: services.usageMeter, mailer: services.mailer, catalog: services.catalog, publicUrl: 'http://localhost', retentionDays: 7, maxRows: 3 });
+    const job = { organizationId: orgId, name: null, source: 'json' as const, detail: 'summary' as const, createdBy: { type: 'key' as const, id: 'cap-test' }, meteredKeyId: 'cap-test' };
+    const refused = await small.create(job, jsonRows(ITEMS.slice(0, 4))).catch((err: unknown) => err);
+    expect(refused).toBeInstanceOf(HttpProblem);
+    expect(refused).toMatchObject({ status: 413, code: 'too_many_rows' });
+    expect(await t.database.db.select().from(batchJobs).where(eq(batchJobs.createdById, 'cap-test'))).toEqual([]);
+    const fits = await small.create(job, jsonRows(ITEMS.slice(0, 3)));
+    expect(fits.rows.total).toBe(3);
+    await small.close();
+  });
+});
+
 describe('cancel, list and access', () => {
   it('cancels a queued job: nothing is answered after it; cancelling again is 409', async () => {
     const created = await postJson(batchKey, { items: ITEMS }).expect(202);
@@ -254,14 +274,19 @@ describe('cancel, list and access', () => {
 
 describe('running jobs', () => {
   it('answers every row exactly once when two runners size the same job at once', async () => {
-    const items = Array.from({ length: 450 }, (_, i) => ({ ref: `Plot ${i + 1}`, request: i % 7 === 3 ? { layout: 'tread-strips' } : alderRowTownhouse }));
+    const items = Array.from({ length: 650 }, (_, i) => ({ ref: `Plot ${i + 1}`, request: i % 7 === 3 ? { layout: 'tread-strips' } : alderRowTownhouse }));
     const created = await postJson(batchKey, { items }).expect(202);
     await Promise.all([jobs().drain(), jobs().drain()]);
     const [job] = await t.database.db.select().from(batchJobs).where(eq(batchJobs.id, created.body.id));
-    expect(await rowCounts(created.body.id)).toEqual({ rows: 450, distinct: 450, answered: 450 });
-    expect(job).toMatchObject({ status: 'succeeded', rowsDone: 450, rowsTotal: 450 });
-    expect(job.rowsOk + job.rowsFailed).toBe(450);
+    expect(await rowCounts(created.body.id)).toEqual({ rows: 650, distinct: 650, answered: 650 });
+    expect(job).toMatchObject({ status: 'succeeded', rowsDone: 650, rowsTotal: 650 });
+    expect(job.rowsOk + job.rowsFailed).toBe(650);
     expect(job.rowsFailed).toBe(items.filter((i) => !('staircase' in i.request)).length);
+    // Read back over more than one page of the database (500 rows a page), in row order.
+    const lines = ndjsonLines((await request(t.app).get(`/v1/batches/${created.body.id}/results`).set(bearer(batchKey)).expect(200)).text);
+    expect(lines.map((l: { index: number }) => l.index)).toEqual(items.map((_, i) => i));
+    const csv = parse((await request(t.app).get(`/v1/batches/${created.body.id}/errors?format=csv`).set(bearer(batchKey)).expect(200)).text, { bom: true }) as string[][];
+    expect(csv.slice(1).map((r) => Number(r[0]))).toEqual(items.flatMap((item, i) => ('staircase' in item.request ? [] : [i + 1])));
   });
 
   it('stops at the monthly quota with the rows done kept, and tells the admins', async () => {

@@ -40,6 +40,8 @@ export interface BatchJobDeps {
   catalog: Pick<CatalogService, 'pricingCatalog'>;
   publicUrl: string;
   retentionDays: number;
+  /** Rows a job may hold (MAX_JOB_ROWS; tests set fewer). */
+  maxRows?: number;
 }
 
 /** pg-boss speaks through our own pool, so it shares the configured server and schema search path. */
@@ -63,7 +65,7 @@ function bossDb(database: Database): PgBoss.Db {
 export function createBatchJobService(deps: BatchJobDeps) {
   const { database, clock, logger } = deps;
   const { db } = database;
-  const store = createBatchJobStore({ db, clock, retentionDays: deps.retentionDays });
+  const store = createBatchJobStore({ db, clock, retentionDays: deps.retentionDays, maxRows: deps.maxRows });
   const instance = randomUUID();
   const mailing = new Set<Promise<void>>();
 

@@ -32,7 +32,7 @@ export interface NewJob {
 }
 
 /** Jobs and their rows in the database; every read filters by organisation (another one's job is a 404). */
-export function createBatchJobStore({ db, clock, retentionDays }: { db: Db; clock: () => Date; retentionDays: number }) {
+export function createBatchJobStore({ db, clock, retentionDays, maxRows = MAX_JOB_ROWS }: { db: Db; clock: () => Date; retentionDays: number; maxRows?: number }) {
   const retention = (from: Date) => new Date(from.getTime() + retentionDays * DAY_MS);
 
   async function row(organizationId: string, id: string): Promise<BatchJobRow> {
@@ -78,8 +78,8 @@ export function createBatchJobStore({ db, clock, retentionDays }: { db: Db; cloc
           buffer = [];
         };
         for await (const item of rows) {
-          if (++total > MAX_JOB_ROWS) {
-            throw new HttpProblem(413, 'too_many_rows', 'Too many rows', `A batch job takes at most ${MAX_JOB_ROWS} rows; split the file.`);
+          if (++total > maxRows) {
+            throw new HttpProblem(413, 'too_many_rows', 'Too many rows', `A batch job takes at most ${maxRows} rows; split the file.`);
           }
           buffer.push({
             jobId: created.id,
