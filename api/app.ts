@@ -19,6 +19,7 @@ import { docsRouter } from './routes/docs.js';
 import { routeModules } from './routes/index.js';
 import { BATCH_JSON_BODY_LIMIT, ESTIMATE_BATCH_PATH } from './routes/estimates-batch.js';
 import { enabledModules } from './routes/route-module.js';
+import { BATCH_JOB_JSON_LIMIT, BATCHES_PATH } from './routes/batches.js';
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
 export function createApp(deps: AppDeps): Express & { locals: { services: Services } } {
@@ -54,6 +55,9 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   app.use('/v1', jsonBodyOnly); // 415 for other types and encodings, before the parser runs
   // A synchronous batch carries up to 500 stairs: its route alone takes a larger body (parsed once; the next parser skips it).
   app.use(ESTIMATE_BATCH_PATH, express.json({ limit: BATCH_JSON_BODY_LIMIT, strict: true }));
+  // A batch job posted as JSON may carry more stairs still (files are uploaded as multipart).
+  const jobJson = express.json({ limit: BATCH_JOB_JSON_LIMIT, strict: true });
+  app.use(BATCHES_PATH, (req, res, next) => (req.method === 'POST' && req.path === '/' ? jobJson(req, res, next) : next()));
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 
   // A module this configuration disables does not exist: 404 before any credential check.

@@ -37,6 +37,7 @@ const configSchema = z
     METRICS_TOKEN: z.string().min(24, 'must be at least 24 characters (a random secret)').optional(),
     WEB_CONCURRENCY: z.coerce.number({ error: 'must be a whole number of worker processes' }).int().min(1).max(64).default(1),
     USAGE_FLUSH_AFTER_CALLS: z.coerce.number({ error: 'must be a whole number of calls' }).int().min(1).max(1_000_000).default(100),
+    BATCH_RETENTION_DAYS: z.coerce.number({ error: 'must be a whole number of days' }).int().min(1).max(366).default(7),
   })
   .refine((env) => env.HTTP_REQUEST_TIMEOUT_MS >= env.HTTP_HEADERS_TIMEOUT_MS, {
     path: ['HTTP_REQUEST_TIMEOUT_MS'],
@@ -82,6 +83,8 @@ const configSchema = z
     metricsToken: env.METRICS_TOKEN,
     // Worker processes on one port (node:cluster); only with DATABASE_URL, see api/cluster.ts.
     webConcurrency: env.WEB_CONCURRENCY,
+    // Batch jobs and their results are deleted this many days after they finish (or were created, if they never do).
+    batchRetentionDays: env.BATCH_RETENTION_DAYS,
   }));
 
 export type Config = z.output<typeof configSchema>;

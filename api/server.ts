@@ -66,6 +66,8 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
         resolve();
       });
     });
+    // Jobs left queued or running by an earlier process (a crash, a restart) resume here.
+    await app.locals.services.batchJobs.start();
   } catch (err) {
     await database.close(); // before the lock goes, so the next owner finds the files closed
     throw err;
@@ -81,6 +83,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
       await closer.close(config.shutdownDrainMs);
       // In-flight requests are done: write the buffered usage and last-used times, then close.
       await app.locals.services.passwordResets.settled(); // reset mails started before the stop
+      await app.locals.services.batchJobs.close(); // the chunk under way is written; later ones resume at the next start
       await app.locals.services.usageMeter.close();
       await app.locals.services.rateLimitStores.close();
       await database.close();

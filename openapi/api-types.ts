@@ -1045,6 +1045,112 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/batches": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * List batch jobs
+         * @description The organisation’s jobs, newest first, with cursor pagination. Jobs are deleted with their results when they expire (`expiresAt`).
+         */
+        get: operations["listBatches"];
+        put?: never;
+        /**
+         * Start a batch job of up to 100000 stairs
+         * @description Upload a file (multipart/form-data, field `file`, at most 64 MB, optional field `name`) or post JSON (`{ name?, items: [{ ref?, request }] }`, at most 4mb). A file is CSV in the stair-row format (a header row, then one stair per row: see `GET /v1/batches/template.csv` and docs/batch-rows.md) or NDJSON (one `{ "ref"?, "request" }` per line), told apart by the part’s content type (`text/csv`, `application/x-ndjson`, `application/jsonl`) or the extension (.csv, .ndjson, .jsonl). The file is streamed to the database, never held whole.
+         *
+         *     Each row is checked on its own with the schema `POST /v1/estimates` uses and later answered on its own: a bad row is that row’s error in the results, never a 400 for the job. Only a file that cannot be read at all is refused (`not_csv`). The job runs in the background: poll `GET /v1/batches/{id}` (honour Retry-After), then read `…/results`. Every row uses one unit of the monthly quota as it is sized; when the quota runs out the job stops (`stopped`, `quota_exceeded`) with the rows done kept. Rows are priced as `POST /v1/estimates` prices (inline catalog, else the stored catalog as it was when the job was created). Send `Idempotency-Key` to retry safely (for an upload the key alone identifies the request: use a new key for another file).
+         */
+        post: operations["createBatch"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/batches/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * A batch job and its progress
+         * @description Status, row counts, progress, the rate since the job started and the time left at that rate. While the job runs the answer carries `Retry-After` (seconds): poll no faster.
+         */
+        get: operations["getBatch"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/batches/{id}/results": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Results of a batch job
+         * @description Every row answered so far, in row order, streamed: NDJSON (default), each line exactly what `POST /v1/estimates/batch` answers for that item (with `detail=full` jobs, sized rows carry `result`), or CSV (`?format=csv`) with one flat row per stair, the same columns `treadwise batch` writes.
+         */
+        get: operations["getBatchResults"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/batches/{id}/errors": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Rows of a batch job answered with a problem
+         * @description As `…/results`, only the rows with `status: error`: each with its problem `code`, `detail` and field `errors` (paths are the request’s, so the CSV column names).
+         */
+        get: operations["getBatchErrors"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/batches/{id}/cancel": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Cancel a batch job
+         * @description Stops a queued or running job: no row is answered after it, the rows done are kept and can be read. A job that has ended is a 409.
+         */
+        post: operations["cancelBatch"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/metrics": {
         parameters: {
             query?: never;
@@ -7009,7 +7115,7 @@ export interface components {
          * @description What a key may do.
          * @enum {string}
          */
-        Scope: "sizing:run" | "projects:read" | "projects:write" | "catalog:read" | "catalog:write" | "batches:write" | "usage:read" | "keys:manage";
+        Scope: "sizing:run" | "projects:read" | "projects:write" | "catalog:read" | "catalog:write" | "batches:write" | "batches:read" | "usage:read" | "keys:manage";
         RotateApiKeyRequest: {
             /**
              * @description Hours the old secret keeps working beside the new one (0 to 72; default 24; 0 stops it at once).
@@ -8543,6 +8649,258 @@ export interface components {
                 /** @description The new run’s message (the old one’s when the check is gone). */
                 message: string;
             }[];
+        };
+        /**
+         * @description A background batch job and its progress.
+         * @example {
+         *       "id": "3d1f7c2a-9b4e-4f60-8a2d-5c7e1b9f0a34",
+         *       "name": "Alder Row, plots 1-400",
+         *       "status": "running",
+         *       "stopReason": null,
+         *       "source": "csv",
+         *       "detail": "summary",
+         *       "rows": {
+         *         "total": 400,
+         *         "done": 120,
+         *         "ok": 118,
+         *         "failed": 2,
+         *         "withFailingChecks": 5
+         *       },
+         *       "progress": 0.3,
+         *       "rowsPerSecond": 850.2,
+         *       "etaSeconds": 0.3,
+         *       "engineVersion": "1.4.0",
+         *       "catalogVersion": 3,
+         *       "createdBy": {
+         *         "type": "key",
+         *         "id": "k7f3a9c2d1e0"
+         *       },
+         *       "createdAt": "2026-12-02T09:00:00.000Z",
+         *       "startedAt": "2026-12-02T09:00:00.120Z",
+         *       "finishedAt": null,
+         *       "expiresAt": "2026-12-09T09:00:00.000Z",
+         *       "links": {
+         *         "self": "/v1/batches/3d1f7c2a-9b4e-4f60-8a2d-5c7e1b9f0a34",
+         *         "results": "/v1/batches/3d1f7c2a-9b4e-4f60-8a2d-5c7e1b9f0a34/results",
+         *         "errors": "/v1/batches/3d1f7c2a-9b4e-4f60-8a2d-5c7e1b9f0a34/errors"
+         *       }
+         *     }
+         */
+        Batch: {
+            /** Format: uuid */
+            id: string;
+            name: string | null;
+            /**
+             * @description `queued`, `running`; then `succeeded` (every row answered, some may be errors), `stopped` (the monthly quota ran out; rows done are kept), `cancelled`, or `failed` (the job itself broke, not a row).
+             * @enum {string}
+             */
+            status: "queued" | "running" | "succeeded" | "stopped" | "cancelled" | "failed";
+            /** @enum {string|null} */
+            stopReason: "quota_exceeded" | "cancelled" | "error" | null;
+            /** @enum {string} */
+            source: "csv" | "ndjson" | "json";
+            /** @enum {string} */
+            detail: "summary" | "full";
+            rows: components["schemas"]["BatchJobRows"];
+            /** @description Share of rows answered, 0 to 1. */
+            progress: number;
+            /** @description Rows answered per second since the job started; null before it starts. */
+            rowsPerSecond: number | null;
+            /** @description Seconds left at that rate while the job runs; null otherwise. */
+            etaSeconds: number | null;
+            /** @description Semver of the sizing engine that produced the result. */
+            engineVersion: string;
+            /** @description Version of the stored catalog that prices rows without an inline catalog; null when there is none. */
+            catalogVersion: number | null;
+            /** @description A user id, or an API key’s public key id. */
+            createdBy: {
+                /** @enum {string} */
+                type: "user" | "key";
+                id: string;
+            };
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            startedAt: string | null;
+            /** Format: date-time */
+            finishedAt: string | null;
+            /**
+             * Format: date-time
+             * @description When the job and its results are deleted.
+             */
+            expiresAt: string;
+            links: {
+                self: string;
+                results: string;
+                errors: string;
+            };
+        };
+        BatchJobRows: {
+            total: number;
+            done: number;
+            /** @description Rows sized (their designs may still fail checks). */
+            ok: number;
+            /** @description Rows answered with their own problem. */
+            failed: number;
+            /** @description Sized rows with at least one failing check. */
+            withFailingChecks: number;
+        };
+        /**
+         * @description A job from JSON: the same items as `POST /v1/estimates/batch` takes.
+         * @example {
+         *       "name": "Alder Row, plots 14-15",
+         *       "items": [
+         *         {
+         *           "ref": "Plot 14",
+         *           "request": {
+         *             "layout": "tread-strips",
+         *             "staircase": {
+         *               "treads": 14,
+         *               "treadWidthMm": 900,
+         *               "riserHeightMm": 185,
+         *               "goingMm": 250
+         *             },
+         *             "treadStrip": {
+         *               "voltageV": 24,
+         *               "powerWPerM": 10,
+         *               "cutPitchMm": 50,
+         *               "sku": "HL-S24-10"
+         *             },
+         *             "controller": {
+         *               "profile": {
+         *                 "outputs": 20,
+         *                 "maxCurrentPerOutputA": 1.5,
+         *                 "dataOutputs": 1,
+         *                 "maxPixelsPerOutput": 800,
+         *                 "sensorInput": {
+         *                   "type": "pnp",
+         *                   "supplyV": 5,
+         *                   "maxCurrentMa": 12
+         *                 },
+         *                 "sensorInputs": 2
+         *               }
+         *             },
+         *             "sensors": {
+         *               "motion": {
+         *                 "outputType": "pnp",
+         *                 "supplyV": 5,
+         *                 "currentMa": 8
+         *               }
+         *             }
+         *           }
+         *         },
+         *         {
+         *           "ref": "Plot 15",
+         *           "request": {
+         *             "layout": "tread-strips",
+         *             "staircase": {
+         *               "treads": 15,
+         *               "treadWidthMm": 900,
+         *               "riserHeightMm": 185,
+         *               "goingMm": 250,
+         *               "flights": [
+         *                 {
+         *                   "treads": 7,
+         *                   "landingLengthMm": 900
+         *                 },
+         *                 {
+         *                   "treads": 8
+         *                 }
+         *               ]
+         *             },
+         *             "treadStrip": {
+         *               "voltageV": 24,
+         *               "powerWPerM": 10,
+         *               "cutPitchMm": 50,
+         *               "sku": "HL-S24-10"
+         *             },
+         *             "controller": {
+         *               "profile": {
+         *                 "outputs": 20,
+         *                 "maxCurrentPerOutputA": 1.5,
+         *                 "dataOutputs": 1,
+         *                 "maxPixelsPerOutput": 800,
+         *                 "sensorInput": {
+         *                   "type": "pnp",
+         *                   "supplyV": 5,
+         *                   "maxCurrentMa": 12
+         *                 },
+         *                 "sensorInputs": 2
+         *               }
+         *             },
+         *             "sensors": {
+         *               "motion": {
+         *                 "outputType": "pnp",
+         *                 "supplyV": 5,
+         *                 "currentMa": 8
+         *               }
+         *             }
+         *           }
+         *         }
+         *       ]
+         *     }
+         */
+        CreateBatchJob: {
+            /**
+             * @description A name for the job, shown in lists.
+             * @example Alder Row, plots 1-24
+             */
+            name?: string;
+            /** @description 1 to 100000 stairs (the JSON body is at most 4 MB; upload a file for more). */
+            items: components["schemas"]["BatchJobItem"][];
+        };
+        /** @description One stair of a job: your reference and its estimate request. */
+        BatchJobItem: {
+            /**
+             * @description Your reference for the stair (a plot or order number), echoed in its answer.
+             * @example Plot 14
+             */
+            ref?: string;
+            /**
+             * @description An estimate request as `POST /v1/estimates` takes it; an invalid one is that row’s own error, never a 400 for the job.
+             * @example {
+             *       "layout": "tread-strips",
+             *       "staircase": {
+             *         "treads": 14,
+             *         "treadWidthMm": 900,
+             *         "riserHeightMm": 185,
+             *         "goingMm": 250
+             *       },
+             *       "treadStrip": {
+             *         "voltageV": 24,
+             *         "powerWPerM": 10,
+             *         "cutPitchMm": 50,
+             *         "sku": "HL-S24-10"
+             *       },
+             *       "controller": {
+             *         "profile": {
+             *           "outputs": 20,
+             *           "maxCurrentPerOutputA": 1.5,
+             *           "dataOutputs": 1,
+             *           "maxPixelsPerOutput": 800,
+             *           "sensorInput": {
+             *             "type": "pnp",
+             *             "supplyV": 5,
+             *             "maxCurrentMa": 12
+             *           },
+             *           "sensorInputs": 2
+             *         }
+             *       },
+             *       "sensors": {
+             *         "motion": {
+             *           "outputType": "pnp",
+             *           "supplyV": 5,
+             *           "currentMa": 8
+             *         }
+             *       }
+             *     }
+             */
+            request?: unknown;
+        };
+        BatchPage: {
+            items: components["schemas"]["Batch"][];
+            /** @description Pass as `cursor` for the next page; `null` on the last page. */
+            nextCursor: string | null;
         };
     };
     responses: never;
@@ -12248,6 +12606,459 @@ export interface operations {
             };
             /** @description Needs the batches:write scope (embed keys never have it) or the estimator role. */
             403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listBatches: {
+        parameters: {
+            query?: {
+                /** @description Items per page (1–200, default 50). */
+                limit?: number;
+                /** @description The `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description A page of jobs. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BatchPage"];
+                };
+            };
+            /** @description A malformed query (`validation_failed`) or cursor (`invalid_cursor`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs batches:read (or batches:write) for keys — embed keys never have it — or the viewer role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such job in this organisation (`batch_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit reached (`rate_limited`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    createBatch: {
+        parameters: {
+            query?: {
+                /** @description `summary` (default): each result line holds the headline figures, failing checks and `bomTotal`; `full` adds the whole estimate as `result`. */
+                detail?: "summary" | "full";
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["CreateBatchJob"];
+                "multipart/form-data": {
+                    /**
+                     * Format: binary
+                     * @description The CSV or NDJSON file.
+                     */
+                    file: string;
+                    /** @description A name for the job. */
+                    name?: string;
+                };
+            };
+        };
+        responses: {
+            /** @description The job, queued. `Location` names it. */
+            202: {
+                headers: {
+                    /** @description The job’s URL, `/v1/batches/{id}`. */
+                    Location?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Batch"];
+                };
+            };
+            /** @description No file (`file_missing`), a file that is not readable CSV or NDJSON or has a broken header (`not_csv`), no rows or a malformed JSON body (`validation_failed`), or a bad upload (`invalid_upload`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs batches:write (embed keys never have it) or the estimator role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A retry while the first request with this Idempotency-Key is still running. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A file over 64 MB (`file_too_large`), more than 100000 rows (`too_many_rows`), or a JSON body over 4mb (`body_too_large`). */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A body that is neither multipart/form-data nor JSON. */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The Idempotency-Key was used with another request (`idempotency_key_reused`). */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded` when nothing is left); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBatch: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The job’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The job. */
+            200: {
+                headers: {
+                    /** @description While the job is queued or running: seconds before asking again. */
+                    "Retry-After"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Batch"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs batches:read (or batches:write) for keys — embed keys never have it — or the viewer role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such job in this organisation (`batch_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit reached (`rate_limited`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBatchResults: {
+        parameters: {
+            query?: {
+                /** @description `ndjson` (default): one EstimateBatchItemResult per line; `csv`: one flat result row per stair. */
+                format?: "ndjson" | "csv";
+            };
+            header?: never;
+            path: {
+                /** @description The job’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The answers so far. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/x-ndjson": string;
+                    "text/csv": string;
+                };
+            };
+            /** @description A malformed query (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs batches:read (or batches:write) for keys — embed keys never have it — or the viewer role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such job in this organisation (`batch_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit reached (`rate_limited`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBatchErrors: {
+        parameters: {
+            query?: {
+                /** @description `ndjson` (default): one EstimateBatchItemResult per line; `csv`: one flat result row per stair. */
+                format?: "ndjson" | "csv";
+            };
+            header?: never;
+            path: {
+                /** @description The job’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The rows with problems so far. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/x-ndjson": string;
+                    "text/csv": string;
+                };
+            };
+            /** @description A malformed query (`validation_failed`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs batches:read (or batches:write) for keys — embed keys never have it — or the viewer role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such job in this organisation (`batch_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Rate limit reached (`rate_limited`); see Retry-After. */
+            429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    cancelBatch: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The job’s id. */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The cancelled job. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Batch"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Needs batches:write (embed keys never have it) or the estimator role. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such job in this organisation (`batch_not_found`). */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The job has ended already (`batch_finished`). */
+            409: {
                 headers: {
                     [name: string]: unknown;
                 };

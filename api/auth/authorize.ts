@@ -3,6 +3,7 @@ import { HttpProblem, problems } from '../problem.js';
 import { policyFor, pathKnown } from './policy.js';
 import { principalOf } from './principal.js';
 import { roleAtLeast } from './scopes.js';
+import { scopeGranted } from '../../shared/tables/access.js';
 
 /**
  * The one place access is decided, from the POLICIES table. A route missing from the table is
@@ -27,7 +28,7 @@ export const authorize: RequestHandler = (req, res, next) => {
     case 'api_key':
       if (!policy.scope) throw problems.forbidden('This route is for signed-in users, not API keys.', 'keys_not_allowed');
       if (p.kind === 'embed' && !policy.embed) throw problems.forbidden('Embed keys may only run sizing.', 'embed_key_not_allowed');
-      if (!p.scopes.includes(policy.scope)) throw problems.forbidden(`This key lacks the scope ${policy.scope}.`, 'insufficient_scope');
+      if (!scopeGranted(p.scopes, policy.scope)) throw problems.forbidden(`This key lacks the scope ${policy.scope}.`, 'insufficient_scope');
       return next();
     case 'user':
       if (policy.operator && !p.operator) throw problems.forbidden('Only the platform operator may do this.', 'operator_only');

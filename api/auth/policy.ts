@@ -36,6 +36,7 @@ const projectsDelete: Policy = { scope: 'projects:write', role: 'admin' };
 const projectsRun: Policy = { ...projectsWrite, sizing: true };
 /** Batches run the engine item by item: their own scope for keys, estimators for users, metered as sizing. */
 const batchesWrite: Policy = { scope: 'batches:write', role: 'estimator', sizing: true, unitsPerItem: true };
+const batchesRead: Policy = { scope: 'batches:read', role: 'viewer' };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
 export const POLICIES: Record<string, Policy> = {
@@ -54,6 +55,14 @@ export const POLICIES: Record<string, Policy> = {
   'POST /v1/estimates/batch': batchesWrite,
   // The stair-row CSV template: for whoever may run batches; runs nothing, so not metered as sizing for users.
   'GET /v1/batches/template.csv': { scope: 'batches:write', role: 'estimator' },
+  // Batch jobs: estimators and batches:write keys start and cancel them (the rows are metered as
+  // they are sized); viewers and batches:read keys read them (batches:write implies batches:read).
+  'POST /v1/batches': { scope: 'batches:write', role: 'estimator', sizing: true },
+  'GET /v1/batches': batchesRead,
+  'GET /v1/batches/:id': batchesRead,
+  'GET /v1/batches/:id/results': batchesRead,
+  'GET /v1/batches/:id/errors': batchesRead,
+  'POST /v1/batches/:id/cancel': { scope: 'batches:write', role: 'estimator' },
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,

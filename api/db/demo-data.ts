@@ -26,7 +26,7 @@ export const demoMembers = [
 ] as const;
 
 /** Server-side demo keys: everything a partner's server needs, but not key management. */
-export const demoServerKeyScopes: Scope[] = ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'usage:read'];
+export const demoServerKeyScopes: Scope[] = ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'batches:read', 'usage:read'];
 
 /** Demo page keys: sizing, and the shop's active catalog items for the embeddable estimator. */
 export const demoEmbedKeyScopes: Scope[] = ['sizing:run', 'catalog:read'];

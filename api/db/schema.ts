@@ -359,3 +359,80 @@ export const storedEstimates = pgTable(
   // The list: a stair's estimates, newest first.
   (t) => [index('estimates_stair_created').on(t.stairId, t.createdAt, t.id), index('estimates_org').on(t.organizationId)],
 );
+
+/** Where a batch job stands; `receiving` is internal (the upload is still being read) and never listed. */
+export type BatchJobStatus = 'receiving' | 'queued' | 'running' | 'succeeded' | 'stopped' | 'cancelled' | 'failed';
+
+/**
+ * A background batch job: its rows live in batch_job_rows, its counters here. The counters change
+ * only in the transaction that writes a chunk's answers, so they always equal what the rows hold.
+ */
+export const batchJobs = pgTable(
+  'batch_jobs',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    name: text('name'),
+    status: text('status').$type<BatchJobStatus>().notNull(),
+    stopReason: text('stop_reason').$type<'quota_exceeded' | 'cancelled' | 'error'>(),
+    source: text('source').$type<'csv' | 'ndjson' | 'json'>().notNull(),
+    detail: text('detail').$type<'summary' | 'full'>().notNull(),
+    /** The creator: a user id, or an API key's public key id. */
+    createdByType: text('created_by_type').$type<'user' | 'key'>().notNull(),
+    createdById: text('created_by_id').notNull(),
+    /** Usage rows of the job's units carry this key id (`console` for a user), as the creating call's did. */
+    meteredKeyId: text('metered_key_id').notNull(),
+    rowsTotal: integer('rows_total').notNull().default(0),
+    rowsDone: integer('rows_done').notNull().default(0),
+    rowsOk: integer('rows_ok').notNull().default(0),
+    rowsFailed: integer('rows_failed').notNull().default(0),
+    rowsWithFailingChecks: integer('rows_with_failing_checks').notNull().default(0),
+    engineVersion: text('engine_version').notNull(),
+    catalogVersion: integer('catalog_version'),
+    /** The stored catalog as it was when the job was created: one version prices every row. */
+    pricingCatalog: jsonb('pricing_catalog').$type<Record<string, unknown>>(),
+    /** Chunks in a row that broke on a fault of ours; the job fails after a few. */
+    faults: integer('faults').notNull().default(0),
+    leaseOwner: text('lease_owner'),
+    leaseUntil: at('lease_until'),
+    heartbeatAt: at('heartbeat_at'),
+    notifiedAt: at('notified_at'),
+    createdAt: createdAt(),
+    startedAt: at('started_at'),
+    finishedAt: at('finished_at'),
+    expiresAt: at('expires_at').notNull(),
+  },
+  (t) => [
+    index('batch_jobs_org_created').on(t.organizationId, t.createdAt, t.id),
+    index('batch_jobs_status').on(t.status),
+    index('batch_jobs_expires').on(t.expiresAt),
+  ],
+);
+
+/**
+ * One row of a batch job: its input (the validated request, or the problem that refused it) and,
+ * once sized, its answer (an EstimateBatchItemResult). An answer is written only where none is
+ * (`WHERE answer IS NULL`), so every row is answered exactly once whoever sizes it.
+ */
+export const batchJobRows = pgTable(
+  'batch_job_rows',
+  {
+    jobId: uuid('job_id')
+      .notNull()
+      .references(() => batchJobs.id, { onDelete: 'cascade' }),
+    idx: integer('idx').notNull(),
+    ref: text('ref'),
+    request: jsonb('request').$type<Record<string, unknown>>(),
+    problem: jsonb('problem').$type<Record<string, unknown>>(),
+    answer: jsonb('answer').$type<Record<string, unknown>>(),
+    status: text('status').$type<'ok' | 'error'>(),
+    answeredAt: at('answered_at'),
+  },
+  (t) => [
+    primaryKey({ columns: [t.jobId, t.idx] }),
+    // The runner's next chunk: unanswered rows in order, without walking the answered ones.
+    index('batch_job_rows_open').on(t.jobId, t.idx).where(sql`answer is null`),
+  ],
+);

@@ -5,7 +5,7 @@ import { HttpProblem } from '../problem.js';
 const ENCODINGS = new Set(['identity', 'gzip', 'deflate', 'br']);
 
 /** The routes that take a multipart file upload instead of JSON. */
-const UPLOAD_ROUTES = new Set(['POST /v1/catalog/imports']);
+const UPLOAD_ROUTES = new Set(['POST /v1/catalog/imports', 'POST /v1/batches']);
 
 /** A body is present when one is framed: chunked, or a non-zero Content-Length. */
 function hasBody(req: Request): boolean {

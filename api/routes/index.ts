@@ -4,6 +4,7 @@ import { estimateRoutes } from './estimates.js';
 import { estimateOptionRoutes } from './estimate-options.js';
 import { estimateBatchRoutes } from './estimates-batch.js';
 import { batchTemplateRoutes } from './batch-template.js';
+import { batchRoutes } from './batches.js';
 import { healthRoutes } from './health.js';
 import { keyRoutes } from './keys.js';
 import { auditRoutes } from './audit.js';
@@ -17,4 +18,4 @@ import { usageRoutes } from './usage.js';
 import type { RouteModule } from './route-module.js';
 
 /** Every resource the API mounts, in one list: the app and the OpenAPI document both use it. */
-export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, estimateBatchRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes, projectRoutes, storedEstimateRoutes, batchTemplateRoutes];
+export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, estimateBatchRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes, projectRoutes, storedEstimateRoutes, batchTemplateRoutes, batchRoutes];

@@ -23,6 +23,7 @@ import { createQuotaService } from './quotas.js';
 import { createRateLimitStores } from './rate-limit-stores.js';
 import { createUsageMeter } from './usage-meter.js';
 import { createMetrics } from '../metrics/metrics.js';
+import { createBatchJobService } from './batch-jobs/runner.js';
 
 /** Every service the routes use, built once per app from its dependencies. */
 export function createServices(deps: AppDeps) {
@@ -51,6 +52,18 @@ export function createServices(deps: AppDeps) {
   const stairs = createStairService({ db, clock, projects });
   // A stair runs as POST /v1/estimates does: priced from the stored catalog unless its input carries one.
   const storedEstimates = createStoredEstimateService({ db, clock, stairs, runner: (organizationId, input) => pricedEstimates.run(organizationId, input) });
+  // Background batch jobs: rows metered against the same quota, the creator told by e-mail when one ends.
+  const batchJobs = createBatchJobService({
+    database: deps.database,
+    clock,
+    logger: deps.logger,
+    quotas,
+    usageMeter,
+    mailer,
+    catalog,
+    publicUrl: deps.config.publicUrl,
+    retentionDays: deps.config.batchRetentionDays,
+  });
   return {
     apiKeys,
     keyCache,
@@ -75,6 +88,7 @@ export function createServices(deps: AppDeps) {
     quotas,
     usageMeter,
     metrics,
+    batchJobs,
     rateLimitStores: createRateLimitStores(deps.config.redisUrl, deps.logger),
   };
 }

@@ -263,15 +263,16 @@ function noticeText(orgName: string, percent: number, plan: Plan, used: number, 
   const resets = monthBounds(month).end.toISOString().slice(0, 10);
   const reached = percent >= 100;
   const subject = reached
-    ? `Treadwise: ${orgName} has used its monthly API calls`
-    : `Treadwise: ${orgName} has used ${percent} % of its monthly API calls`;
+    ? `Treadwise: ${orgName} has used its monthly quota units`
+    : `Treadwise: ${orgName} has used ${percent} % of its monthly quota units`;
   const consequence = reached
-    ? `Further calls with the organisation's API keys are refused (HTTP 429, quota_exceeded) until the quota starts again on ${resets} at 00:00 UTC.`
-    : `When all of them are used, calls with the organisation's API keys are refused until the quota starts again on ${resets} at 00:00 UTC.`;
+    ? `Further calls with the organisation's API keys are refused (HTTP 429, quota_exceeded), and running batch jobs stop, until the quota starts again on ${resets} at 00:00 UTC.`
+    : `When all of them are used, calls with the organisation's API keys are refused and running batch jobs stop until the quota starts again on ${resets} at 00:00 UTC.`;
   const text = [
     'Hello,',
     '',
-    `${orgName} has made ${used} of the ${plan.monthlyQuota} API calls that its ${plan.name} plan includes for ${month} (${percent} %).`,
+    `${orgName} has used ${used} of the ${plan.monthlyQuota} quota units that its ${plan.name} plan includes for ${month} (${percent} %).`,
+    'A call uses one unit; a synchronous batch one per item; a batch job one per row it sizes.',
     consequence,
     '',
     `Usage by day, key and route: GET ${publicUrl}/v1/usage (or the usage page of the console at ${publicUrl}/).`,

@@ -10,6 +10,7 @@ export const SCOPE_VALUES = [
   'catalog:read',
   'catalog:write',
   'batches:write',
+  'batches:read',
   'usage:read',
   'keys:manage',
 ] as const;
@@ -25,6 +26,14 @@ export type RoleValue = (typeof ROLE_VALUES)[number];
 /** The scopes a user of a role could grant to a key. */
 export const ROLE_GRANTS: Record<RoleValue, readonly ScopeValue[]> = {
   admin: SCOPE_VALUES,
-  estimator: ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write'],
-  viewer: ['projects:read', 'catalog:read', 'usage:read'],
+  estimator: ['sizing:run', 'projects:read', 'projects:write', 'catalog:read', 'batches:write', 'batches:read'],
+  viewer: ['projects:read', 'catalog:read', 'usage:read', 'batches:read'],
 };
+
+/** Scopes that also grant another: a key that may run batch jobs may read them. */
+const IMPLIED_BY: Partial<Record<ScopeValue, readonly ScopeValue[]>> = { 'batches:read': ['batches:write'] };
+
+/** True when a key holding `held` may call a route that needs `needed`. */
+export function scopeGranted(held: readonly string[], needed: ScopeValue): boolean {
+  return held.includes(needed) || (IMPLIED_BY[needed] ?? []).some((s) => held.includes(s));
+}

@@ -2,6 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { POLICIES, type Policy } from '../../api/auth/policy.js';
 import { ROLES, SCOPES, roleAtLeast, type Role, type Scope } from '../../api/auth/scopes.js';
+import { scopeGranted } from '../../shared/tables/access.js';
 import { createMember, createOperator, signIn, switchTo } from '../support/accounts.js';
 import { mountedRoutes } from '../support/mounted-routes.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
@@ -78,7 +79,7 @@ function expected(policy: Policy, cred: Credential): 'allow' | 'deny' {
   if (policy.operator) return 'deny';
   if (!policy.scope) return 'deny';
   if (cred.as.embed && !policy.embed) return 'deny';
-  return cred.as.scopes.includes(policy.scope) ? 'allow' : 'deny';
+  return scopeGranted(cred.as.scopes, policy.scope) ? 'allow' : 'deny';
 }
 
 const concretePath = (pattern: string) => pattern.replace(/:(\w+)/g, '00000000-0000-4000-8000-000000000000');

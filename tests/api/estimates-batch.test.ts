@@ -235,14 +235,14 @@ describe('quota units', () => {
 
     await batch(token, { items: new Array(2).fill({ request: quaysideCorridor }) }).expect(200); // 9 of 10: past 80 %
     await t.app.locals.services.quotas.idle();
-    expect((await mailTo(admins)).map((m) => m.subject)).toEqual([`Treadwise: ${org.name} has used 80 % of its monthly API calls`]);
+    expect((await mailTo(admins)).map((m) => m.subject)).toEqual([`Treadwise: ${org.name} has used 80 % of its monthly quota units`]);
 
     await request(t.app).post('/v1/estimates').set(bearer(token)).send(quaysideCorridor).expect(200); // the 10th
     await batch(token, { items: [{ request: quaysideCorridor }] }).expect(429);
     await t.app.locals.services.quotas.idle();
     expect((await mailTo(admins)).map((m) => m.subject)).toEqual([
-      `Treadwise: ${org.name} has used 80 % of its monthly API calls`,
-      `Treadwise: ${org.name} has used its monthly API calls`,
+      `Treadwise: ${org.name} has used 80 % of its monthly quota units`,
+      `Treadwise: ${org.name} has used its monthly quota units`,
     ]);
   });
 });

@@ -212,6 +212,31 @@ describe('real answers match the documented schema of their route and status', (
     expectConforms(await request(t.app).get('/v1/batches/template.csv').set(bearer(sizingOnly)), 'GET', '/v1/batches/template.csv', 403);
   });
 
+  it('batch jobs: created from JSON, read, listed, results and errors as NDJSON lines and CSV, cancelled, refused', async () => {
+    const items = [
+      { ref: 'Stair 1', request: Object.values(estimateExamples)[0] },
+      { ref: 'Broken', request: { layout: 'tread-strips' } },
+    ];
+    const created = await request(t.app).post('/v1/batches').set(bearer(server)).send({ name: 'Conformance', items });
+    expectConforms(created, 'POST', '/v1/batches', 202, { name: 'Conformance', items });
+    await t.app.locals.services.batchJobs.drain();
+    expectConforms(await request(t.app).get(`/v1/batches/${created.body.id}`).set(bearer(server)), 'GET', '/v1/batches/{id}', 200);
+    expectConforms(await request(t.app).get('/v1/batches').set(bearer(admin)), 'GET', '/v1/batches', 200);
+    const item = { oneOf: [{ $ref: '#/components/schemas/EstimateBatchOkItem' }, { $ref: '#/components/schemas/EstimateBatchErrorItem' }] };
+    for (const path of ['results', 'errors']) {
+      const lines = await request(t.app).get(`/v1/batches/${created.body.id}/${path}`).set(bearer(server)).expect(200);
+      expect(validate(documentedAnswer('GET', `/v1/batches/{id}/${path}`, 200, lines.headers['content-type']!), lines.text)).toEqual([]);
+      for (const line of lines.text.trim().split('\n')) expect(validate(item, JSON.parse(line))).toEqual([]);
+      const csv = await request(t.app).get(`/v1/batches/${created.body.id}/${path}?format=csv`).set(bearer(server)).expect(200);
+      expect(validate(documentedAnswer('GET', `/v1/batches/{id}/${path}`, 200, csv.headers['content-type']!), csv.text)).toEqual([]);
+    }
+    expectConforms(await request(t.app).post(`/v1/batches/${created.body.id}/cancel`).set(bearer(server)), 'POST', '/v1/batches/{id}/cancel', 409);
+    const queued = await request(t.app).post('/v1/batches').set(bearer(server)).send({ items });
+    expectConforms(await request(t.app).post(`/v1/batches/${queued.body.id}/cancel`).set(bearer(server)), 'POST', '/v1/batches/{id}/cancel', 200);
+    expectConforms(await request(t.app).post('/v1/batches').set(bearer(server)).send({ items: [] }), 'POST', '/v1/batches', 400);
+    expectConforms(await request(t.app).get('/v1/batches/3d1f7c2a-9b4e-4f60-8a2d-5c7e1b9f0a34').set(bearer(server)), 'GET', '/v1/batches/{id}', 404);
+  });
+
   it('kit options: ranked designs and an empty stored catalog', async () => {
     const ranked = await request(t.app).post('/v1/estimates/options').set(bearer(server)).send(harborLaneKitOptions);
     expect(ranked.body.designs?.length).toBeGreaterThan(0);

@@ -68,14 +68,14 @@ describe('the monthly quota', () => {
     await t.app.locals.services.quotas.idle();
     const at80 = await mailTo([...admins, viewer.email]);
     expect(at80.map((m) => m.to)).toEqual(admins); // admins only, one message each
-    expect(at80[0].subject).toBe(`Treadwise: ${org.name} has used 80 % of its monthly API calls`);
-    expect(at80[0].text).toContain('has made 8 of the 10 API calls that its Tiny plan includes for 2026-11 (80 %)');
+    expect(at80[0].subject).toBe(`Treadwise: ${org.name} has used 80 % of its monthly quota units`);
+    expect(at80[0].text).toContain('has used 8 of the 10 quota units that its Tiny plan includes for 2026-11 (80 %)');
 
     expect(await calls(t.app, token, 2)).toEqual([200, 200]); // the 10th: 100 %
     await t.app.locals.services.quotas.idle();
-    const at100 = (await mailTo(admins)).filter((m) => m.subject.includes('has used its monthly API calls'));
+    const at100 = (await mailTo(admins)).filter((m) => m.subject.includes('has used its monthly quota units'));
     expect(at100.map((m) => m.to)).toEqual(admins);
-    expect(at100[0].text).toContain('refused (HTTP 429, quota_exceeded) until the quota starts again on 2026-12-01');
+    expect(at100[0].text).toContain('refused (HTTP 429, quota_exceeded), and running batch jobs stop, until the quota starts again on 2026-12-01');
 
     const refused = await size(t.app, token).expect(429);
     expect(refused.headers['content-type']).toMatch(/^application\/problem\+json/);
