@@ -2,11 +2,9 @@ import { createReadStream } from 'node:fs';
 import { createInterface } from 'node:readline';
 import { parse } from 'csv-parse';
 import { batchJobItemSchema } from '../../../shared/schemas/batch-jobs.js';
-import { batchRefSchema } from '../../../shared/schemas/estimate-batch.js';
 import { checkInput } from '../../../shared/schemas/check-input.js';
-import { rowToRequest, type StairRow } from '../../../shared/schemas/stair-row.js';
+import { csvRecordItem, ndjsonLineItem, stairRowHeaderProblems } from '../../../shared/sizing/batch/input-items.js';
 import { checkBatchItem, type CheckedItem } from '../../../shared/sizing/batch/items.js';
-import { unguardCell } from '../../../shared/tables/csv.js';
 
 /**
  * Reading a job's input one row at a time (files are streamed from disk, never held whole), each
@@ -29,27 +27,25 @@ export function checkJobItem(index: number, value: unknown): IntakeRow {
   return checkBatchItem(index, envelope.data.ref ?? null, envelope.data.request);
 }
 
-/** NDJSON: one `{ ref?, request }` per line; blank lines skipped; a line that is not JSON is that row's problem. */
+/**
+ * NDJSON: one `{ ref?, request }` per line; blank lines skipped. Each line is read by the same
+ * shared function `treadwise batch --local` uses, so a bad line is the same problem in both.
+ */
 export async function* ndjsonRows(path: string): AsyncGenerator<IntakeRow> {
   const lines = createInterface({ input: createReadStream(path, { encoding: 'utf8' }), crlfDelay: Infinity });
   let index = 0;
   for await (const raw of lines) {
     const line = index === 0 ? raw.replace(/^\uFEFF/, '') : raw;
     if (line.trim() === '') continue;
-    let value: unknown;
-    try {
-      value = JSON.parse(line);
-    } catch {
-      yield { index, ref: null, problem: { code: 'validation_failed', detail: `Row ${index + 1} is not a JSON object on one line.` } };
-      index++;
-      continue;
-    }
-    yield checkJobItem(index, value);
+    yield ndjsonLineItem(index, line);
     index++;
   }
 }
 
-/** Stair-row CSV (shared/schemas/stair-row.ts) with a header row; each row turned into its request and checked. */
+/**
+ * Stair-row CSV (shared/schemas/stair-row.ts) with a header row; each record turned into its
+ * request and checked by the shared `csvRecordItem`, exactly as `treadwise batch --local` does.
+ */
 export async function* csvRows(path: string): AsyncGenerator<IntakeRow> {
   const parser = createReadStream(path).pipe(parse({ bom: true, relax_column_count: true, skip_empty_lines: true, max_record_size: 1024 * 1024 }));
   let header: string[] | null = null;
@@ -58,31 +54,11 @@ export async function* csvRows(path: string): AsyncGenerator<IntakeRow> {
     for await (const record of parser as AsyncIterable<string[]>) {
       if (!header) {
         header = record.map((c) => c.trim());
-        if (header.length === 0 || header.some((c) => c === '')) throw new FileNotReadable('The header row has an empty column name.');
-        const seen = new Set<string>();
-        for (const c of header) {
-          if (seen.has(c)) throw new FileNotReadable(`The header names the column ${c.slice(0, 80)} twice.`);
-          seen.add(c);
-        }
+        const problems = stairRowHeaderProblems(header);
+        if (problems.length) throw new FileNotReadable(`The header row cannot be used: ${problems.join('; ').slice(0, 300)}.`);
         continue;
       }
-      if (record.length > header.length && record.slice(header.length).some((c) => c.trim() !== '')) {
-        yield { index, ref: null, problem: { code: 'validation_failed', detail: `Row ${index + 1} has ${record.length} cells; the header has ${header.length}.` } };
-        index++;
-        continue;
-      }
-      const row: StairRow = {};
-      header.forEach((column, i) => {
-        const cell = record[i];
-        if (cell !== undefined && cell.trim() !== '') row[column] = unguardCell(cell.trim());
-      });
-      const { ref, request } = rowToRequest(row);
-      const refChecked = ref === undefined ? null : checkInput(batchRefSchema, ref);
-      if (refChecked && !refChecked.ok) {
-        yield { index, ref: null, problem: { code: 'validation_failed', detail: 'The ref cell is not a valid reference.', errors: refChecked.errors.map((e) => ({ path: 'ref', message: e.message })) } };
-      } else {
-        yield checkBatchItem(index, refChecked?.ok ? refChecked.data : null, request);
-      }
+      yield csvRecordItem(index, header, record);
       index++;
     }
   } catch (err) {
