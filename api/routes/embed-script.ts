@@ -1,5 +1,5 @@
 import compression from 'compression';
-import { Router, type Response } from 'express';
+import { Router, type RequestHandler, type Response } from 'express';
 import { z } from 'zod';
 import { EMBED_BASE_PATH, EMBED_MANIFEST_FILE, EMBED_SCRIPT_FILE, readEmbedBundle, type EmbedBundle } from '../embed/bundle.js';
 import { problemResponse } from '../openapi/document.js';
@@ -14,10 +14,11 @@ const IMMUTABLE_CACHE = 'public, max-age=31536000, immutable';
  * Shops load the script from their own pages: helmet's same-origin resource policy would block
  * it, and an SRI-checked script is fetched in CORS mode, so these answers alone are open to all.
  */
-function openToShops(res: Response): void {
+const openToShops: RequestHandler = (_req, res, next) => {
   res.setHeader('Cross-Origin-Resource-Policy', 'cross-origin');
   res.setHeader('Access-Control-Allow-Origin', '*');
-}
+  next();
+};
 
 const manifestSchema = z
   .object({

@@ -19,14 +19,16 @@ export function figure(value: number, locale: string | undefined, digits = 1): s
   }
 }
 
-const POSITION_WORDS: Record<string, string> = { bottom: 'at the foot of the stair', middle: 'halfway up', top: 'at the top', given: 'where you placed them' };
+const POSITION_WORDS: Record<string, string> = { bottom: 'at the foot', middle: 'halfway up', top: 'at the top', given: 'where you placed them' };
 
 /** What makes a design, in words: the strip and where the controller goes. */
 export function designInWords(design: KitDesign, strips: readonly StoredCatalogStrip[], locale: string | undefined): string {
   const c = design.choices;
   const strip = strips.find((s) => s.sku === c.stripSku);
   const name = strip?.description ?? `${figure(c.voltageV, locale)} V strip, ${figure(c.powerWPerM, locale)} W/m`;
-  return `${name}; controller ${POSITION_WORDS[c.controllerPosition] ?? c.controllerPosition}`;
+  const controller = POSITION_WORDS[c.controllerPosition] ?? c.controllerPosition;
+  const drivers = POSITION_WORDS[c.driverPosition] ?? c.driverPosition;
+  return `${name}; controller ${controller}, power supplies ${drivers}`;
 }
 
 /** The checks of a design in one sentence; the warnings themselves are listed beside it. */
