@@ -67,13 +67,13 @@ describe('EstimatorApi', () => {
   });
 
   it('tells an origin refusal from an unreachable API when the browser hides the answer', async () => {
-    // The page cannot read a refusal without CORS headers; the no-cors probe still reaches the API.
+    // The page cannot read a refusal without CORS headers; the script's manifest, open to all, still answers.
     answer = async (call) => {
-      if (call.init.mode === 'no-cors') return new Response(null, { status: 200 });
+      if (call.url.endsWith('/embed/v1/manifest.json')) return new Response('{}', { status: 200 });
       throw new TypeError('Failed to fetch');
     };
     expect((await failure(firstValueFrom(api().kitOptions(target, stair)))).problem.kind).toBe('origin');
-    expect(calls.at(-1)!.url).toBe('https://api.treadwise.test/v1/health');
+    expect(calls.at(-1)!.url).toBe('https://api.treadwise.test/embed/v1/manifest.json');
 
     answer = async () => {
       throw new TypeError('Failed to fetch');

@@ -69,12 +69,12 @@ export class EstimatorApi {
 
   /**
    * A browser hides why a cross-origin call failed. The API answers a page whose origin the key
-   * does not allow without CORS headers, which looks like a network error; an opaque (no-cors)
-   * request to the health endpoint tells the two apart: it succeeds whenever the API is up.
+   * does not allow without CORS headers, which looks like a network error; the script's manifest
+   * is open to every origin, so reaching it tells the two apart (the API is up: the origin was refused).
    */
   private async whyUnreadable(base: string): Promise<ShopperProblem> {
     try {
-      await this.fetch(`${base}/v1/health`, { mode: 'no-cors', credentials: 'omit', cache: 'no-store' });
+      await this.fetch(`${base}/embed/v1/manifest.json`, { mode: 'cors', credentials: 'omit', cache: 'no-store' });
       return originRefused();
     } catch {
       return unreachable();
