@@ -152,6 +152,18 @@ describe('Estimator', () => {
     expect(alert.textContent).toContain('not enabled for this website');
   });
 
+  it('gives the retry time of a rate limit and asks again by itself once it has passed', async () => {
+    await typeAlderRow();
+    await pause();
+    fake.asks[0]!.answer.error(new ShopperError({ kind: 'rate-limit', message: 'Please try again in 5 seconds.', retryAfterS: 5 }));
+    await settle();
+    expect(shadow().querySelector('[role="alert"]')!.textContent).toContain('try again in 5 seconds');
+    await vi.advanceTimersByTimeAsync(5_000);
+    await pause();
+    expect(fake.asks).toHaveLength(2);
+    expect(fake.asks[1]!.request).toEqual(fake.asks[0]!.request);
+  });
+
   it('says what is missing when the shop left out its key', async () => {
     fixture.componentRef.setInput('embedKey', '');
     await settle();

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, ElementRef, ViewEncapsulation, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, ViewEncapsulation, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { catchError, debounceTime, map, of, startWith, switchMap, type Observable } from 'rxjs';
 import type { KitDesign, KitOptionsResponse, StoredCatalogStrip } from './api-types.js';
@@ -10,6 +10,9 @@ import { EMPTY_DRAFT, fieldOfPath, listAttribute, readDraft, type DraftField, ty
 
 /** Quiet time after the last keystroke before asking the API: one request per pause, not per key. */
 export const TYPING_PAUSE_MS = 350;
+
+/** A rate limit that lifts within this many seconds is retried by itself; longer ones wait for the shopper. */
+const AUTO_RETRY_MAX_S = 60;
 
 /** Shown before the first answer, so the cautions are never out of sight (the API's own follow). */
 const STANDING_CAUTION = {
@@ -75,6 +78,7 @@ export class Estimator {
   protected readonly selectedRank = signal(1);
   protected readonly added = signal('');
   private readonly attempt = signal(0);
+  private retryTimer: ReturnType<typeof setTimeout> | undefined;
 
   private readonly offered = computed(() => listAttribute(this.stripSkus()));
   protected readonly reading = computed(() => readDraft(this.draft(), this.offered()));
@@ -163,10 +167,14 @@ export class Estimator {
         takeUntilDestroyed(),
       )
       .subscribe((estimate) => {
+        clearTimeout(this.retryTimer);
         this.estimate.set(estimate);
+        const wait = estimate.state === 'error' && estimate.problem.kind === 'rate-limit' ? estimate.problem.retryAfterS : undefined;
+        if (wait !== undefined && wait <= AUTO_RETRY_MAX_S) this.retryTimer = setTimeout(() => this.retry(), wait * 1000);
         if (estimate.state === 'ready') this.selectedRank.set(estimate.response.designs[0]?.rank ?? 1);
         if (estimate.state !== 'loading') this.added.set('');
       });
+    inject(DestroyRef).onDestroy(() => clearTimeout(this.retryTimer));
   }
 
   protected update(field: DraftField, event: Event): void {
