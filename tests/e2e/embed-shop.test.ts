@@ -1,5 +1,5 @@
 /// <reference lib="dom" />
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
@@ -10,6 +10,7 @@ import type { EmbedManifest } from '../../api/embed/bundle.js';
 import { startServerProcess, type ServerProcess } from './server-process.js';
 
 const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+const SCREENSHOTS = path.resolve('tests/e2e/screenshots'); // git-ignored
 // Another name for this machine: the same demo shop page from an origin the key does not allow.
 const ELSEWHERE = 'shop.elsewhere.test';
 
@@ -29,6 +30,7 @@ interface CartLine {
 
 beforeAll(async () => {
   server = await startServerProcess({ DATA_DIR: dataDir });
+  mkdirSync(SCREENSHOTS, { recursive: true });
   const shop = /Demo shop: (http:\/\/\S+?)\/?\s/.exec(server.stdout());
   expect(shop, server.stdout()).not.toBeNull();
   shopUrl = shop![1]!;
@@ -91,6 +93,7 @@ describe('the estimator on the Harbor Lane demo shop', () => {
 
     const rows = page.locator('[data-basket-lines] tr');
     await rows.first().waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'embed-shop-phone.png'), fullPage: true });
     expect(await rows.evaluateAll((trs) => trs.map((tr) => (tr as HTMLElement).dataset.sku))).toEqual(lines.map((l) => l.sku));
     const net = lines.reduce((sum, l) => sum + Math.round(l.quantity * l.unitPrice * 100), 0) / 100;
     expect(await page.locator('[data-basket-total]').innerText()).toBe(new Intl.NumberFormat('en-IE', { style: 'currency', currency: 'EUR' }).format(net));
@@ -105,6 +108,7 @@ describe('the estimator on the Harbor Lane demo shop', () => {
     await alert.waitFor({ timeout: 30_000 });
     expect(await alert.getAttribute('data-problem')).toBe('origin');
     expect(await alert.innerText()).toContain('not enabled for this website');
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'embed-refused-origin.png') });
     await page.close();
   });
 

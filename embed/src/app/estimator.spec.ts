@@ -124,7 +124,15 @@ describe('Estimator', () => {
     expect(shadow().querySelector('[data-testid="total"]')!.textContent).toBe('€1,200.00');
     expect(text).toContain('All 17 design checks pass');
     expect(shadow().querySelector('.cautions')!.textContent).toContain('Mains work is for a licensed electrician.');
-    expect(shadow().querySelector('.result')!.getAttribute('aria-live')).toBe('polite');
+    const status = shadow().querySelector('[data-testid="announcement"]')!;
+    expect(status.getAttribute('aria-live')).toBe('polite'); // announced once per answer, briefly
+    expect(status.textContent).toBe('Kit for your stair: €1,200.00. All 17 design checks pass: power, cable lengths, voltage drop and controller outputs.');
+
+    // The next stair: the last kit stays in view while the new one is worked out.
+    await type('treads', '15');
+    await pause();
+    expect(shadow().querySelector('[data-testid="total"]')!.textContent).toBe('€1,200.00');
+    expect(shadow().querySelector('.result')!.getAttribute('aria-busy')).toBe('true');
   });
 
   it('hands the cart lines to the page in a treadwise-add-to-basket event that leaves the shadow root', async () => {

@@ -123,9 +123,11 @@ export class Estimator {
     return errors;
   });
 
+  /** The last answer stays in view (dimmed) while the next one is worked out, so nothing jumps as they type. */
+  private readonly lastResponse = signal<KitOptionsResponse | null>(null);
   protected readonly response = computed(() => {
-    const e = this.estimate();
-    return e.state === 'ready' ? e.response : null;
+    const state = this.estimate().state;
+    return state === 'ready' || state === 'loading' ? this.lastResponse() : null;
   });
   protected readonly designs = computed(() => this.response()?.designs ?? []);
   protected readonly selected = computed<KitDesign | null>(() => this.designs().find((d) => d.rank === this.selectedRank()) ?? this.designs()[0] ?? null);
@@ -135,6 +137,16 @@ export class Estimator {
     const got = this.response()?.currency;
     return wanted && got && wanted !== got ? `Prices are in ${got}, the shop’s catalog currency.` : '';
   });
+  /** One short sentence for screen readers per update, rather than the whole result read again. */
+  protected readonly announcement = computed(() => {
+    const e = this.estimate();
+    if (e.state === 'loading') return 'Working out your kit…';
+    const design = this.selected();
+    if (e.state !== 'ready') return '';
+    if (!design) return noKitInWords(e.response);
+    return `Kit for your stair: ${this.price(design.pricing.gross)}. ${checksInWords(design)}`;
+  });
+
   protected readonly cautions = computed(() => {
     const fromApi = this.response()?.cautions ?? [];
     return fromApi.length ? fromApi : [STANDING_CAUTION];
@@ -169,6 +181,7 @@ export class Estimator {
       .subscribe((estimate) => {
         clearTimeout(this.retryTimer);
         this.estimate.set(estimate);
+        if (estimate.state !== 'loading') this.lastResponse.set(estimate.state === 'ready' ? estimate.response : null);
         const wait = estimate.state === 'error' && estimate.problem.kind === 'rate-limit' ? estimate.problem.retryAfterS : undefined;
         if (wait !== undefined && wait <= AUTO_RETRY_MAX_S) this.retryTimer = setTimeout(() => this.retry(), wait * 1000);
         if (estimate.state === 'ready') this.selectedRank.set(estimate.response.designs[0]?.rank ?? 1);
