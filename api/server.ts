@@ -60,7 +60,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
   try {
     await migrateDatabase(database);
     // The shop listens first: its origins go into the demo page key's allow-list at seeding.
-    demoShop = config.seedDemo ? await startDemoShop({ dir: config.demoShopDir, host: config.host, port: config.demoShopPort }) : undefined;
+    demoShop = config.seedDemo ? await startDemoShopOrWarn(config, logger) : undefined;
     seed = await seedDemo(database, config.seedDemo, secrets.pepper, { extraEmbedOrigins: { [DEMO_SHOP_ORGANIZATION]: demoShop?.origins ?? [] } });
     app = createApp({ config, database, logger, secrets, clock: () => new Date() });
     server = createHttpServer(app, config);
@@ -97,6 +97,16 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     })());
 
   return { url, database, seed, demoShop, close };
+}
+
+/** The demo shop is an extra: a busy port must not keep the API from starting. */
+async function startDemoShopOrWarn(config: Config, logger: Logger): Promise<DemoShop | undefined> {
+  try {
+    return await startDemoShop({ dir: config.demoShopDir, host: config.host, port: config.demoShopPort });
+  } catch (err) {
+    logger.warn({ err, port: config.demoShopPort }, 'the demo shop could not listen (set DEMO_SHOP_PORT); starting without it');
+    return undefined;
+  }
 }
 
 /** The shop page gets the API's address, the script's manifest and Harbor Lane's page key. */

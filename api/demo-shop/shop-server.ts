@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
-import type { Server } from 'node:http';
+import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import express from 'express';
@@ -43,9 +43,13 @@ export async function startDemoShop(options: { dir: string; host: string; port: 
   });
   app.use(express.static(dir, { index: false, maxAge: 0 }));
 
-  const server: Server = await new Promise((resolve, reject) => {
-    const s = app.listen(options.port, options.host, () => resolve(s));
-    s.once('error', reject);
+  const server: Server = createServer(app);
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(options.port, options.host, () => {
+      server.off('error', reject);
+      resolve();
+    });
   });
   const { port } = server.address() as AddressInfo;
   const shown = options.host === '0.0.0.0' || options.host === '::' ? 'localhost' : options.host;
