@@ -12,6 +12,8 @@ import { COMPRESS_ABOVE_BYTES } from './middleware/compress.js';
 import { jsonBodyOnly } from './middleware/json-body.js';
 import { trafficMiddleware } from './middleware/rate-limit.js';
 import { requestId } from './middleware/request-id.js';
+import { requestMetrics } from './middleware/request-metrics.js';
+import { metricsRouter } from './routes/metrics.js';
 import { consoleRouter } from './routes/console.js';
 import { docsRouter } from './routes/docs.js';
 import { routeModules } from './routes/index.js';
@@ -27,6 +29,9 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   // API answers are computed per request; hashing each body for an ETag buys nothing (static files keep theirs).
   app.set('etag', false);
 
+  const services = createServices(deps);
+  app.locals.services = services;
+  app.use(requestMetrics(services.metrics)); // first, so the time counted is the whole chain's
   app.use(
     pinoHttp({
       logger: deps.logger,
@@ -51,8 +56,6 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   app.use(ESTIMATE_BATCH_PATH, express.json({ limit: BATCH_JSON_BODY_LIMIT, strict: true }));
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 
-  const services = createServices(deps);
-  app.locals.services = services;
   // A module this configuration disables does not exist: 404 before any credential check.
   const modules = enabledModules(routeModules, deps.config);
   for (const off of routeModules.filter((m) => !modules.includes(m))) app.use(off.basePath, notFoundHandler);
@@ -65,6 +68,8 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   app.use('/v1', ...trafficMiddleware(deps, services)); // limits, quota and metering: after authorize (needs principal and route)
   for (const module of modules) app.use(module.basePath, module.router(deps, services));
   app.use('/v1', notFoundHandler);
+
+  app.use(metricsRouter(services.metrics, deps.config.metricsToken, { db: deps.database.db, pepper: deps.secrets.pepper, clock: deps.clock, ...services }));
 
   const spa = consoleRouter(deps.config.consoleDir);
   if (spa) app.use(spa);

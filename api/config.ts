@@ -37,11 +37,17 @@ const configSchema = z
     HTTP_MAX_CONNECTIONS: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(1_000_000).default(1_000),
     SHUTDOWN_DRAIN_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
     USAGE_FLUSH_INTERVAL_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(100).max(3_600_000).default(1_000),
+    METRICS_TOKEN: z.string().min(24, 'must be at least 24 characters (a random secret)').optional(),
+    WEB_CONCURRENCY: z.coerce.number({ error: 'must be a whole number of worker processes' }).int().min(1).max(64).default(1),
     USAGE_FLUSH_AFTER_CALLS: z.coerce.number({ error: 'must be a whole number of calls' }).int().min(1).max(1_000_000).default(100),
   })
   .refine((env) => env.HTTP_REQUEST_TIMEOUT_MS >= env.HTTP_HEADERS_TIMEOUT_MS, {
     path: ['HTTP_REQUEST_TIMEOUT_MS'],
     message: 'must not be shorter than HTTP_HEADERS_TIMEOUT_MS (the headers are part of the request)',
+  })
+  .refine((env) => env.WEB_CONCURRENCY === 1 || env.DATABASE_URL === undefined || env.REDIS_URL !== undefined, {
+    path: ['WEB_CONCURRENCY'],
+    message: 'more than one worker needs REDIS_URL, so that every worker counts against the same rate limits',
   })
   .transform((env) => ({
     nodeEnv: env.NODE_ENV,
@@ -79,6 +85,10 @@ const configSchema = z
     // graceful shutdown also writes them): together they bound what a crash can lose.
     usageFlushIntervalMs: env.USAGE_FLUSH_INTERVAL_MS,
     usageFlushAfterCalls: env.USAGE_FLUSH_AFTER_CALLS,
+    // GET /metrics for a scraper holding this token (the operator may always read it).
+    metricsToken: env.METRICS_TOKEN,
+    // Worker processes on one port (node:cluster); only with DATABASE_URL, see api/cluster.ts.
+    webConcurrency: env.WEB_CONCURRENCY,
   }));
 
 export type Config = z.output<typeof configSchema>;

@@ -1,6 +1,8 @@
+import cluster from 'node:cluster';
+import { runPrimary, singleProcessReason } from './cluster.js';
 import { ConfigError, loadConfig, type Config } from './config.js';
 import { DEMO_PASSWORD, demoMembers, demoOperator } from './db/demo-data.js';
-import { createLogger } from './logger.js';
+import { createServerLogger } from './logger.js';
 import { startServer, type RunningServer } from './server.js';
 
 function configOrExit(): Config {
@@ -15,7 +17,12 @@ function configOrExit(): Config {
 
 async function main(): Promise<void> {
   const config = configOrExit();
-  const logger = createLogger(config.logLevel);
+  const { logger, flush } = createServerLogger(config.logLevel);
+  // Lines still queued reach stdout before the process ends, however it ends normally.
+  process.on('exit', flush);
+  const single = singleProcessReason(config);
+  if (single) process.stdout.write(`${single}\n`);
+  else if (config.webConcurrency > 1 && cluster.isPrimary) return runPrimary(config, logger);
 
   // Handlers go in before anything starts: a signal during start-up must still close the
   // database cleanly instead of killing the process mid-write.
@@ -40,11 +47,14 @@ async function main(): Promise<void> {
 
   server = await startServer(config, logger);
   if (stopping) return void stop(server);
+  // Under WEB_CONCURRENCY the first worker speaks for all; the others only log that they listen.
+  if (cluster.isWorker && cluster.worker?.id !== 1) return void logger.info({ worker: cluster.worker?.id }, 'worker listening');
 
   const where = config.databaseUrl ? 'PostgreSQL (DATABASE_URL)' : `PGlite in ${config.dataDir}`;
   // Plain lines on stdout, written at once, so a person starting the demo sees where to go.
+  const workers = cluster.isWorker ? `, ${config.webConcurrency} workers` : '';
   const lines = [
-    `Treadwise is running at ${server.url}  (database: ${where})`,
+    `Treadwise is running at ${server.url}  (database: ${where}${workers})`,
     `  Console:  ${server.url}/`,
     `  API docs: ${server.url}/docs   (OpenAPI: ${server.url}/openapi.json)`,
   ];

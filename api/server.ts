@@ -1,3 +1,4 @@
+import cluster from 'node:cluster';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import path from 'node:path';
@@ -15,6 +16,7 @@ import { startDemoShop, type DemoShop } from './demo-shop/shop-server.js';
 import { readEmbedBundle } from './embed/bundle.js';
 import { gracefulCloser } from './graceful-close.js';
 import { createHttpServer } from './http-server.js';
+import { shareWorkerRegistries } from './metrics/cluster-metrics.js';
 
 export interface RunningServer {
   url: string;
@@ -60,9 +62,12 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
   try {
     await migrateDatabase(database);
     // The shop listens first: its origins go into the demo page key's allow-list at seeding.
-    demoShop = config.seedDemo ? await startDemoShopOrWarn(config, logger) : undefined;
+    // One process only: cluster workers would each serve it with a different knowledge of the key.
+    demoShop = config.seedDemo && !cluster.isWorker ? await startDemoShopOrWarn(config, logger) : undefined;
     seed = await seedDemo(database, config.seedDemo, secrets.pepper, { extraEmbedOrigins: { [DEMO_SHOP_ORGANIZATION]: demoShop?.origins ?? [] } });
     app = createApp({ config, database, logger, secrets, clock: () => new Date() });
+    // Under WEB_CONCURRENCY the primary gathers every worker's metrics from these registries.
+    if (cluster.isWorker) shareWorkerRegistries(app.locals.services.metrics.registries());
     server = createHttpServer(app, config);
     await new Promise<void>((resolve, reject) => {
       server.once('error', reject);

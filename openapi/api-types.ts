@@ -1105,6 +1105,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/metrics": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Metrics for a scraper
+         * @description OpenMetrics text (prom-client): requests by route pattern and status, latency histograms by route and status class, time in the sizing engine, calls refused by a limit, quota units used, and process metrics (CPU, memory, event-loop lag, GC). Under WEB_CONCURRENCY the figures are summed over every worker. Send the `METRICS_TOKEN` the server was started with as `Authorization: Bearer …`, or an operator’s access token; nobody else may read it.
+         */
+        get: operations["getMetrics"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
 }
 export type webhooks = Record<string, never>;
 export interface components {
@@ -12403,6 +12423,53 @@ export interface operations {
             };
             /** @description The script is not built on this server, or (versioned) not of that version. */
             404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetrics: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The metrics, ending with `# EOF`. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/openmetrics-text; version=1.0.0; charset=utf-8": string;
+                };
+            };
+            /** @description A malformed request, e.g. two Authorization headers (`duplicate_authorization`). */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No scrape token or access token, or one that is not valid. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A credential that is neither the scrape token nor an operator’s. */
+            403: {
                 headers: {
                     [name: string]: unknown;
                 };

@@ -3,14 +3,31 @@ import type { Database } from '../db/client.js';
 import type { AllowedOrigins } from './allowed-origins.js';
 import type { KeyCache } from './key-cache.js';
 
+/** Payloads for the catalog cache; key ids never contain a colon. */
+const CATALOG_PREFIX = 'catalog:';
+
 /**
  * Makes a key change (rotate, revoke, create) effective at once on every instance: the instance
  * that made it invalidates its own caches and NOTIFYs the others through the database.
  */
-export function createKeyEvents({ database, keyCache, allowedOrigins, logger }: { database: Database; keyCache: KeyCache; allowedOrigins: AllowedOrigins; logger: Logger }) {
+export function createKeyEvents({
+  database,
+  keyCache,
+  allowedOrigins,
+  catalog,
+  logger,
+}: {
+  database: Database;
+  keyCache: KeyCache;
+  allowedOrigins: AllowedOrigins;
+  /** The priced-catalog cache rides on the same channel (one listening connection per instance). */
+  catalog?: { forget(organizationId: string): void };
+  logger: Logger;
+}) {
   const channel = `treadwise_keys_${database.schemaName}`.slice(0, 63);
-  const forget = (keyId: string) => {
-    keyCache.invalidate(keyId);
+  const forget = (payload: string) => {
+    if (payload.startsWith(CATALOG_PREFIX)) return catalog?.forget(payload.slice(CATALOG_PREFIX.length));
+    keyCache.invalidate(payload);
     allowedOrigins.invalidate();
   };
   const listening = database.subscribe(channel, forget).catch((err: Error) => {
@@ -22,6 +39,12 @@ export function createKeyEvents({ database, keyCache, allowedOrigins, logger }: 
     async changed(keyId: string): Promise<void> {
       forget(keyId);
       await database.publish(channel, keyId).catch((err: Error) => logger.warn({ err: { message: err.message } }, 'key change not broadcast'));
+    },
+    /** A stored catalog changed here: the other instances forget their priced copy. */
+    catalogChanged(organizationId: string): void {
+      void database
+        .publish(channel, `${CATALOG_PREFIX}${organizationId}`)
+        .catch((err: Error) => logger.warn({ err: { message: err.message } }, 'catalog change not broadcast'));
     },
   };
 }

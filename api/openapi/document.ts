@@ -43,6 +43,7 @@ export function buildOpenApiDocument(registrars: readonly DocsRegistrar[]) {
       { name: 'Organizations', description: 'Partner organisations and their plans (created by the operator).' },
       { name: 'Usage', description: 'Calls counted per key, day, route and status, with latency.' },
       { name: 'Audit', description: 'Who did what, when and from where.' },
+      { name: 'Operations', description: 'Metrics for the platform operator’s scraper (outside /v1).' },
       { name: 'Development', description: 'Local stand-ins for hosted services (only without real configuration).' },
     ],
   });

@@ -1,5 +1,6 @@
 import type { Config } from '../config.js';
 import { routeModules } from '../routes/index.js';
+import { metricsDocs } from '../routes/metrics.js';
 import { enabledModules } from '../routes/route-module.js';
 import { buildOpenApiDocument } from './document.js';
 
@@ -16,7 +17,7 @@ export function openApiDocument(config?: Config): OpenApiDocument {
   const key = modules.map((m) => m.basePath).join(',');
   let doc = cache.get(key);
   if (!doc) {
-    doc = buildOpenApiDocument(modules.map((m) => m.docs));
+    doc = buildOpenApiDocument([...modules.map((m) => m.docs), metricsDocs]);
     cache.set(key, doc);
   }
   return doc;

@@ -40,10 +40,14 @@ export type CostCharger = (costOf: (body: never) => number) => RequestHandler;
 
 const ONE_UNIT = () => 1;
 
+/** Runs the engine and records its time (api/metrics); the identity when nothing records. */
+export type EngineTimer = <T>(operation: string, work: () => T) => T;
+const untimed: EngineTimer = (_operation, work) => work();
+
 /** Mounts `POST <path>` on the router: parse → charge its cost → compute → answer. */
-export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation, charge: CostCharger): void {
+export function mountCalculation(router: Router, basePath: string, calc: AnyCalculation, charge: CostCharger, time: EngineTimer = untimed): void {
   router.post(calc.path.slice(basePath.length) || '/', validateBody(calc.request), charge(calc.cost ?? ONE_UNIT), (_req, res) => {
-    res.type('application/json').send(serializeAnswer(calc.compute(res.locals.body)));
+    res.type('application/json').send(serializeAnswer(time(calc.path.slice(calc.path.lastIndexOf('/') + 1), () => calc.compute(res.locals.body))));
   });
 }
 

@@ -86,7 +86,7 @@ export const calculationRoutes: RouteModule = {
   router(deps, services) {
     const router = Router();
     const charge = costBudget(services, deps.logger);
-    for (const calc of calculations) mountCalculation(router, BASE, calc, charge);
+    for (const calc of calculations) mountCalculation(router, BASE, calc, charge, services.metrics.timeEngine);
     return router;
   },
   docs(registry) {

@@ -28,6 +28,12 @@ export interface PricingCatalog {
 
 /** Organisations whose active catalog is kept in memory between estimates. */
 const PRICING_CACHE_SIZE = 500;
+/**
+ * How long a cached priced catalog is used without asking the database for its version. Changes
+ * forget it at once on every instance (see createCatalogService); this bounds what a lost
+ * notification, or a read racing a change, could leave stale.
+ */
+const PRICING_TRUST_MS = 5_000;
 
 const notFound = (sku: string) => new HttpProblem(404, 'catalog_item_not_found', 'Not found', `The catalog has no SKU ${sku}.`);
 
@@ -65,8 +71,23 @@ export function itemColumns(item: StoredCatalogItem, currency: string, path = 'u
  * The stored catalog of an organisation. Every change runs in one transaction with the bump of
  * the catalog's version, so a version always names one exact set of items and prices.
  */
-export function createCatalogService({ db, clock }: { db: Db; clock: () => Date }) {
-  const pricingCache = new Map<string, { version: number; catalog: Catalog | null }>();
+export function createCatalogService({ db, clock, onChange = () => undefined }: { db: Db; clock: () => Date; onChange?: (organizationId: string) => void }) {
+  /**
+   * The priced catalog per organisation, trusted for PRICING_TRUST_MS without reading the database:
+   * a change made here forgets it at once, and `onChange` tells the other instances (through the
+   * database's notifications) to forget theirs, so a price change is in force everywhere within
+   * milliseconds, and within PRICING_TRUST_MS even if a notification were lost.
+   */
+  const pricingCache = new Map<string, { version: number; catalog: Catalog | null; checkedAt: number }>();
+  /** Runs one change in its transaction, then forgets the cached catalog here and on the other instances. */
+  async function changing<T>(organizationId: string, work: (tx: Db) => Promise<T>): Promise<T> {
+    try {
+      return await db.transaction(work);
+    } finally {
+      pricingCache.delete(organizationId);
+      onChange(organizationId);
+    }
+  }
   async function catalogRow(tx: Db, organizationId: string): Promise<CatalogRow | undefined> {
     const [row] = await tx.select().from(catalogs).where(eq(catalogs.organizationId, organizationId));
     return row;
@@ -117,7 +138,7 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
     },
 
     async update(organizationId: string, patch: PatchCatalog): Promise<{ changed: boolean }> {
-      return db.transaction(async (tx) => {
+      return changing(organizationId, async (tx) => {
         const row = await forWrite(tx, organizationId);
         const set: Partial<CatalogRow> = {};
         if (patch.currency !== undefined && patch.currency !== row.currency) {
@@ -172,7 +193,7 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
 
     /** Creates an item; 409 when the SKU exists (PUT replaces one). */
     async create(organizationId: string, item: StoredCatalogItem): Promise<{ item: StoredCatalogItem; version: number }> {
-      return db.transaction(async (tx) => {
+      return changing(organizationId, async (tx) => {
         const catalog = await forWrite(tx, organizationId);
         if (await findItem(tx, organizationId, item.sku)) {
           throw new HttpProblem(409, 'sku_exists', 'SKU exists', `The catalog already has SKU ${item.sku}; PUT /v1/catalog/items/${item.sku} replaces it.`);
@@ -187,7 +208,7 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
 
     /** Replaces an item's kind and fields (creates it when new); `created` tells which. */
     async replace(organizationId: string, item: StoredCatalogItem): Promise<{ item: StoredCatalogItem; created: boolean; changed: boolean }> {
-      return db.transaction(async (tx) => {
+      return changing(organizationId, async (tx) => {
         const catalog = await forWrite(tx, organizationId);
         const existing = await findItem(tx, organizationId, item.sku);
         const columns = itemColumns(item, catalog.currency);
@@ -201,7 +222,7 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
     },
 
     async patch(organizationId: string, sku: string, patch: PatchCatalogItem): Promise<{ item: StoredCatalogItem; changed: boolean }> {
-      return db.transaction(async (tx) => {
+      return changing(organizationId, async (tx) => {
         const catalog = await forWrite(tx, organizationId);
         const existing = await findItem(tx, organizationId, sku);
         if (!existing) throw notFound(sku);
@@ -230,10 +251,18 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
      * are read again only when the version moved (any change bumps it, on any instance).
      */
     async pricingCatalog(organizationId: string): Promise<PricingCatalog | null> {
-      const row = await catalogRow(db, organizationId);
-      if (!row) return null;
       const known = pricingCache.get(organizationId);
-      if (known && known.version === row.version) return known.catalog && { version: known.version, catalog: known.catalog };
+      const now = performance.now();
+      if (known && now - known.checkedAt < PRICING_TRUST_MS) return known.catalog && { version: known.version, catalog: known.catalog };
+      const row = await catalogRow(db, organizationId);
+      if (!row) {
+        pricingCache.set(organizationId, { version: 0, catalog: null, checkedAt: now });
+        return null;
+      }
+      if (known && known.version === row.version) {
+        known.checkedAt = now;
+        return known.catalog && { version: known.version, catalog: known.catalog };
+      }
       const rows = await db
         .select()
         .from(catalogItems)
@@ -246,7 +275,7 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
       const catalog: Catalog | null =
         items.length > 0 ? { currency: row.currency, taxRatePercent: row.taxRateBasisPoints / 100, items } : null;
       if (pricingCache.size >= PRICING_CACHE_SIZE) pricingCache.delete(pricingCache.keys().next().value as string);
-      pricingCache.set(organizationId, { version: row.version, catalog });
+      pricingCache.set(organizationId, { version: row.version, catalog, checkedAt: now });
       return catalog && { version: row.version, catalog };
     },
 
@@ -273,7 +302,7 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
       // A dry run does the same work and rolls it back, so its counts are exactly what an import would do.
       let outcome: { created: number; updated: number; unchanged: number; version: number } | undefined;
       try {
-        return await db.transaction(async (tx) => {
+        return await changing(organizationId, async (tx) => {
           const catalog = await forWrite(tx, organizationId);
           let created = 0;
           let updated = 0;
@@ -300,6 +329,11 @@ export function createCatalogService({ db, clock }: { db: Db; clock: () => Date 
         if (err instanceof DryRunRollback && outcome) return outcome;
         throw err;
       }
+    },
+
+    /** Forgets the cached catalog of an organisation (another instance changed it). */
+    forget(organizationId: string): void {
+      pricingCache.delete(organizationId);
     },
 
     /** Retires an item: it stays (old estimates name it) but is never picked again. */

@@ -22,6 +22,7 @@ import { createPlanService } from './plans.js';
 import { createQuotaService } from './quotas.js';
 import { createRateLimitStores } from './rate-limit-stores.js';
 import { createUsageMeter } from './usage-meter.js';
+import { createMetrics } from '../metrics/metrics.js';
 
 /** Every service the routes use, built once per app from its dependencies. */
 export function createServices(deps: AppDeps) {
@@ -41,8 +42,11 @@ export function createServices(deps: AppDeps) {
   const usageMeter = createUsageMeter({ db, logger: deps.logger, flushIntervalMs: deps.config.usageFlushIntervalMs, flushAfterCalls: deps.config.usageFlushAfterCalls, observer: quotas.observer });
   const keyCache = new KeyCache((keyId) => apiKeys.byKeyId(keyId), () => clock().getTime());
   const allowedOrigins = createAllowedOrigins({ db, clock });
-  const catalog = createCatalogService({ db, clock });
-  const pricedEstimates = createPricedEstimates(catalog);
+  // Catalog changes reach the other instances' priced-catalog caches through the key-change channel.
+  const catalog = createCatalogService({ db, clock, onChange: (organizationId) => keyEvents.catalogChanged(organizationId) });
+  const keyEvents = createKeyEvents({ database: deps.database, keyCache, allowedOrigins, catalog, logger: deps.logger });
+  const metrics = createMetrics();
+  const pricedEstimates = createPricedEstimates(catalog, metrics.timeEngine);
   const projects = createProjectService({ db, clock });
   const stairs = createStairService({ db, clock, projects });
   // A stair runs as POST /v1/estimates does: priced from the stored catalog unless its input carries one.
@@ -50,7 +54,7 @@ export function createServices(deps: AppDeps) {
   return {
     apiKeys,
     keyCache,
-    keyEvents: createKeyEvents({ database: deps.database, keyCache, allowedOrigins, logger: deps.logger }),
+    keyEvents,
     accessTokens,
     users,
     emailTokens,
@@ -70,6 +74,7 @@ export function createServices(deps: AppDeps) {
     plans,
     quotas,
     usageMeter,
+    metrics,
     rateLimitStores: createRateLimitStores(deps.config.redisUrl, deps.logger),
   };
 }

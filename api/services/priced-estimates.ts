@@ -11,7 +11,7 @@ interface CatalogSource {
  * else with the organisation's stored catalog (active items) unless the request opts out — and
  * says in `pricing` which catalog and which version priced it.
  */
-export function createPricedEstimates(catalog: CatalogSource) {
+export function createPricedEstimates(catalog: CatalogSource, time: <T>(operation: string, work: () => T) => T = (_op, work) => work()) {
   return {
     /** The input the engine runs on: the stored catalog attached when it applies. */
     async prepare(organizationId: string, input: EstimateInput): Promise<{ input: EstimateInput; stored: PricingCatalog | null }> {
@@ -31,7 +31,10 @@ export function createPricedEstimates(catalog: CatalogSource) {
 
     async run(organizationId: string, input: EstimateInput): Promise<EstimateResult> {
       const prepared = await this.prepare(organizationId, input);
-      return this.label(estimate(prepared.input), prepared.stored);
+      return this.label(
+        time('estimate', () => estimate(prepared.input)),
+        prepared.stored,
+      );
     },
   };
 }

@@ -8,7 +8,8 @@ import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
 // Served outside /v1 (docs, console): not governed by the policy table.
-const OUTSIDE_API = new Set(['GET /openapi.json', 'GET /docs', 'GET /{*splat}']);
+// /metrics is outside /v1 and its policy (scrape token or operator) is its own; tests/api/metrics.test.ts tries every kind of credential on it.
+const OUTSIDE_API = new Set(['GET /openapi.json', 'GET /docs', 'GET /{*splat}', 'GET /metrics']);
 const ORIGIN = 'https://shop.matrix.test';
 
 let now = new Date('2026-12-01T10:00:00Z');

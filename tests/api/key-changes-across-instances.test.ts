@@ -1,6 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { anotherInstance } from '../support/app-instance.js';
+import { harborLaneCatalog, harborLaneCheckout } from '../../shared/schemas/estimate-examples.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
@@ -36,5 +37,22 @@ describe('a key changed on one instance', () => {
     const rotated = await request(t.app).post(`/v1/keys/${created.body.key.id}/rotate`).set('Authorization', `Bearer ${manager}`).send({ overlapHours: 0 }).expect(200);
     await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);
     await sizeOn(b, rotated.body.token).expect(200);
+  });
+});
+
+describe('a stored catalog changed on one instance', () => {
+  it('prices estimates on another instance from the new version at once, although it had the old one cached', async () => {
+    const org = await createOrganization(t);
+    const { token } = await createKey(t, org.id, { scopes: ['catalog:write', 'catalog:read', 'sizing:run'] });
+    for (const item of harborLaneCatalog.items) {
+      await request(t.app).post('/v1/catalog/items').set('Authorization', `Bearer ${token}`).send(item).expect(201);
+    }
+    const { catalog: _inline, ...stair } = harborLaneCheckout;
+    const priceOn = async (app: TestApp['app']) => (await request(app).post('/v1/estimates').set('Authorization', `Bearer ${token}`).send(stair).expect(200)).body.pricing;
+    const before = await priceOn(b); // B reads and caches the catalog now
+    await request(t.app).patch('/v1/catalog/items/HL-S24-10').set('Authorization', `Bearer ${token}`).send({ unitPrice: 41 }).expect(200);
+    // The cache is trusted for 5 s of real time; only the notification makes B read the new version sooner.
+    await expect.poll(async () => (await priceOn(b)).catalogVersion, { timeout: 3000, interval: 50 }).toBe(before.catalogVersion + 1);
+    expect((await priceOn(b)).net).toBeGreaterThan(before.net);
   });
 });

@@ -1,20 +1,36 @@
-// HTTP half of `npm run bench`: the built server in one process, autocannon in this one.
-import { spawn } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
+// HTTP half of `npm run bench`: a bare Express 5 app and the built server, each in its own
+// process, loaded in turn by autocannon in this one. Every figure is a ratio measured in the same
+// run, so the machine's speed (shared, noisy) cancels out.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import autocannon from 'autocannon';
+import { alderRowTownhouse } from '../../shared/schemas/estimate-examples.js';
 
-export interface HttpFigures {
-  healthRps: number;
-  voltageDropRps: number;
-  ratio: number;
+export interface Load {
+  rps: number;
+  p99Ms: number;
+  bytesPerAnswer: number;
 }
 
-const VOLTAGE_DROP_BODY = JSON.stringify({ supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } });
+export interface HttpFigures {
+  bareGet: Load;
+  barePost: Load;
+  health: Load;
+  voltageDrop: Load;
+  estimate: Load;
+}
 
-function run(url: string, opts: Partial<autocannon.Options>): Promise<autocannon.Result> {
-  return autocannon({ url, connections: 20, duration: 10, ...opts });
+const CONNECTIONS = 20;
+const VOLTAGE_DROP_BODY = JSON.stringify({ supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } });
+const ESTIMATE_BODY = JSON.stringify(alderRowTownhouse); // 14 treads, trace on
+
+async function load(url: string, seconds: number, opts: Partial<autocannon.Options> = {}): Promise<Load> {
+  await autocannon({ url, connections: CONNECTIONS, duration: 2, ...opts }); // warm-up: JIT and first-use costs
+  const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, ...opts });
+  if (r.non2xx || r.errors || r.timeouts) throw new Error(`${url}: ${r.non2xx} non-2xx, ${r.errors} errors, ${r.timeouts} timeouts`);
+  return { rps: r.requests.average, p99Ms: r.latency.p99, bytesPerAnswer: r.throughput.total / Math.max(1, r.requests.total) };
 }
 
 async function json(url: string, init: RequestInit) {
@@ -23,26 +39,43 @@ async function json(url: string, init: RequestInit) {
   return res.json();
 }
 
+function stop(child: ChildProcess): Promise<unknown> {
+  if (child.exitCode !== null) return Promise.resolve();
+  const exited = new Promise((r) => child.once('exit', r));
+  child.kill('SIGTERM');
+  return exited;
+}
+
+/** Starts a process and waits for `pattern` in what it writes to `file` (its stdout). */
+async function started(child: ChildProcess, file: string, pattern: RegExp): Promise<string> {
+  for (let waited = 0; waited < 60_000; waited += 100) {
+    const text = readFileSync(file, 'utf8');
+    if (pattern.test(text)) return text;
+    if (child.exitCode !== null) throw new Error(`process exited with ${child.exitCode}:\n${text}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error('process did not start');
+}
+
 /**
- * The calculation is measured as a shop calls it: with a secret key, through authentication,
- * rate limiting and metering. The demo organisation is moved to the internal `platform` plan
- * (by the operator, through the API) so the limits measure their cost, not their refusals.
+ * The server runs as `npm start` runs it: request logging at the default level (info), its
+ * stdout going to a file as a process manager would keep it. The calls are made as a shop makes
+ * them: with a secret key, through authentication, limits, quota and metering; the demo
+ * organisation is moved to the internal `platform` plan (by the operator, through the API) so
+ * the limits measure their cost, not their refusals.
  */
-export async function measureHttp(): Promise<HttpFigures> {
-  const dataDir = mkdtempSync(path.join(tmpdir(), 'treadwise-bench-'));
+export async function measureHttp(seconds: number): Promise<HttpFigures> {
+  const dir = mkdtempSync(path.join(tmpdir(), 'treadwise-bench-'));
+  const bareOut = path.join(dir, 'bare.out');
+  const serverOut = path.join(dir, 'server.out');
+  const bare = spawn(process.execPath, ['tests/load/bare-express.mjs'], { stdio: ['ignore', openSync(bareOut, 'w'), 'inherit'] });
   const server = spawn(process.execPath, ['dist/server/main.js'], {
-    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATA_DIR: dataDir, LOG_LEVEL: 'warn' },
-    stdio: ['ignore', 'pipe', 'inherit'],
+    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATA_DIR: path.join(dir, 'data'), LOG_LEVEL: 'info' },
+    stdio: ['ignore', openSync(serverOut, 'w'), 'inherit'],
   });
   try {
-    const out = await new Promise<string>((resolve, reject) => {
-      let text = '';
-      server.stdout!.on('data', (d) => {
-        text += d;
-        if (/running at/.test(text) && /harbor-lane\s+server/.test(text)) resolve(text);
-      });
-      server.once('exit', (code) => reject(new Error(`server exited with ${code}`)));
-    });
+    const bareUrl = /listening at (\S+)/.exec(await started(bare, bareOut, /listening at/))![1];
+    const out = await started(server, serverOut, /harbor-lane\s+server/);
     const base = /running at (http:\/\/\S+)/.exec(out)![1];
     const key = /harbor-lane\s+server\s+(tw_server_\S+)/.exec(out)![1];
     const password = /Demo password for every demo account: (\S+)/.exec(out)![1];
@@ -51,19 +84,21 @@ export async function measureHttp(): Promise<HttpFigures> {
     const harbor = orgs.items.find((o: { slug: string }) => o.slug === 'harbor-lane');
     await json(`${base}/v1/organizations/${harbor.id}`, { method: 'PATCH', headers: { authorization: `Bearer ${session.accessToken}` }, body: JSON.stringify({ planId: 'platform' }) });
 
-    const drop = { method: 'POST' as const, body: VOLTAGE_DROP_BODY, headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` } };
-    // Warm both routes up so neither pays for JIT or first-use costs in its window.
-    await run(`${base}/v1/health`, { duration: 2 });
-    await run(`${base}/v1/calculations/voltage-drop`, { duration: 2, ...drop });
-    const health = await run(`${base}/v1/health`, {});
-    const calc = await run(`${base}/v1/calculations/voltage-drop`, drop);
-    if (health.non2xx || calc.non2xx || health.errors || calc.errors) {
-      throw new Error(`benchmark saw failed requests (health ${health.non2xx}/${health.errors}, voltage-drop ${calc.non2xx}/${calc.errors})`);
-    }
-    return { healthRps: health.requests.average, voltageDropRps: calc.requests.average, ratio: calc.requests.average / health.requests.average };
+    const post = (body: string, auth?: string) => ({
+      method: 'POST' as const,
+      body,
+      headers: { 'content-type': 'application/json', ...(auth ? { authorization: `Bearer ${auth}` } : {}) },
+    });
+    return {
+      bareGet: await load(`${bareUrl}/get`, seconds),
+      barePost: await load(`${bareUrl}/post`, seconds, post(VOLTAGE_DROP_BODY)),
+      health: await load(`${base}/v1/health`, seconds),
+      voltageDrop: await load(`${base}/v1/calculations/voltage-drop`, seconds, post(VOLTAGE_DROP_BODY, key)),
+      // Uncompressed, as autocannon asks: the answer is built and written in full.
+      estimate: await load(`${base}/v1/estimates`, seconds, post(ESTIMATE_BODY, key)),
+    };
   } finally {
-    server.kill('SIGTERM');
-    await new Promise((r) => server.once('exit', r));
-    rmSync(dataDir, { recursive: true, force: true });
+    await Promise.all([stop(bare), stop(server)]);
+    rmSync(dir, { recursive: true, force: true });
   }
 }
