@@ -58,6 +58,7 @@ async function main(): Promise<void> {
     `  Console:  ${server.url}/`,
     `  API docs: ${server.url}/docs   (OpenAPI: ${server.url}/openapi.json)`,
   ];
+  if (server.demoShop) lines.push(`  Demo shop: ${server.demoShop.url}/   (Harbor Lane's product page with the estimator)`);
   if (server.seed.seeded || config.seedDemo) {
     lines.push(`  Demo sign-in: ${demoOperator.email} (operator), ${demoMembers.map((m) => `${m.email} (${m.role})`).join(', ')}`);
     lines.push(`  Demo password for every demo account: ${DEMO_PASSWORD}`);

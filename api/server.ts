@@ -10,6 +10,10 @@ import { openDatabase, type Database } from './db/client.js';
 import { lockDataDir, type DataDirLock } from './db/data-dir-lock.js';
 import { migrateDatabase } from './db/migrate.js';
 import { seedDemo, type SeedResult } from './db/seed.js';
+import { DEMO_SHOP_ORGANIZATION } from './db/demo-data.js';
+import { loadShopKey, saveShopKey } from './demo-shop/shop-key.js';
+import { startDemoShop, type DemoShop } from './demo-shop/shop-server.js';
+import { readEmbedBundle } from './embed/bundle.js';
 import { gracefulCloser } from './graceful-close.js';
 import { createHttpServer } from './http-server.js';
 import { shareWorkerRegistries } from './metrics/cluster-metrics.js';
@@ -18,6 +22,8 @@ export interface RunningServer {
   url: string;
   database: Database;
   seed: SeedResult;
+  /** The Harbor Lane demo shop (a second origin), when the demo is seeded and the shop is present. */
+  demoShop?: DemoShop;
   /**
    * Stops accepting connections, lets in-flight answers reach their clients (up to
    * SHUTDOWN_DRAIN_MS), writes the buffered usage, closes the database and releases DATA_DIR.
@@ -52,9 +58,13 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
   let app: ReturnType<typeof createApp>;
   let seed: SeedResult;
   let server: Server;
+  let demoShop: DemoShop | undefined;
   try {
     await migrateDatabase(database);
-    seed = await seedDemo(database, config.seedDemo, secrets.pepper);
+    // The shop listens first: its origins go into the demo page key's allow-list at seeding.
+    // One process only: cluster workers would each serve it with a different knowledge of the key.
+    demoShop = config.seedDemo && !cluster.isWorker ? await startDemoShopOrWarn(config, logger) : undefined;
+    seed = await seedDemo(database, config.seedDemo, secrets.pepper, { extraEmbedOrigins: { [DEMO_SHOP_ORGANIZATION]: demoShop?.origins ?? [] } });
     app = createApp({ config, database, logger, secrets, clock: () => new Date() });
     // Under WEB_CONCURRENCY the primary gathers every worker's metrics from these registries.
     if (cluster.isWorker) shareWorkerRegistries(app.locals.services.metrics.registries());
@@ -69,17 +79,21 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     // Jobs left queued or running by an earlier process (a crash, a restart) resume here.
     await app.locals.services.batchJobs.start();
   } catch (err) {
+    await demoShop?.close();
     await database.close(); // before the lock goes, so the next owner finds the files closed
     throw err;
   }
   const closer = gracefulCloser(server);
   const { port } = server.address() as AddressInfo;
   const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host;
+  const url = `http://${host}:${port}`;
+  if (demoShop) configureDemoShop(demoShop, config, seed, url);
 
   let closing: Promise<void> | undefined;
   const close = () =>
     (closing ??= (async () => {
       // Answers under way reach their clients (up to SHUTDOWN_DRAIN_MS), then the sockets close.
+      await demoShop?.close();
       await closer.close(config.shutdownDrainMs);
       // In-flight requests are done: write the buffered usage and last-used times, then close.
       await app.locals.services.passwordResets.settled(); // reset mails started before the stop
@@ -90,5 +104,24 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
       await lock?.release();
     })());
 
-  return { url: `http://${host}:${port}`, database, seed, close };
+  return { url, database, seed, demoShop, close };
+}
+
+/** The demo shop is an extra: a busy port must not keep the API from starting. */
+async function startDemoShopOrWarn(config: Config, logger: Logger): Promise<DemoShop | undefined> {
+  try {
+    return await startDemoShop({ dir: config.demoShopDir, host: config.host, port: config.demoShopPort });
+  } catch (err) {
+    logger.warn({ err, port: config.demoShopPort }, 'the demo shop could not listen (set DEMO_SHOP_PORT); starting without it');
+    return undefined;
+  }
+}
+
+/** The shop page gets the API's address, the script's manifest and Harbor Lane's page key. */
+function configureDemoShop(shop: DemoShop, config: Config, seed: SeedResult, apiUrl: string): void {
+  const seededKey = seed.keys.find((k) => k.organization === DEMO_SHOP_ORGANIZATION && k.kind === 'embed')?.token;
+  // The seed prints keys once; a data directory keeps the page key for the next starts.
+  if (seededKey && !config.databaseUrl) saveShopKey(config.dataDir, seededKey);
+  const embedKey = seededKey ?? (config.databaseUrl ? undefined : loadShopKey(config.dataDir));
+  shop.configure({ apiOrigin: apiUrl, embedKey, manifest: readEmbedBundle(config.embedDir)?.manifest });
 }

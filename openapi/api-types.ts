@@ -1151,6 +1151,66 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/embed/v1/treadwise-estimator.js": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The estimator element script (latest)
+         * @description Defines `<treadwise-estimator>`. Cached for 5 minutes; pin a version with the immutable copy and its SRI hash from the manifest.
+         */
+        get: operations["getEmbedScript"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/embed/v1/{version}/treadwise-estimator.js": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The estimator element script (one version, immutable)
+         * @description The same script under its version: cached for a year, never changed. Load it with the `integrity` of the manifest.
+         */
+        get: operations["getEmbedScriptVersion"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/embed/v1/manifest.json": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Version and SRI hash of the estimator script
+         * @description The current version of `<treadwise-estimator>`, the path of its immutable copy and its subresource-integrity hash: what a shop pastes into its script tag.
+         */
+        get: operations["getEmbedManifest"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/metrics": {
         parameters: {
             query?: never;
@@ -8902,6 +8962,28 @@ export interface components {
             /** @description Pass as `cursor` for the next page; `null` on the last page. */
             nextCursor: string | null;
         };
+        /** @description The current `<treadwise-estimator>` script: where its immutable copy is and its SRI hash. */
+        EmbedManifest: {
+            /**
+             * @description Release and content hash of the script; each build is a new version.
+             * @example 0.1.0-28e3e4ccde33
+             */
+            version: string;
+            /**
+             * @description Subresource integrity of the versioned script, for the `integrity` attribute.
+             * @example sha384-B5dgiQRTbVn2yAinlJpz2THXWPKmops6VfXGUy2MYYtchPzRfCwRJ1R7bGGcbmXI
+             */
+            integrity: string;
+            /**
+             * @description Path of the immutable versioned copy on this API.
+             * @example /embed/v1/0.1.0-28e3e4ccde33/treadwise-estimator.js
+             */
+            url: string;
+            /** @description Size of the script, bytes. */
+            bytes: number;
+            /** @description Size gzipped, bytes (the budget is 120 kB). */
+            gzipBytes: number;
+        };
     };
     responses: never;
     parameters: never;
@@ -13068,6 +13150,108 @@ export interface operations {
             };
             /** @description Rate limit or monthly quota reached (`rate_limited`, `quota_exceeded`); see Retry-After. */
             429: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getEmbedScript: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The script. */
+            200: {
+                headers: {
+                    /** @description `*`: shops load the script with SRI, which fetches in CORS mode. */
+                    "Access-Control-Allow-Origin"?: string;
+                    /** @description `cross-origin`: shops’ pages may load it. */
+                    "Cross-Origin-Resource-Policy"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/javascript": string;
+                };
+            };
+            /** @description The script is not built on this server, or (versioned) not of that version. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getEmbedScriptVersion: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The version from the manifest. */
+                version: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The script. */
+            200: {
+                headers: {
+                    /** @description `*`: shops load the script with SRI, which fetches in CORS mode. */
+                    "Access-Control-Allow-Origin"?: string;
+                    /** @description `cross-origin`: shops’ pages may load it. */
+                    "Cross-Origin-Resource-Policy"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/javascript": string;
+                };
+            };
+            /** @description The script is not built on this server, or (versioned) not of that version. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getEmbedManifest: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The manifest. */
+            200: {
+                headers: {
+                    /** @description `*`: shops load the script with SRI, which fetches in CORS mode. */
+                    "Access-Control-Allow-Origin"?: string;
+                    /** @description `cross-origin`: shops’ pages may load it. */
+                    "Cross-Origin-Resource-Policy"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["EmbedManifest"];
+                };
+            };
+            /** @description The script is not built on this server, or (versioned) not of that version. */
+            404: {
                 headers: {
                     [name: string]: unknown;
                 };

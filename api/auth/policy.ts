@@ -130,6 +130,11 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/estimates/:estimateId/wiring-schedule.csv': projectsRead,
   'GET /v1/estimates/:estimateId/bom.csv': projectsRead,
   'GET /v1/estimates/:estimateId/document.pdf': projectsRead,
+
+  // The embeddable estimator's script: shops' pages load it without credentials.
+  'GET /embed/v1/treadwise-estimator.js': { public: true },
+  'GET /embed/v1/:version/treadwise-estimator.js': { public: true },
+  'GET /embed/v1/manifest.json': { public: true },
 };
 
 /** A malformed %-escape is just a path that matches nothing (404), not an error. */

@@ -14,6 +14,9 @@ export const demoOrganizations = [
  */
 export const DEMO_PASSWORD = 'treadwise-demo';
 
+/** The organisation whose shop the local demo shop plays (demo-scenario.md: Harbor Lane). */
+export const DEMO_SHOP_ORGANIZATION = 'harbor-lane';
+
 export const demoOperator = { email: 'ops@treadwise.test', name: 'Treadwise operations' };
 
 export const demoMembers = [

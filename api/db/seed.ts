@@ -25,11 +25,16 @@ export interface SeedResult {
   keys: DemoKey[];
 }
 
+export interface SeedOptions {
+  /** Origins added to an organisation's demo page key, by slug (the local demo shop's addresses). */
+  extraEmbedOrigins?: Record<string, readonly string[]>;
+}
+
 /**
  * Seeds the demo scenario into an empty database only, so a restart never duplicates it and a
  * database holding real data is never touched.
  */
-export async function seedDemo(database: Database, enabled: boolean, pepper: Buffer): Promise<SeedResult> {
+export async function seedDemo(database: Database, enabled: boolean, pepper: Buffer, options: SeedOptions = {}): Promise<SeedResult> {
   if (!enabled) return { seeded: false, reason: 'disabled', keys: [] };
   return database.withLock(SEED_LOCK, async (db) => {
     const [{ n }] = await db.select({ n: count() }).from(organizations);
@@ -48,7 +53,7 @@ export async function seedDemo(database: Database, enabled: boolean, pepper: Buf
         }
         for (const kind of ['server', 'embed'] as const) {
           const key = generateKey(kind);
-          const allowedOrigins = kind === 'embed' ? [...demo.embedOrigins] : [];
+          const allowedOrigins = kind === 'embed' ? [...demo.embedOrigins, ...(options.extraEmbedOrigins?.[demo.slug] ?? [])] : [];
           await tx.insert(apiKeys).values({
             keyId: key.keyId,
             organizationId: org.id,

@@ -39,6 +39,10 @@ describe('layering', () => {
     expect(offending('shared/sizing', ['api', 'cli', 'console'])).toEqual([]);
   });
 
+  it('keeps the embeddable estimator on shared code and the generated API types only', () => {
+    expect(offending('embed', ['api', 'cli', 'console'])).toEqual([]);
+  });
+
   it('lets the estimate schema import its examples but not the other way round', () => {
     expect(importsOf(path.join(root, 'shared/schemas/estimate-examples.ts'))).toEqual([]);
   });
