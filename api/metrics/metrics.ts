@@ -1,4 +1,4 @@
-import { Counter, Histogram, Registry, collectDefaultMetrics, type OpenMetricsContentType } from 'prom-client';
+import { Counter, Gauge, Histogram, Registry, collectDefaultMetrics, type OpenMetricsContentType } from 'prom-client';
 
 /**
  * What the platform exposes at GET /metrics (OpenMetrics text, prom-client). Every app gets its own
@@ -64,8 +64,42 @@ export function createMetrics() {
     registers: [registry],
   });
 
+  /**
+   * Batch jobs as the database holds them, read at each scrape. Every instance reads the same
+   * rows, so under WEB_CONCURRENCY the primary keeps one worker's figure (`max`), never the sum.
+   */
+  const batchSource: { read?: () => Promise<BatchProgress[]> } = {};
+  new Gauge({
+    name: 'treadwise_batch_jobs',
+    help: 'Batch jobs by status (kept until their retention ends).',
+    labelNames: ['status'] as const,
+    aggregator: 'max',
+    registers: [registry],
+    async collect() {
+      this.reset();
+      for (const p of (await batchSource.read?.()) ?? []) this.set({ status: p.status }, p.jobs);
+    },
+  });
+  new Gauge({
+    name: 'treadwise_batch_rows',
+    help: 'Rows of batch jobs that are queued or running: `pending` still to size, `done` answered.',
+    labelNames: ['state'] as const,
+    aggregator: 'max',
+    registers: [registry],
+    async collect() {
+      this.reset();
+      const active = ((await batchSource.read?.()) ?? []).filter((p) => p.status === 'queued' || p.status === 'running');
+      this.set({ state: 'pending' }, active.reduce((n, p) => n + p.rowsTotal - p.rowsDone, 0));
+      this.set({ state: 'done' }, active.reduce((n, p) => n + p.rowsDone, 0));
+    },
+  });
+
   return {
     registry,
+    /** Where the batch gauges read from (the batch job service, once it exists). */
+    readBatchesFrom(read: () => Promise<BatchProgress[]>): void {
+      batchSource.read = read;
+    },
     httpRequests,
     httpDuration,
     refusals,
@@ -93,3 +127,11 @@ export function createMetrics() {
 }
 
 export type Metrics = ReturnType<typeof createMetrics>;
+
+/** Batch jobs of one status, with their rows. */
+export interface BatchProgress {
+  status: string;
+  jobs: number;
+  rowsTotal: number;
+  rowsDone: number;
+}

@@ -64,6 +64,7 @@ export function createServices(deps: AppDeps) {
     publicUrl: deps.config.publicUrl,
     retentionDays: deps.config.batchRetentionDays,
   });
+  metrics.readBatchesFrom(() => batchJobs.progress());
   return {
     apiKeys,
     keyCache,

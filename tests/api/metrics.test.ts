@@ -2,6 +2,7 @@ import { eq } from 'drizzle-orm';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { organizations } from '../../api/db/schema.js';
+import { alderRowTownhouse } from '../../shared/schemas/estimate-examples.js';
 import { bearer, createMember, createOperator, signIn } from '../support/accounts.js';
 import { createKey, createOrganization } from '../support/fixtures.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
@@ -82,5 +83,22 @@ describe('GET /metrics', () => {
     // Latency histogram by route and status class; ids never appear in labels.
     expect(after).toMatch(/treadwise_http_request_duration_seconds_bucket\{le="0\.005",route="POST \/v1\/calculations\/voltage-drop",status_class="2xx"\} \d+/);
     expect(after).not.toMatch(/route="[^"]*[0-9a-f]{8}-[0-9a-f]{4}/);
+  });
+});
+
+describe('GET /metrics and batch jobs', () => {
+  it('shows the rows still to size while a job waits, and the job by status once it has run', async () => {
+    const org = await createOrganization(t);
+    const { token } = await createKey(t, org.id, { scopes: ['batches:write'] });
+    const items = [{ ref: 'Plot 1', request: alderRowTownhouse }, { ref: 'Plot 2', request: alderRowTownhouse }, { ref: 'Plot 3', request: { layout: 'nonsense' } }];
+    await request(t.app).post('/v1/batches').set(bearer(token)).send({ name: 'Metrics', items }).expect(202);
+    const waiting = (await scrape()).text;
+    expect(sample(waiting, 'treadwise_batch_rows{state="pending"}')).toBe(3);
+    expect(sample(waiting, 'treadwise_batch_jobs{status="queued"}')).toBe(1);
+    await t.app.locals.services.batchJobs.drain();
+    const done = (await scrape()).text;
+    expect(sample(done, 'treadwise_batch_rows{state="pending"}')).toBe(0);
+    expect(sample(done, 'treadwise_batch_jobs{status="succeeded"}')).toBe(1);
+    expect(sample(done, 'treadwise_batch_jobs{status="queued"}')).toBeUndefined();
   });
 });

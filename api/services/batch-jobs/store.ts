@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, gt, inArray, isNotNull, lt, or } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, inArray, isNotNull, lt, or, sql } from 'drizzle-orm';
 import type { BatchJob } from '../../../shared/schemas/batch-jobs.js';
 import { MAX_JOB_ROWS } from '../../../shared/schemas/batch-jobs.js';
 import type { BatchDetail, EstimateBatchItemResult } from '../../../shared/schemas/estimate-batch.js';
@@ -146,6 +146,22 @@ export function createBatchJobStore({ db, clock, retentionDays, maxRows = MAX_JO
         yield page.map((r) => r.answer as unknown as EstimateBatchItemResult);
         if (page.length < RESULT_PAGE_ROWS) return;
       }
+    },
+
+    /** Jobs and their rows by status, for the metrics (uploads still being read are left out). */
+    async progress(): Promise<{ status: string; jobs: number; rowsTotal: number; rowsDone: number }[]> {
+      const rows = await db
+        .select({
+          status: batchJobs.status,
+          jobs: sql<string>`count(*)`,
+          rowsTotal: sql<string>`coalesce(sum(${batchJobs.rowsTotal}), 0)`,
+          rowsDone: sql<string>`coalesce(sum(${batchJobs.rowsDone}), 0)`,
+        })
+        .from(batchJobs)
+        .where(inArray(batchJobs.status, ['queued', 'running', 'succeeded', 'stopped', 'cancelled', 'failed']))
+        .groupBy(batchJobs.status);
+      // count and sum come back as text from PostgreSQL (bigint / numeric).
+      return rows.map((r) => ({ status: r.status, jobs: Number(r.jobs), rowsTotal: Number(r.rowsTotal), rowsDone: Number(r.rowsDone) }));
     },
 
     /** Deletes expired jobs with their rows, and uploads abandoned mid-way (a crash while reading a file). */
