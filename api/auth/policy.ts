@@ -22,6 +22,12 @@ export type Policy =
       sizing?: true;
       /** Uses one quota unit per item of its body (a synchronous batch): the route grows the admitted unit. */
       unitsPerItem?: true;
+      /**
+       * Counted in usage but never refused by, nor charged to, the monthly quota: following a batch
+       * job (polling it, reading its results) must work after the job stopped at the quota, and
+       * must not spend units the job's rows need.
+       */
+      quotaFree?: true;
     };
 
 const sizing: Policy = { scope: 'sizing:run', role: 'estimator', embed: true };
@@ -36,7 +42,7 @@ const projectsDelete: Policy = { scope: 'projects:write', role: 'admin' };
 const projectsRun: Policy = { ...projectsWrite, sizing: true };
 /** Batches run the engine item by item: their own scope for keys, estimators for users, metered as sizing. */
 const batchesWrite: Policy = { scope: 'batches:write', role: 'estimator', sizing: true, unitsPerItem: true };
-const batchesRead: Policy = { scope: 'batches:read', role: 'viewer' };
+const batchesRead: Policy = { scope: 'batches:read', role: 'viewer', quotaFree: true };
 
 /** The one table of who may call what. A mounted route missing here is unreachable (404). */
 export const POLICIES: Record<string, Policy> = {
@@ -62,7 +68,7 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/batches/:id': batchesRead,
   'GET /v1/batches/:id/results': batchesRead,
   'GET /v1/batches/:id/errors': batchesRead,
-  'POST /v1/batches/:id/cancel': { scope: 'batches:write', role: 'estimator' },
+  'POST /v1/batches/:id/cancel': { scope: 'batches:write', role: 'estimator', quotaFree: true },
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,

@@ -25,6 +25,12 @@ export function routeOf(req: Request, res: Response): string {
   return /^[A-Z]+ /.test(pattern) ? pattern : `${method} ${pattern}`;
 }
 
+/** A call the monthly quota neither refuses nor charges (see Policy.quotaFree). */
+function quotaFree(res: Response): boolean {
+  const policy = locals(res).routePolicy;
+  return policy !== undefined && !policy.public && policy.quotaFree === true;
+}
+
 /** Usage rows of signed-in users' sizing (the console's bench) carry this in place of a key id. */
 export const CONSOLE_KEY_ID = 'console';
 
@@ -68,7 +74,7 @@ export function meterRequests(deps: AppDeps, services: Services): RequestHandler
         status: res.statusCode,
         latencyMs: performance.now() - started,
         limited: l.limitedBy !== undefined,
-        units: l.quotaTicket?.units ?? 1,
+        units: l.quotaTicket?.units ?? (quotaFree(res) ? 0 : 1),
       });
     };
     res.once('finish', done);
@@ -89,6 +95,7 @@ export function enforceQuota(deps: AppDeps, services: Services): RequestHandler 
     const l = locals(res);
     const at = l.trafficAt ?? deps.clock();
     const policy = l.routePolicy;
+    if (policy !== undefined && !policy.public && policy.quotaFree) return next();
     const growing = policy !== undefined && !policy.public && policy.unitsPerItem === true;
     const decision = await services.quotas.admit(principal.organizationId, at, 1, { growing });
     const retryAfterS = advertiseQuota(res, decision, at);

@@ -298,8 +298,12 @@ describe('running jobs', () => {
     expect(job.body).toMatchObject({ status: 'stopped', stopReason: 'quota_exceeded', rows: { total: 15, done: 9, ok: 9 } });
     const lines = ndjsonLines((await request(t.app).get(`/v1/batches/${created.body.id}/results`).set(bearer(tinyAdmin)).expect(200)).text);
     expect(lines.map((l: { index: number }) => l.index)).toEqual([0, 1, 2, 3, 4, 5, 6, 7, 8]);
-    // Nothing left at all: a new job is refused.
+    // Nothing left at all: a new job is refused, but the key that made the job still follows it
+    // and reads its results (batch reads are counted, never refused by nor charged to the quota).
     expect((await postJson(tinyKey, { items }).expect(429)).body.code).toBe('quota_exceeded');
+    expect((await request(t.app).get(`/v1/batches/${created.body.id}`).set(bearer(tinyKey)).expect(200)).body.rows.done).toBe(9);
+    const byKey = ndjsonLines((await request(t.app).get(`/v1/batches/${created.body.id}/results`).set(bearer(tinyKey)).expect(200)).text);
+    expect(byKey).toEqual(lines);
     await jobs().mailed();
     const mail = await t.database.db.select().from(outboxMessages);
     expect(mail.some((m) => m.subject.includes('stopped at the monthly quota') && m.text.includes('9 of 15 rows'))).toBe(true);
