@@ -75,6 +75,40 @@ describe('accessibility of the console (axe-core: no serious or critical violati
     expect(found).toEqual({});
   });
 
+  it('passes on the batches screens, and a job uploaded there is watched until it ends', async () => {
+    const page = await profiles.page();
+    await page.goto(`${server.url}/batches`, { waitUntil: 'networkidle' });
+    await signIn(page, 'mira@harborlane.test');
+    const found = await scan(page, 'batches', '/batches', '[data-testid="batches-empty"], [data-testid="batch-link"]');
+    // Two stairs of docs/batch-rows.md's example, and a third whose tread count is not a number.
+    const csv = [
+      'ref,layout,staircase.treads,staircase.treadWidthMm,staircase.riserHeightMm,staircase.goingMm,treadStrip.voltageV,treadStrip.powerWPerM,treadStrip.cutPitchMm,controller.profileId',
+      'Plot 14,tread-strips,14,900,185,250,24,10,50,HL-K20',
+      'Plot 15,tread-strips,15,900,185,250,24,10,50,HL-K20',
+      'Plot 16,tread-strips,fourteen,900,185,250,24,10,50,HL-K20',
+    ].join('\r\n');
+    await page.setViewportSize({ width: WIDTHS.desktop, height: 800 });
+    await page.goto(`${server.url}/batches`, { waitUntil: 'networkidle' });
+    await page.setInputFiles('[data-testid="batch-file"]', { name: 'alder-row.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await page.fill('[data-testid="batch-name"]', 'Alder Row, plots 14-16');
+    await page.click('[data-testid="batch-start"]');
+    await page.waitForURL(/\/batches\/[0-9a-f-]{36}$/, { timeout: 15_000 });
+    // The page polls on its own until the job ends: no reload here.
+    await page.waitForFunction(() => document.querySelector('[data-testid="batch-status"]')?.getAttribute('data-status') === 'succeeded', undefined, { timeout: 30_000 });
+    expect(await page.textContent('[data-testid="batch-progress"]')).toContain('3 of 3 rows answered');
+    expect(await page.textContent('[data-count="failed"]')).toBe('1');
+    expect(await page.locator('[data-testid="batch-cancel"]').count()).toBe(0); // ended: nothing to cancel
+    for (const [label, width] of Object.entries(WIDTHS)) {
+      await page.setViewportSize({ width, height: 800 });
+      await page.reload({ waitUntil: 'networkidle' }); // the shell lays out its navigation for the width at load
+      await page.waitForSelector('[data-testid="batch-counts"]', { timeout: 15_000 });
+      await page.screenshot({ path: path.join(SCREENSHOTS, `a11y-batch-job-${label}.png`), fullPage: true });
+      const job = await seriousViolations(page);
+      if (job.length) found[`batch job (${label})`] = job;
+    }
+    expect(found).toEqual({});
+  });
+
   it('passes on the operator’s screens: organisations and plans, the mail outbox with a message open', async () => {
     // A message in the outbox: a password reset asked for one of the demo accounts (a public route).
     const reset = await fetch(`${server.url}/v1/auth/password-reset`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'theo@harborlane.test' }) });

@@ -79,6 +79,12 @@ describe('the keys screen in Chromium', () => {
     expect(await page.locator('[data-testid="once-warning"]').innerText()).toContain('shown only this once');
     await page.screenshot({ path: path.join(SCREENSHOTS, 'key-shown-once.png') });
     expect((await sizeWith(token)).status).toBe(200); // the key works from its origin
+    // The page tags pin the script this server publishes, with its integrity hash and the new key.
+    const manifest = (await (await fetch(`${server.url}/embed/v1/manifest.json`)).json()) as { url: string; integrity: string };
+    const tags = page.locator('[data-testid="snippet-HTML"]');
+    await expect.poll(() => tags.innerText(), { timeout: 15_000 }).toContain(`integrity="${manifest.integrity}"`);
+    expect(await tags.innerText()).toContain(`${manifest.url}"`);
+    expect(await tags.innerText()).toContain(`embed-key="${token}"`);
 
     await page.click('[data-testid="secret-done"]');
     await tokenCell.waitFor({ state: 'detached' });

@@ -38,6 +38,7 @@ describe('console routes', () => {
     ['/operator/outbox', '/operator/outbox'],
     ['/catalog', '/catalog'],
     ['/projects', '/projects'],
+    ['/batches', '/batches'],
   ])('sends a visitor who is not signed in from %s to sign in', async (url, next) => {
     const harness = await RouterTestingHarness.create();
     await harness.navigateByUrl(url, SignInPage);

@@ -87,6 +87,11 @@ export const routes: Routes = [
         loadChildren: () => import('./projects/projects.routes.js').then((m) => m.PROJECT_ROUTES),
       },
       {
+        path: 'batches',
+        canActivate: [requireRole('batches:read')],
+        loadChildren: () => import('./batches/batches.routes.js').then((m) => m.BATCH_ROUTES),
+      },
+      {
         path: 'status',
         title: 'Status · Treadwise',
         loadComponent: () => import('./status/status-page.js').then((m) => m.StatusPage),

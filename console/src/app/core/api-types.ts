@@ -74,3 +74,8 @@ export type EstimateChanges = Schemas['EstimateChanges'];
 export type KitOptionsRequest = Schemas['KitOptionsRequest'];
 export type KitOptionsResponse = Schemas['KitOptionsResponse'];
 export type KitDesign = Schemas['KitDesign'];
+
+export type Batch = Schemas['Batch'];
+export type BatchPage = Schemas['BatchPage'];
+export type BatchStatus = Batch['status'];
+export type EmbedManifest = Schemas['EmbedManifest'];

@@ -10,7 +10,9 @@ export type Capability =
   | 'catalog:read'
   | 'catalog:manage'
   | 'projects:read'
-  | 'projects:write';
+  | 'projects:write'
+  | 'batches:read'
+  | 'batches:write';
 
 const LEAST_ROLE: Record<Capability, Role> = {
   'keys:manage': 'admin',
@@ -22,6 +24,8 @@ const LEAST_ROLE: Record<Capability, Role> = {
   'catalog:manage': 'admin',
   'projects:read': 'viewer',
   'projects:write': 'estimator',
+  'batches:read': 'viewer',
+  'batches:write': 'estimator',
 };
 
 const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };

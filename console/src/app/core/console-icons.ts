@@ -38,6 +38,8 @@ const CONSOLE_ICONS: Readonly<Record<string, string>> = {
   bench: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20V6l14 14z"/><path ${stroke} d="M8 16v-2h2v2zM4 20h16"/></svg>`,
   organizations: `<svg viewBox="0 0 24 24"><path ${stroke} d="M4 20V8l6-3v15M10 20V10l10 2v8M3 20h18M13 15h4"/></svg>`,
   mail: `<svg viewBox="0 0 24 24"><rect ${stroke} x="3" y="5.5" width="18" height="13" rx="2"/><path ${stroke} d="m3.5 7 8.5 6.5L20.5 7"/></svg>`,
+  // Sheets stacked like treads: many stairs sized in one job.
+  batch: `<svg viewBox="0 0 24 24"><path ${stroke} d="M7 4.5h12v11M4.5 7.5h12v12h-12z"/><path ${stroke} d="M7.5 12h6M7.5 15.5h4"/></svg>`,
   open: `<svg viewBox="0 0 24 24"><path ${stroke} d="M14 4.5h5.5V10M19 5l-8 8M17 14v4.5a1.5 1.5 0 0 1-1.5 1.5h-10A1.5 1.5 0 0 1 4 18.5v-10A1.5 1.5 0 0 1 5.5 7H10"/></svg>`,
 };
 

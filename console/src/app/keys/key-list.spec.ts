@@ -34,6 +34,9 @@ const CREATED: ApiKeyWithToken = {
   token: TOKEN,
 };
 
+// What GET /embed/v1/manifest.json answers; the new embed key's snippets ask for it.
+const MANIFEST = { version: '0.1.0-28e3e4ccde33', integrity: 'sha384-test', url: '/embed/v1/0.1.0-28e3e4ccde33/treadwise-estimator.js', bytes: 1, gzipBytes: 1 };
+
 describe('KeyList', () => {
   let fixture: ComponentFixture<KeyList>;
   let http: HttpTestingController;
@@ -117,6 +120,10 @@ describe('KeyList', () => {
     expect(create.request.headers.get('Idempotency-Key')).toMatch(/^[0-9a-f]{32}$/);
     create.flush(CREATED, { status: 201, statusText: 'Created' });
     await settle();
+    // An embed key's snippets include the page tags, pinned by the script's manifest.
+    http.expectOne('/embed/v1/manifest.json').flush(MANIFEST);
+    await settle();
+    expect(overlay().querySelector('[data-testid="snippet-HTML"]')?.textContent).toContain(`embed-key="${TOKEN}"`);
 
     expect(overlay().querySelector('[data-testid="new-token"]')?.textContent?.trim()).toBe(TOKEN);
     expect(overlay().querySelector('[data-testid="once-warning"]')?.textContent).toContain('shown only this once');
@@ -170,6 +177,7 @@ describe('KeyList', () => {
     expect(second.request.headers.get('Idempotency-Key')).toBe(first.request.headers.get('Idempotency-Key'));
     second.flush(CREATED, { status: 201, statusText: 'Created' });
     await settle();
+    http.expectOne('/embed/v1/manifest.json').flush(MANIFEST);
     expect(overlay().querySelector('[data-testid="new-token"]')).not.toBeNull();
   });
 
@@ -193,5 +201,6 @@ describe('KeyList', () => {
     expect(second.request.headers.get('Idempotency-Key')).not.toBe(first.request.headers.get('Idempotency-Key'));
     second.flush(CREATED, { status: 201, statusText: 'Created' });
     await settle();
+    http.expectOne('/embed/v1/manifest.json').flush(MANIFEST);
   });
 });

@@ -35,7 +35,7 @@ export interface KeySecretData {
         </button>
       </div>
       <h3>Try it</h3>
-      <tw-key-snippets-view [kind]="data.issued.key.kind" [token]="data.issued.token" [origin]="data.issued.key.allowedOrigins[0]" />
+      <tw-key-snippets-view [kind]="data.issued.key.kind" [keyId]="data.issued.key.keyId" [token]="data.issued.token" [origin]="data.issued.key.allowedOrigins[0]" />
     </mat-dialog-content>
     <mat-dialog-actions align="end">
       <button matButton="filled" type="button" mat-dialog-close data-testid="secret-done">I have stored it</button>

@@ -12,7 +12,7 @@ import { KeySnippetsView } from './key-snippets-view.js';
   template: `
     <h2 mat-dialog-title>Calling with “{{ key.name }}”</h2>
     <mat-dialog-content>
-      <tw-key-snippets-view [kind]="key.kind" [origin]="key.allowedOrigins[0]" />
+      <tw-key-snippets-view [kind]="key.kind" [keyId]="key.keyId" [origin]="key.allowedOrigins[0]" />
     </mat-dialog-content>
     <mat-dialog-actions align="end">
       <button matButton type="button" mat-dialog-close>Close</button>

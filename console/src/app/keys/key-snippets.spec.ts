@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 
-import { KEY_PLACEHOLDER, keySnippets } from './key-snippets.js';
+import { EMBED_LATEST_PATH, KEY_PLACEHOLDER, embedTags, keySnippets } from './key-snippets.js';
 
 describe('keySnippets', () => {
   it('puts the key and the API address into both calls', () => {
@@ -27,5 +27,45 @@ describe('keySnippets', () => {
     const body = JSON.parse(/-d '(.*)'$/m.exec(curl)![1]!) as Record<string, unknown>;
     // Field names of POST /v1/calculations/voltage-drop (../shared/handbook/api-contract.md).
     expect(Object.keys(body).sort()).toEqual(['conductor', 'currentA', 'lengthM', 'supplyVoltageV']);
+  });
+});
+
+describe('embedTags', () => {
+  // The shape GET /embed/v1/manifest.json answers (api/routes/embed-script.ts).
+  const manifest = {
+    version: '0.1.0-28e3e4ccde33',
+    integrity: 'sha384-B5dgiQRTbVn2yAinlJpz2THXWPKmops6VfXGUy2MYYtchPzRfCwRJ1R7bGGcbmXI',
+    url: '/embed/v1/0.1.0-28e3e4ccde33/treadwise-estimator.js',
+    bytes: 90_000,
+    gzipBytes: 30_000,
+  };
+
+  it('pins the versioned script with its integrity and names the key and API in the element', () => {
+    const tags = embedTags('https://api.treadwise.test/', manifest, { token: 'tw_embed_n3wk3y000001_secret', keyId: 'n3wk3y000001' });
+    const doc = new DOMParser().parseFromString(tags, 'text/html');
+    const script = doc.querySelector('script')!;
+    expect(script.getAttribute('src')).toBe('https://api.treadwise.test/embed/v1/0.1.0-28e3e4ccde33/treadwise-estimator.js');
+    expect(script.getAttribute('integrity')).toBe(manifest.integrity);
+    expect(script.getAttribute('crossorigin')).toBe('anonymous'); // SRI needs a CORS fetch
+    const element = doc.querySelector('treadwise-estimator')!;
+    expect(element.getAttribute('embed-key')).toBe('tw_embed_n3wk3y000001_secret');
+    expect(element.getAttribute('api-url')).toBe('https://api.treadwise.test');
+  });
+
+  it('writes the key id with a gap for the secret when the key is no longer known', () => {
+    const tags = embedTags('https://api.treadwise.test', manifest, { keyId: 'n3wk3y000001' });
+    expect(tags).toContain('embed-key="tw_embed_n3wk3y000001_…"');
+  });
+
+  it('falls back to the moving script without integrity when there is no manifest', () => {
+    const tags = embedTags('https://api.treadwise.test', null, { keyId: 'n3wk3y000001' });
+    expect(tags).toContain(`<script src="https://api.treadwise.test${EMBED_LATEST_PATH}" defer></script>`);
+    expect(tags).not.toContain('integrity');
+  });
+
+  it('keeps a value with a quote inside its attribute', () => {
+    const tags = embedTags('https://api.treadwise.test/a"b', manifest, { keyId: 'x' });
+    const element = new DOMParser().parseFromString(tags, 'text/html').querySelector('treadwise-estimator')!;
+    expect(element.getAttribute('api-url')).toBe('https://api.treadwise.test/a"b');
   });
 });

@@ -1,4 +1,4 @@
-import type { KeyKind } from '../core/api-types.js';
+import type { EmbedManifest, KeyKind } from '../core/api-types.js';
 
 /** Stands in for a key whose secret the console no longer knows (it is shown once only). */
 export const KEY_PLACEHOLDER = '$TREADWISE_KEY';
@@ -38,4 +38,27 @@ export function keySnippets(apiUrl: string, kind: KeyKind, token: string = KEY_P
     `console.log(await answer.json());`,
   ];
   return { curl: curlLines.join(' \\\n'), fetch: fetchCall.join('\n') };
+}
+
+/** The script's moving address (always the latest build, so no SRI is possible on it). */
+export const EMBED_LATEST_PATH = '/embed/v1/treadwise-estimator.js';
+
+// Attribute values are written between double quotes; nothing in them may end the attribute or a tag.
+function attribute(value: string): string {
+  return value.replace(/&/g, '&amp;').replace(/"/g, '&quot;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+}
+
+/**
+ * The two tags a shop pastes into a product page (docs/embed.md): the versioned script with its SRI
+ * hash from the manifest, and the element. Without a manifest (the script not built on this
+ * server) the script tag points at the moving copy and carries no integrity. When the console no
+ * longer knows the secret, the key is written as its public prefix and an ellipsis to fill in.
+ */
+export function embedTags(apiUrl: string, manifest: EmbedManifest | null, key: { token?: string; keyId: string }): string {
+  const base = apiUrl.replace(/\/+$/, '');
+  const embedKey = key.token ?? `tw_embed_${key.keyId}_…`;
+  const script = manifest
+    ? [`<script src="${attribute(base + manifest.url)}"`, `        integrity="${attribute(manifest.integrity)}" crossorigin="anonymous" defer></script>`]
+    : [`<script src="${attribute(base + EMBED_LATEST_PATH)}" defer></script>`];
+  return [...script, `<treadwise-estimator embed-key="${attribute(embedKey)}" api-url="${attribute(base)}"></treadwise-estimator>`].join('\n');
 }

@@ -17,6 +17,10 @@ describe('destinationsFor', () => {
     }
   });
 
+  it('offers batches to every role, since viewers may read jobs (GET /v1/batches needs the viewer role)', () => {
+    for (const role of ['admin', 'estimator', 'viewer'] as const) expect(labels(role)).toContain('Batches');
+  });
+
   it('always offers the status page', () => {
     expect(labels(null)).toEqual(['Status']);
   });

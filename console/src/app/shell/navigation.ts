@@ -17,6 +17,7 @@ export const DESTINATIONS: readonly Destination[] = [
   { path: '/keys', label: 'Keys', icon: 'tw:key', needs: 'keys:manage' },
   { path: '/projects', label: 'Projects', icon: 'tw:stair', needs: 'projects:read' },
   { path: '/catalog', label: 'Catalog', icon: 'tw:catalog', needs: 'catalog:read' },
+  { path: '/batches', label: 'Batches', icon: 'tw:batch', needs: 'batches:read' },
   { path: '/traffic', label: 'Traffic', icon: 'tw:traffic', needs: 'usage:read' },
   { path: '/bench', label: 'Bench', icon: 'tw:bench', needs: 'sizing:run' },
   { path: '/team', label: 'Team', icon: 'tw:team', needs: 'members:manage' },
