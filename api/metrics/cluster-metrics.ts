@@ -71,9 +71,15 @@ export async function clusterMetricsText(): Promise<string> {
   return answer.body ?? '';
 }
 
-/** In the primary: every live worker's metrics, summed, as OpenMetrics text. */
+/**
+ * Workers that listen: only they answer requests, and only they have their registries shared
+ * (a worker still starting — migrations, the batch runner — would not answer a collection).
+ */
+const listening = new Set<number>();
+
+/** In the primary: every listening worker's metrics, summed, as OpenMetrics text. */
 async function gather(): Promise<string> {
-  const workers = Object.values(cluster.workers ?? {}).filter((w) => w?.isConnected());
+  const workers = Object.values(cluster.workers ?? {}).filter((w) => w?.isConnected() && listening.has(w.id));
   const lists = await Promise.all(
     workers.map((worker) => {
       const id = randomUUID();
@@ -103,6 +109,8 @@ async function gather(): Promise<string> {
 
 /** In the primary: answers workers' requests with the aggregate of every worker. */
 export function serveClusterMetrics(): void {
+  cluster.on('listening', (worker) => listening.add(worker.id));
+  cluster.on('exit', (worker) => listening.delete(worker.id));
   cluster.on('message', (worker, message: Message) => {
     if (message?.type !== ASK) return;
     gather().then(
