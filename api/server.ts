@@ -18,6 +18,7 @@ import { gracefulCloser } from './graceful-close.js';
 import { createHttpServer } from './http-server.js';
 import { shareWorkerRegistries } from './metrics/cluster-metrics.js';
 import { startPayments, type Payments } from './payments/start.js';
+import { providerPrices } from './services/plans.js';
 
 export interface RunningServer {
   url: string;
@@ -71,6 +72,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     seed = await seedDemo(database, config.seedDemo, secrets.pepper, { extraEmbedOrigins: { [DEMO_SHOP_ORGANIZATION]: demoShop?.origins ?? [] } });
     // Before the app: the SDK is built with the provider's (or the simulation's) address.
     payments = await startPayments(config, logger);
+    payments.fake?.setPrices(await providerPrices(database.db));
     app = createApp({ config, database, logger, secrets, clock: () => new Date(), payments: payments.connection });
     // Under WEB_CONCURRENCY the primary gathers every worker's metrics from these registries.
     if (cluster.isWorker) shareWorkerRegistries(app.locals.services.metrics.registries());

@@ -38,6 +38,14 @@ export const plans = pgTable('plans', {
    * costs 1 plus the treads, landings, reel pieces and tenths of pixels it sizes (api/middleware/cost-budget.ts).
    */
   costPerMinute: integer('cost_per_minute').notNull().default(5000),
+  /** Monthly price in minor units (cents) of `currency`; null: no payment (free, internal plans). */
+  monthlyPriceMinor: integer('monthly_price_minor'),
+  /** ISO 4217, lower-case as the payment provider writes it; set with the price. */
+  currency: text('currency'),
+  /** The payment provider's price this plan is sold as; checkouts and webhooks map through it. */
+  providerPriceId: text('provider_price_id').unique(),
+  /** Shown to organisations on the billing page; the internal plan never is. */
+  offered: boolean('offered').notNull().default(false),
   createdAt: createdAt(),
 });
 
