@@ -444,3 +444,28 @@ export const batchJobRows = pgTable(
     index('batch_job_rows_open').on(t.jobId, t.idx).where(sql`answer is null`),
   ],
 );
+
+/**
+ * Each organisation's link to the payment provider: its customer (made once, at the first
+ * checkout) and its subscription as the provider last described it.
+ */
+export const billingAccounts = pgTable('billing_accounts', {
+  organizationId: uuid('organization_id')
+    .primaryKey()
+    .references(() => organizations.id, { onDelete: 'cascade' }),
+  customerId: text('customer_id').notNull().unique(),
+  subscriptionId: text('subscription_id').unique(),
+  /** The provider's subscription status (active, past_due, canceled, …). */
+  status: text('status'),
+  providerPriceId: text('provider_price_id'),
+  currentPeriodEnd: timestamp('current_period_end', { withTimezone: true }),
+  cancelAtPeriodEnd: boolean('cancel_at_period_end').notNull().default(false),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Provider events already handled: a redelivered event id is acknowledged and skipped. */
+export const billingEvents = pgTable('billing_events', {
+  eventId: text('event_id').primaryKey(),
+  type: text('type').notNull(),
+  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+});
