@@ -4,6 +4,7 @@ import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { eq } from 'drizzle-orm';
+import { pino } from 'pino';
 import Stripe from 'stripe';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -11,7 +12,7 @@ import { createApp } from '../../api/app.js';
 import { ephemeralSecrets } from '../../api/auth/secrets.js';
 import { loadConfig } from '../../api/config.js';
 import type { Database } from '../../api/db/client.js';
-import { billingAccounts, billingEvents, organizations } from '../../api/db/schema.js';
+import { billingAccounts, billingEvents, organizations, outboxMessages } from '../../api/db/schema.js';
 import { createLogger } from '../../api/logger.js';
 import { startFakeProvider, type FakeProvider } from '../../api/payments/fake-provider.js';
 import { signPayload } from '../../api/payments/signature.js';
@@ -31,6 +32,8 @@ let fake: FakeProvider;
 let database: Database;
 let t: TestApp;
 let server: Server;
+/** What the app logged at warn and above. */
+const logged: string[] = [];
 
 beforeAll(async () => {
   dataDir = mkdtempSync(path.join(tmpdir(), 'tw-billing-'));
@@ -38,7 +41,8 @@ beforeAll(async () => {
   const config = loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', CONSOLE_DIR: '/nonexistent', ...QUIET_METER });
   database = await createTestDatabase();
   const secrets = ephemeralSecrets();
-  const app = createApp({ config, database, logger: createLogger('silent'), secrets, clock: () => new Date(), payments: { secretKey: SECRET_KEY, webhookSecret: WEBHOOK_SECRET, apiUrl: fake.url, simulated: true } });
+  const logger = pino({ level: 'warn' }, { write: (line: string) => void logged.push(line) });
+  const app = createApp({ config, database, logger, secrets, clock: () => new Date(), payments: { secretKey: SECRET_KEY, webhookSecret: WEBHOOK_SECRET, apiUrl: fake.url, simulated: true } });
   t = { app, database, config, secrets, close: () => database.close() };
   fake.setPrices(await providerPrices(database.db));
   server = createServer(app);
@@ -60,7 +64,7 @@ async function shop() {
   const admin = await createMember(t.app, org.id, 'admin');
   const viewer = await createMember(t.app, org.id, 'viewer');
   const { token } = await createKey(t, org.id);
-  return { org, admin: (await signIn(t.app, admin.email)).accessToken, viewer: (await signIn(t.app, viewer.email)).accessToken, key: token };
+  return { org, adminEmail: admin.email, admin: (await signIn(t.app, admin.email)).accessToken, viewer: (await signIn(t.app, viewer.email)).accessToken, key: token };
 }
 
 const planOf = async (id: string) => (await database.db.select({ planId: organizations.planId }).from(organizations).where(eq(organizations.id, id)))[0].planId;
@@ -150,6 +154,24 @@ describe('billing', () => {
     expect(await database.db.select().from(billingEvents).where(eq(billingEvents.eventId, 'evt_stale_update_1'))).toHaveLength(1);
   });
 
+  it('a failed renewal e-mails the admins and shows past_due, keeping the paid plan while the provider retries', async () => {
+    const s = await shop();
+    const checkout = await request(t.app).post('/v1/billing/checkout').set(bearer(s.admin)).send({ planId: 'shop' });
+    await pay(checkout.body.url);
+    await fake.drained();
+    const [account] = await database.db.select().from(billingAccounts).where(eq(billingAccounts.organizationId, s.org.id));
+    const failed = await fetch(`${fake.url}/simulation/subscriptions/${account.subscriptionId}/fail-renewal`, { method: 'POST' });
+    expect(failed.status).toBe(200);
+    await fake.drained();
+    const mail = await database.db.select().from(outboxMessages).where(eq(outboxMessages.to, s.adminEmail));
+    expect(mail.map((m) => m.subject)).toEqual(['Treadwise: a payment for your plan failed']);
+    expect(mail[0].text).toContain('29.00 EUR');
+    const overview = await request(t.app).get('/v1/billing').set(bearer(s.admin));
+    expect(overview.body).toMatchObject({ plan: { id: 'shop' }, state: 'past_due', subscription: { status: 'past_due' } });
+    const invoices = await request(t.app).get('/v1/billing/invoices').set(bearer(s.admin));
+    expect(invoices.body.items.map((i: { status: string }) => i.status)).toEqual(['open', 'paid']);
+  });
+
   it('refuses a forged signature with 400 and records nothing', async () => {
     const forged = await post({ id: 'evt_forged_1', object: 'event', type: 'checkout.session.completed', data: { object: {} } }, 'whsec_someoneelse01');
     expect(forged.status).toBe(400);
@@ -158,6 +180,9 @@ describe('billing', () => {
     const unsigned = await request(t.app).post('/v1/billing/webhook').set('content-type', 'application/json').send('{"id":"evt_unsigned"}');
     expect(unsigned.status).toBe(400);
     expect(await database.db.select().from(billingEvents).where(eq(billingEvents.eventId, 'evt_forged_1'))).toHaveLength(0);
+    // Logged, without the payload.
+    expect(logged.some((l) => l.includes('bad signature refused'))).toBe(true);
+    expect(logged.some((l) => l.includes('evt_forged_1') || l.includes('evt_unsigned'))).toBe(false);
   });
 
   it('lets only admins pay, change or cancel; keys reach no billing route; the free plan needs no checkout', async () => {
