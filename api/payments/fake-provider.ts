@@ -226,7 +226,9 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     const all = Object.values(state.invoices)
       .filter((i) => !customer || i.customer === customer)
       .sort((a, b) => b.created - a.created || b.id.localeCompare(a.id));
-    res.json({ object: 'list', url: '/v1/invoices', has_more: all.length > limit, data: all.slice(0, limit) });
+    // The page address follows this start's port (the simulation listens on a free one each time).
+    const data = all.slice(0, limit).map((i) => ({ ...i, hosted_invoice_url: `${baseUrl}/invoices/${i.id}` }));
+    res.json({ object: 'list', url: '/v1/invoices', has_more: all.length > limit, data });
   });
   api.use((_req, res) => void refuse(res, 404, 'This call is not simulated.'));
   app.use('/v1', api);
@@ -316,6 +318,20 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     save();
     if (session.cancel_url) return void res.redirect(303, session.cancel_url);
     res.redirect(303, `/checkout/${session.id}`);
+  });
+
+  app.get('/invoices/:id', (req, res) => {
+    const invoice = state.invoices[String(req.params.id)];
+    if (!invoice) return void page(res, 'Invoice not found', '<p>This invoice does not exist.</p>', 404);
+    const customer = state.customers[invoice.customer];
+    const day = (s: number) => new Date(s * 1000).toISOString().slice(0, 10);
+    page(
+      res,
+      `Invoice ${invoice.number}`,
+      `<p>To: ${escape(customer?.name ?? customer?.email ?? invoice.customer)}</p>` +
+        `<p>Period: ${day(invoice.period_start)} to ${day(invoice.period_end)}</p>` +
+        `<p>Amount: ${(invoice.amount_due / 100).toFixed(2)} ${escape(invoice.currency.toUpperCase())}, status: ${escape(invoice.status)}</p>`,
+    );
   });
 
   // A renewal that fails, on demand: there is no calendar in the simulation.

@@ -132,6 +132,9 @@ describe('the local payment simulation, driven through the official SDK', () => 
     expect(sub.items.data[0].price.id).toBe('price_test_shop');
     const invoices = await sdk.invoices.list({ customer: customer.id });
     expect(invoices.data.map((i) => [i.status, i.amount_paid, i.currency])).toEqual([['paid', 2900, 'eur']]);
+    const invoicePage = await (await fetch(invoices.data[0].hosted_invoice_url!)).text();
+    expect(invoicePage).toContain('Simulated payment provider');
+    expect(invoicePage).toContain('29.00 EUR, status: paid');
     // A session is paid once.
     expect((await fetch(`${fake.url}/checkout/${session.id}/pay`, { method: 'POST', redirect: 'manual' })).status).toBe(409);
   });
