@@ -26,7 +26,7 @@ export interface RunningServer {
   seed: SeedResult;
   /** The Harbor Lane demo shop (a second origin), when the demo is seeded and the shop is present. */
   demoShop?: DemoShop;
-  /** Where payments go; `simulated` with the local fake's address when no provider is configured. */
+  /** Where payments go; `simulated` with the local fake's address when no provider is configured (off in cluster workers without one). */
   payments: { simulated: boolean; url?: string };
   /**
    * Stops accepting connections, lets in-flight answers reach their clients (up to
@@ -72,8 +72,8 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     seed = await seedDemo(database, config.seedDemo, secrets.pepper, { extraEmbedOrigins: { [DEMO_SHOP_ORGANIZATION]: demoShop?.origins ?? [] } });
     // Before the app: the SDK is built with the provider's (or the simulation's) address.
     payments = await startPayments(config, logger);
-    payments.fake?.setPrices(await providerPrices(database.db));
-    app = createApp({ config, database, logger, secrets, clock: () => new Date(), payments: payments.connection });
+    payments?.fake?.setPrices(await providerPrices(database.db));
+    app = createApp({ config, database, logger, secrets, clock: () => new Date(), payments: payments?.connection });
     // Under WEB_CONCURRENCY the primary gathers every worker's metrics from these registries.
     if (cluster.isWorker) shareWorkerRegistries(app.locals.services.metrics.registries());
     server = createHttpServer(app, config);
@@ -99,7 +99,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
   if (demoShop) configureDemoShop(demoShop, config, seed, url);
   // The simulation delivers its events to our own webhook route, as the provider would.
   const loopback = config.host === '0.0.0.0' || config.host === '::' ? '127.0.0.1' : config.host.includes(':') ? `[${config.host}]` : config.host;
-  payments.fake?.setWebhookUrl(`http://${loopback}:${port}/v1/billing/webhook`);
+  payments?.fake?.setWebhookUrl(`http://${loopback}:${port}/v1/billing/webhook`);
 
   let closing: Promise<void> | undefined;
   const close = () =>
@@ -117,7 +117,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
       await lock?.release();
     })());
 
-  return { url, database, seed, demoShop, payments: { simulated: payments.connection.simulated, url: payments.fake?.url }, close };
+  return { url, database, seed, demoShop, payments: { simulated: payments?.connection.simulated ?? false, url: payments?.fake?.url }, close };
 }
 
 /** The demo shop is an extra: a busy port must not keep the API from starting. */
