@@ -20,6 +20,7 @@ import { routeModules } from './routes/index.js';
 import { BATCH_JSON_BODY_LIMIT, ESTIMATE_BATCH_PATH } from './routes/estimates-batch.js';
 import { enabledModules } from './routes/route-module.js';
 import { BATCH_JOB_JSON_LIMIT, BATCHES_PATH } from './routes/batches.js';
+import { BILLING_WEBHOOK_LIMIT, BILLING_WEBHOOK_PATH } from './routes/billing.js';
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
 export function createApp(deps: AppDeps): Express & { locals: { services: Services } } {
@@ -58,6 +59,8 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   // A batch job posted as JSON may carry more stairs still (files are uploaded as multipart).
   const jobJson = express.json({ limit: BATCH_JOB_JSON_LIMIT, strict: true });
   app.use(BATCHES_PATH, (req, res, next) => (req.method === 'POST' && req.path === '/' ? jobJson(req, res, next) : next()));
+  // The provider's webhook is verified over the exact bytes it signed: kept raw (the JSON parser then skips it).
+  app.use(BILLING_WEBHOOK_PATH, express.raw({ type: 'application/json', limit: BILLING_WEBHOOK_LIMIT }));
   app.use(express.json({ limit: deps.config.jsonBodyLimit, strict: true }));
 
   // A module this configuration disables does not exist: 404 before any credential check.

@@ -41,6 +41,9 @@ const configSchema = z
     WEB_CONCURRENCY: z.coerce.number({ error: 'must be a whole number of worker processes' }).int().min(1).max(64).default(1),
     USAGE_FLUSH_AFTER_CALLS: z.coerce.number({ error: 'must be a whole number of calls' }).int().min(1).max(1_000_000).default(100),
     BATCH_RETENTION_DAYS: z.coerce.number({ error: 'must be a whole number of days' }).int().min(1).max(366).default(7),
+    PAYMENTS_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_[A-Za-z0-9_]{8,}$/, 'must be a secret or restricted key (sk_… or rk_…)').optional(),
+    PAYMENTS_WEBHOOK_SECRET: z.string().regex(/^whsec_[A-Za-z0-9_]{8,}$/, 'must be a webhook signing secret (whsec_…)').optional(),
+    PAYMENTS_API_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).optional(),
   })
   .refine((env) => env.HTTP_REQUEST_TIMEOUT_MS >= env.HTTP_HEADERS_TIMEOUT_MS, {
     path: ['HTTP_REQUEST_TIMEOUT_MS'],
@@ -49,6 +52,10 @@ const configSchema = z
   .refine((env) => env.WEB_CONCURRENCY === 1 || env.DATABASE_URL === undefined || env.REDIS_URL !== undefined, {
     path: ['WEB_CONCURRENCY'],
     message: 'more than one worker needs REDIS_URL, so that every worker counts against the same rate limits',
+  })
+  .refine((env) => (env.PAYMENTS_SECRET_KEY === undefined) === (env.PAYMENTS_WEBHOOK_SECRET === undefined), {
+    path: ['PAYMENTS_WEBHOOK_SECRET'],
+    message: 'set PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET together (neither: payments are simulated locally)',
   })
   .transform((env) => ({
     nodeEnv: env.NODE_ENV,
@@ -92,6 +99,8 @@ const configSchema = z
     webConcurrency: env.WEB_CONCURRENCY,
     // Batch jobs and their results are deleted this many days after they finish (or were created, if they never do).
     batchRetentionDays: env.BATCH_RETENTION_DAYS,
+    // The payment provider; absent, the server starts a local simulation of it (api/payments/fake-provider.ts).
+    payments: env.PAYMENTS_SECRET_KEY && env.PAYMENTS_WEBHOOK_SECRET ? { secretKey: env.PAYMENTS_SECRET_KEY, webhookSecret: env.PAYMENTS_WEBHOOK_SECRET, apiUrl: env.PAYMENTS_API_URL } : undefined,
   }));
 
 export type Config = z.output<typeof configSchema>;

@@ -58,6 +58,7 @@ async function main(): Promise<void> {
     `  Console:  ${server.url}/`,
     `  API docs: ${server.url}/docs   (OpenAPI: ${server.url}/openapi.json)`,
   ];
+  if (server.payments.simulated) lines.push(`  Payments: SIMULATED by a local stand-in at ${server.payments.url}/ (no real payment provider; set PAYMENTS_SECRET_KEY for one)`);
   if (server.demoShop) lines.push(`  Demo shop: ${server.demoShop.url}/   (Harbor Lane's product page with the estimator)`);
   if (server.seed.seeded || config.seedDemo) {
     lines.push(`  Demo sign-in: ${demoOperator.email} (operator), ${demoMembers.map((m) => `${m.email} (${m.role})`).join(', ')}`);

@@ -17,6 +17,8 @@ import { readEmbedBundle } from './embed/bundle.js';
 import { gracefulCloser } from './graceful-close.js';
 import { createHttpServer } from './http-server.js';
 import { shareWorkerRegistries } from './metrics/cluster-metrics.js';
+import { startPayments, type Payments } from './payments/start.js';
+import { providerPrices } from './services/plans.js';
 
 export interface RunningServer {
   url: string;
@@ -24,6 +26,8 @@ export interface RunningServer {
   seed: SeedResult;
   /** The Harbor Lane demo shop (a second origin), when the demo is seeded and the shop is present. */
   demoShop?: DemoShop;
+  /** Where payments go; `simulated` with the local fake's address when no provider is configured (off in cluster workers without one). */
+  payments: { simulated: boolean; url?: string };
   /**
    * Stops accepting connections, lets in-flight answers reach their clients (up to
    * SHUTDOWN_DRAIN_MS), writes the buffered usage, closes the database and releases DATA_DIR.
@@ -59,13 +63,17 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
   let seed: SeedResult;
   let server: Server;
   let demoShop: DemoShop | undefined;
+  let payments: Payments | undefined;
   try {
     await migrateDatabase(database);
     // The shop listens first: its origins go into the demo page key's allow-list at seeding.
     // One process only: cluster workers would each serve it with a different knowledge of the key.
     demoShop = config.seedDemo && !cluster.isWorker ? await startDemoShopOrWarn(config, logger) : undefined;
     seed = await seedDemo(database, config.seedDemo, secrets.pepper, { extraEmbedOrigins: { [DEMO_SHOP_ORGANIZATION]: demoShop?.origins ?? [] } });
-    app = createApp({ config, database, logger, secrets, clock: () => new Date() });
+    // Before the app: the SDK is built with the provider's (or the simulation's) address.
+    payments = await startPayments(config, logger);
+    payments?.fake?.setPrices(await providerPrices(database.db));
+    app = createApp({ config, database, logger, secrets, clock: () => new Date(), payments: payments?.connection });
     // Under WEB_CONCURRENCY the primary gathers every worker's metrics from these registries.
     if (cluster.isWorker) shareWorkerRegistries(app.locals.services.metrics.registries());
     server = createHttpServer(app, config);
@@ -79,6 +87,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     // Jobs left queued or running by an earlier process (a crash, a restart) resume here.
     await app.locals.services.batchJobs.start();
   } catch (err) {
+    await payments?.fake?.close();
     await demoShop?.close();
     await database.close(); // before the lock goes, so the next owner finds the files closed
     throw err;
@@ -88,12 +97,16 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
   const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host;
   const url = `http://${host}:${port}`;
   if (demoShop) configureDemoShop(demoShop, config, seed, url);
+  // The simulation delivers its events to our own webhook route, as the provider would.
+  const loopback = config.host === '0.0.0.0' || config.host === '::' ? '127.0.0.1' : config.host.includes(':') ? `[${config.host}]` : config.host;
+  payments?.fake?.setWebhookUrl(`http://${loopback}:${port}/v1/billing/webhook`);
 
   let closing: Promise<void> | undefined;
   const close = () =>
     (closing ??= (async () => {
       // Answers under way reach their clients (up to SHUTDOWN_DRAIN_MS), then the sockets close.
       await demoShop?.close();
+      await payments?.fake?.close();
       await closer.close(config.shutdownDrainMs);
       // In-flight requests are done: write the buffered usage and last-used times, then close.
       await app.locals.services.passwordResets.settled(); // reset mails started before the stop
@@ -104,7 +117,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
       await lock?.release();
     })());
 
-  return { url, database, seed, demoShop, close };
+  return { url, database, seed, demoShop, payments: { simulated: payments?.connection.simulated ?? false, url: payments?.fake?.url }, close };
 }
 
 /** The demo shop is an extra: a busy port must not keep the API from starting. */

@@ -1211,6 +1211,106 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/billing": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Plan, billing state, usage and the plans on offer
+         * @description Any member of the organisation acted in. The plans on offer carry their monthly price; the internal plan is never listed.
+         */
+        get: operations["getBilling"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/checkout": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Upgrade or change the paid plan
+         * @description Organisation admins. Without a subscription: creates the provider customer (once) and a hosted checkout in subscription mode, and answers its URL; the plan changes when the provider confirms payment (webhook). With a subscription in place: moves that subscription to the plan (never a second one).
+         */
+        post: operations["startCheckout"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/cancel": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Cancel the subscription at the end of the period
+         * @description Organisation admins. The paid plan stays until the period ends, then the organisation returns to the free plan.
+         */
+        post: operations["cancelSubscription"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/invoices": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The organisation's invoices, newest first
+         * @description Organisation admins. Read from the payment provider.
+         */
+        get: operations["listInvoices"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/webhook": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * The payment provider's signed events
+         * @description No credentials: the body is verified against the Stripe-Signature header (timestamp tolerance 5 minutes). Each event is handled once; the subscription is read afresh, so events may arrive in any order.
+         */
+        post: operations["receivePaymentEvent"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/metrics": {
         parameters: {
             query?: never;
@@ -8984,6 +9084,102 @@ export interface components {
             /** @description Size gzipped, bytes (the budget is 120 kB). */
             gzipBytes: number;
         };
+        BillingOverview: {
+            plan: {
+                id: string;
+                name: string;
+            };
+            /**
+             * @description free: no subscription; active: paid and renewing; past_due: a payment failed and is retried; ending: cancelled, ends at currentPeriodEnd; internal: a plan set by the operator.
+             * @enum {string}
+             */
+            state: "free" | "active" | "past_due" | "ending" | "internal";
+            subscription: {
+                /** @example active */
+                status: string;
+                /** Format: date-time */
+                currentPeriodEnd: string | null;
+                cancelAtPeriodEnd: boolean;
+            } | null;
+            usage: {
+                /** @example 2026-12 */
+                month: string;
+                used: number;
+                monthlyQuota: number;
+                remaining: number;
+            };
+            /** @description The plans on offer, cheapest first. */
+            plans: components["schemas"]["PlanOffer"][];
+            /** @description True when payments go to the local simulation, not a real provider. */
+            simulated: boolean;
+        };
+        PlanOffer: {
+            /** @example partner */
+            id: string;
+            /** @example Partner */
+            name: string;
+            /**
+             * @description Calls (work units) a month.
+             * @example 500000
+             */
+            monthlyQuota: number;
+            /**
+             * @description Requests a minute per key.
+             * @example 3000
+             */
+            ratePerMinute: number;
+            /** @example 5 */
+            maxApiKeys: number;
+            /** @description Null: the plan needs no payment. */
+            price: {
+                /**
+                 * @description Price a month in minor units (cents).
+                 * @example 2900
+                 */
+                monthlyMinor: number;
+                /**
+                 * @description ISO 4217 code, lower case.
+                 * @example eur
+                 */
+                currency: string;
+            } | null;
+        };
+        CheckoutResult: {
+            /**
+             * @description checkout: open `url` to pay; changed: the subscription in place moved to the plan.
+             * @enum {string}
+             */
+            outcome: "checkout" | "changed";
+            /** Format: uri */
+            url: string | null;
+        };
+        CheckoutRequest: {
+            /** @example partner */
+            planId: string;
+        };
+        InvoiceList: {
+            items: components["schemas"]["Invoice"][];
+        };
+        Invoice: {
+            id: string;
+            number: string | null;
+            status: string | null;
+            amountDue: number;
+            amountPaid: number;
+            currency: string;
+            /** Format: date-time */
+            createdAt: string;
+            url: string | null;
+        };
+        WebhookReceipt: {
+            /** @enum {boolean} */
+            received: true;
+            duplicate: boolean;
+        };
+        PaymentEvent: {
+            id: string;
+            type: string;
+        };
     };
     responses: never;
     parameters: never;
@@ -13252,6 +13448,287 @@ export interface operations {
             };
             /** @description The script is not built on this server, or (versioned) not of that version. */
             404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getBilling: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The billing overview. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingOverview"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not a member of an organisation. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No payment provider is configured. */
+            503: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    startCheckout: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: {
+            content: {
+                "application/json": components["schemas"]["CheckoutRequest"];
+            };
+        };
+        responses: {
+            /** @description The checkout URL, or the change made in place. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["CheckoutResult"];
+                };
+            };
+            /** @description Invalid body. */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not an admin. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such plan on offer. */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The plan needs no payment. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No payment provider is configured. */
+            503: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    cancelSubscription: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Cancelled at the period end. */
+            204: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content?: never;
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not an admin. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No subscription to cancel. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No payment provider is configured. */
+            503: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listInvoices: {
+        parameters: {
+            query?: {
+                limit?: number;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Invoices. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["InvoiceList"];
+                };
+            };
+            /** @description Invalid limit. */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not an admin. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No payment provider is configured. */
+            503: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    receivePaymentEvent: {
+        parameters: {
+            query?: never;
+            header: {
+                "stripe-signature": string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: {
+            content: {
+                "application/json": components["schemas"]["PaymentEvent"];
+            };
+        };
+        responses: {
+            /** @description Received (or a duplicate, acknowledged). */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["WebhookReceipt"];
+                };
+            };
+            /** @description The signature does not verify. */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No payment provider is configured. */
+            503: {
                 headers: {
                     [name: string]: unknown;
                 };

@@ -103,6 +103,14 @@ export const POLICIES: Record<string, Policy> = {
 
   'GET /v1/audit-events': { role: 'admin' },
 
+  // Billing: members see the plan and its price; admins pay, change, cancel and read invoices.
+  // Keys have no scope for any of it. The provider's webhook carries a signature, not credentials.
+  'GET /v1/billing': { role: 'viewer' },
+  'POST /v1/billing/checkout': { role: 'admin' },
+  'POST /v1/billing/cancel': { role: 'admin' },
+  'GET /v1/billing/invoices': { role: 'admin' },
+  'POST /v1/billing/webhook': { public: true },
+
   // The stored catalog: viewers read, admins change it. Embed keys (with catalog:read) may list
   // items, and then see active ones only: the embeddable estimator shows what the shop sells.
   'GET /v1/catalog': catalogRead,

@@ -38,6 +38,14 @@ export const plans = pgTable('plans', {
    * costs 1 plus the treads, landings, reel pieces and tenths of pixels it sizes (api/middleware/cost-budget.ts).
    */
   costPerMinute: integer('cost_per_minute').notNull().default(5000),
+  /** Monthly price in minor units (cents) of `currency`; null: no payment (free, internal plans). */
+  monthlyPriceMinor: integer('monthly_price_minor'),
+  /** ISO 4217, lower-case as the payment provider writes it; set with the price. */
+  currency: text('currency'),
+  /** The payment provider's price this plan is sold as; checkouts and webhooks map through it. */
+  providerPriceId: text('provider_price_id').unique(),
+  /** Shown to organisations on the billing page; the internal plan never is. */
+  offered: boolean('offered').notNull().default(false),
   createdAt: createdAt(),
 });
 
@@ -436,3 +444,28 @@ export const batchJobRows = pgTable(
     index('batch_job_rows_open').on(t.jobId, t.idx).where(sql`answer is null`),
   ],
 );
+
+/**
+ * Each organisation's link to the payment provider: its customer (made once, at the first
+ * checkout) and its subscription as the provider last described it.
+ */
+export const billingAccounts = pgTable('billing_accounts', {
+  organizationId: uuid('organization_id')
+    .primaryKey()
+    .references(() => organizations.id, { onDelete: 'cascade' }),
+  customerId: text('customer_id').notNull().unique(),
+  subscriptionId: text('subscription_id').unique(),
+  /** The provider's subscription status (active, past_due, canceled, …). */
+  status: text('status'),
+  providerPriceId: text('provider_price_id'),
+  currentPeriodEnd: timestamp('current_period_end', { withTimezone: true }),
+  cancelAtPeriodEnd: boolean('cancel_at_period_end').notNull().default(false),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Provider events already handled: a redelivered event id is acknowledged and skipped. */
+export const billingEvents = pgTable('billing_events', {
+  eventId: text('event_id').primaryKey(),
+  type: text('type').notNull(),
+  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+});

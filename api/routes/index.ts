@@ -16,7 +16,8 @@ import { storedEstimateRoutes } from './stored-estimates.js';
 import { outboxRoutes } from './outbox.js';
 import { usageRoutes } from './usage.js';
 import { embedScriptRoutes } from './embed-script.js';
+import { billingRoutes } from './billing.js';
 import type { RouteModule } from './route-module.js';
 
 /** Every resource the API mounts, in one list: the app and the OpenAPI document both use it. */
-export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, estimateBatchRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes, projectRoutes, storedEstimateRoutes, batchTemplateRoutes, batchRoutes, embedScriptRoutes];
+export const routeModules: readonly RouteModule[] = [healthRoutes, calculationRoutes, estimateRoutes, estimateOptionRoutes, estimateBatchRoutes, keyRoutes, authRoutes, memberRoutes, organizationRoutes, outboxRoutes, usageRoutes, auditRoutes, catalogRoutes, projectRoutes, storedEstimateRoutes, batchTemplateRoutes, batchRoutes, embedScriptRoutes, billingRoutes];

@@ -24,6 +24,9 @@ import { createRateLimitStores } from './rate-limit-stores.js';
 import { createUsageMeter } from './usage-meter.js';
 import { createMetrics } from '../metrics/metrics.js';
 import { createBatchJobService } from './batch-jobs/runner.js';
+import { createBillingService } from './billing.js';
+import { adminEmails } from './org-admins.js';
+import { createPaymentsClient } from '../payments/client.js';
 
 /** Every service the routes use, built once per app from its dependencies. */
 export function createServices(deps: AppDeps) {
@@ -65,6 +68,10 @@ export function createServices(deps: AppDeps) {
     retentionDays: deps.config.batchRetentionDays,
   });
   metrics.readBatchesFrom(() => batchJobs.progress());
+  // Billing exists only with a payment provider (or the local simulation server.ts starts).
+  const billing = deps.payments
+    ? createBillingService({ db, sdk: createPaymentsClient(deps.payments), connection: deps.payments, plans, mailer, logger: deps.logger, clock, publicUrl: deps.config.publicUrl, adminEmails: (id) => adminEmails(db, id) })
+    : undefined;
   return {
     apiKeys,
     keyCache,
@@ -90,6 +97,7 @@ export function createServices(deps: AppDeps) {
     usageMeter,
     metrics,
     batchJobs,
+    billing,
     rateLimitStores: createRateLimitStores(deps.config.redisUrl, deps.logger),
   };
 }

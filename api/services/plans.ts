@@ -1,4 +1,4 @@
-import { eq } from 'drizzle-orm';
+import { asc, eq, isNotNull } from 'drizzle-orm';
 import type { Db } from '../db/client.js';
 import { organizations, plans } from '../db/schema.js';
 
@@ -55,6 +55,37 @@ export function createPlanService({ db, clock, ttlMs = 60_000 }: { db: Db; clock
       cache.delete(organizationId);
     },
   };
+}
+
+/** A plan as the billing page offers it; `price` is null for a plan that needs no payment. */
+export interface PlanOffer {
+  id: string;
+  name: string;
+  monthlyQuota: number;
+  ratePerMinute: number;
+  maxApiKeys: number;
+  price: { monthlyMinor: number; currency: string } | null;
+  providerPriceId: string | null;
+}
+
+/** The plans organisations may choose (never the internal one), cheapest first. */
+export async function offeredPlans(db: Db): Promise<PlanOffer[]> {
+  const rows = await db.select().from(plans).where(eq(plans.offered, true)).orderBy(asc(plans.monthlyQuota));
+  return rows.map((r) => ({
+    id: r.id,
+    name: r.name,
+    monthlyQuota: r.monthlyQuota,
+    ratePerMinute: r.ratePerMinute,
+    maxApiKeys: r.maxApiKeys,
+    price: r.monthlyPriceMinor !== null && r.currency !== null ? { monthlyMinor: r.monthlyPriceMinor, currency: r.currency } : null,
+    providerPriceId: r.providerPriceId,
+  }));
+}
+
+/** Every plan sold through the provider, for the local simulation's price list. */
+export async function providerPrices(db: Db): Promise<{ id: string; unitAmount: number; currency: string }[]> {
+  const rows = await db.select().from(plans).where(isNotNull(plans.providerPriceId));
+  return rows.flatMap((r) => (r.providerPriceId && r.monthlyPriceMinor !== null && r.currency ? [{ id: r.providerPriceId, unitAmount: r.monthlyPriceMinor, currency: r.currency }] : []));
 }
 
 export type PlanService = ReturnType<typeof createPlanService>;

@@ -151,6 +151,10 @@ describe('the OpenAPI document', () => {
       Object.entries(item).flatMap(([method, op]) => Object.values(op.requestBody?.content ?? {}).map((c) => ({ where: `${method.toUpperCase()} ${p}`, schema: c.schema }))),
     );
     expect(bodies.length).toBeGreaterThan(15);
-    expect(bodies.flatMap((b) => openObjects(b.schema, b.where))).toEqual([]);
+    // The one planned exception (see api/middleware/validate.ts): the payment provider's events come as
+    // the provider sends them, verified by signature, not by our schema.
+    const ours = bodies.filter((b) => b.where !== 'POST /v1/billing/webhook');
+    expect(ours.length).toBe(bodies.length - 1);
+    expect(ours.flatMap((b) => openObjects(b.schema, b.where))).toEqual([]);
   });
 });

@@ -1,0 +1,71 @@
+import { z } from 'zod';
+
+const price = z
+  .strictObject({
+    monthlyMinor: z.int().min(0).max(100_000_000).meta({ description: 'Price a month in minor units (cents).', example: 2900 }),
+    currency: z.string().regex(/^[a-z]{3}$/).meta({ description: 'ISO 4217 code, lower case.', example: 'eur' }),
+  })
+  .meta({ id: 'PlanPrice' });
+
+export const planOfferSchema = z
+  .strictObject({
+    id: z.string().min(1).max(64).meta({ example: 'partner' }),
+    name: z.string().min(1).max(200).meta({ example: 'Partner' }),
+    monthlyQuota: z.int().min(0).meta({ description: 'Calls (work units) a month.', example: 500000 }),
+    ratePerMinute: z.int().min(0).meta({ description: 'Requests a minute per key.', example: 3000 }),
+    maxApiKeys: z.int().min(0).meta({ example: 5 }),
+    price: price.nullable().meta({ description: 'Null: the plan needs no payment.' }),
+  })
+  .meta({ id: 'PlanOffer' });
+
+export const billingOverviewSchema = z
+  .strictObject({
+    plan: z.strictObject({ id: z.string().min(1).max(64), name: z.string().min(1).max(200) }),
+    state: z.enum(['free', 'active', 'past_due', 'ending', 'internal']).meta({
+      description: 'free: no subscription; active: paid and renewing; past_due: a payment failed and is retried; ending: cancelled, ends at currentPeriodEnd; internal: a plan set by the operator.',
+    }),
+    subscription: z
+      .strictObject({
+        status: z.string().min(1).max(40).meta({ example: 'active' }),
+        currentPeriodEnd: z.iso.datetime().nullable(),
+        cancelAtPeriodEnd: z.boolean(),
+      })
+      .nullable(),
+    usage: z.strictObject({
+      month: z.string().regex(/^\d{4}-\d{2}$/).meta({ example: '2026-12' }),
+      used: z.int().min(0),
+      monthlyQuota: z.int().min(0),
+      remaining: z.int().min(0),
+    }),
+    plans: z.array(planOfferSchema).max(50).meta({ description: 'The plans on offer, cheapest first.' }),
+    simulated: z.boolean().meta({ description: 'True when payments go to the local simulation, not a real provider.' }),
+  })
+  .meta({ id: 'BillingOverview' });
+
+export const checkoutRequestSchema = z
+  .strictObject({ planId: z.string().min(1).max(64).regex(/^[a-z0-9-]+$/).meta({ example: 'partner' }) })
+  .meta({ id: 'CheckoutRequest' });
+
+export const checkoutResultSchema = z
+  .strictObject({
+    outcome: z.enum(['checkout', 'changed']).meta({ description: 'checkout: open `url` to pay; changed: the subscription in place moved to the plan.' }),
+    url: z.url().max(2000).nullable(),
+  })
+  .meta({ id: 'CheckoutResult' });
+
+export const invoiceSchema = z
+  .strictObject({
+    id: z.string().min(1).max(255),
+    number: z.string().max(255).nullable(),
+    status: z.string().max(40).nullable(),
+    amountDue: z.int().min(0),
+    amountPaid: z.int().min(0),
+    currency: z.string().regex(/^[a-z]{3}$/),
+    createdAt: z.iso.datetime(),
+    url: z.string().max(2000).nullable(),
+  })
+  .meta({ id: 'Invoice' });
+
+export const invoiceListSchema = z.strictObject({ items: z.array(invoiceSchema).max(100) }).meta({ id: 'InvoiceList' });
+
+export const webhookReceiptSchema = z.strictObject({ received: z.literal(true), duplicate: z.boolean() }).meta({ id: 'WebhookReceipt' });
