@@ -15,6 +15,7 @@ import { CLOCK } from '../core/clock.js';
 import { problemMessage } from '../core/problem-details.js';
 import { createRequest, futureDate, localDay, offeredScopes, originsFitKind } from './key-form.js';
 import { KeysApi } from './keys-api.js';
+import { randomIdempotencyKey } from '../core/idempotency.js';
 
 export interface KeyCreateData {
   role: Role | null;
@@ -100,7 +101,7 @@ export class KeyCreateDialog {
     // Retrying the same request after a lost answer reuses its key, so the API replays the first
     // creation instead of making a second key. The API stores 4xx answers too, so after one (or for
     // a changed form) a fresh key lets the corrected request through.
-    const idempotencyKey = this.unanswered?.body === body ? this.unanswered.idempotencyKey : randomKey();
+    const idempotencyKey = this.unanswered?.body === body ? this.unanswered.idempotencyKey : randomIdempotencyKey();
     this.unanswered = { body, idempotencyKey };
     try {
       const created = await firstValueFrom(this.keysApi.create(request, idempotencyKey));
@@ -112,9 +113,4 @@ export class KeyCreateDialog {
       this.busy.set(false);
     }
   }
-}
-
-/** 128 random bits in hex. getRandomValues, unlike randomUUID, also works on a plain-HTTP address. */
-function randomKey(): string {
-  return Array.from(globalThis.crypto.getRandomValues(new Uint8Array(16)), (b) => b.toString(16).padStart(2, '0')).join('');
 }

@@ -17,7 +17,7 @@ import type { Member, Role } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { CLOCK } from '../core/clock.js';
-import { randomIdempotencyKey } from '../core/idempotency-key.js';
+import { randomIdempotencyKey } from '../core/idempotency.js';
 import { problemMessage } from '../core/problem-details.js';
 import { MemberRemoveDialog } from './member-remove-dialog.js';
 import { type PendingInvitation, pendingInvitations } from './pending-invitations.js';
