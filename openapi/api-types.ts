@@ -9107,7 +9107,14 @@ export interface components {
                 used: number;
                 monthlyQuota: number;
                 remaining: number;
+                /** @description Units used beyond the quota this month, billed as overage (0 on a plan without overage). */
+                overage: number;
             };
+            /**
+             * Format: date-time
+             * @description While a payment is past due: when the organisation falls back to the free plan unless the payment succeeds.
+             */
+            graceEndsAt: string | null;
             /** @description The plans on offer, cheapest first. */
             plans: components["schemas"]["PlanOffer"][];
             /** @description True when payments go to the local simulation, not a real provider. */
@@ -9143,6 +9150,19 @@ export interface components {
                  */
                 currency: string;
             } | null;
+            /** @description Null: calls beyond the quota are refused (429 quota_exceeded). Set: they go on and are billed with the next invoice. */
+            overage: {
+                /**
+                 * @description Price of each 1 000 units beyond the monthly quota, in minor units of the plan currency.
+                 * @example 40
+                 */
+                per1000Minor: number;
+            } | null;
+            /**
+             * @description Days a paid plan stays in force after a failed payment before the organisation falls back to free.
+             * @example 7
+             */
+            graceDays: number;
         };
         CheckoutResult: {
             /**

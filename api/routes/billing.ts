@@ -42,7 +42,9 @@ export const billingRoutes: RouteModule = {
         subscription: account?.subscriptionId
           ? { status: account.status ?? 'unknown', currentPeriodEnd: account.currentPeriodEnd?.toISOString() ?? null, cancelAtPeriodEnd: account.cancelAtPeriodEnd }
           : null,
-        usage: { month: standing.month, used: standing.used, monthlyQuota: standing.plan.monthlyQuota, remaining: standing.remaining },
+        usage: { month: standing.month, used: standing.used, monthlyQuota: standing.plan.monthlyQuota, remaining: standing.remaining, overage: Math.max(0, standing.used - standing.plan.monthlyQuota) },
+        // Filled in by the grace period work (billing accounts gain the date a payment first failed).
+        graceEndsAt: null,
         plans: offers.map(({ providerPriceId: _p, ...offer }) => offer),
         simulated: billing.simulated,
       } satisfies z.infer<typeof billingOverviewSchema>);

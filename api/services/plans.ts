@@ -65,6 +65,8 @@ export interface PlanOffer {
   ratePerMinute: number;
   maxApiKeys: number;
   price: { monthlyMinor: number; currency: string } | null;
+  overage: { per1000Minor: number } | null;
+  graceDays: number;
   providerPriceId: string | null;
 }
 
@@ -78,6 +80,9 @@ export async function offeredPlans(db: Db): Promise<PlanOffer[]> {
     ratePerMinute: r.ratePerMinute,
     maxApiKeys: r.maxApiKeys,
     price: r.monthlyPriceMinor !== null && r.currency !== null ? { monthlyMinor: r.monthlyPriceMinor, currency: r.currency } : null,
+    // Plan columns for overage and grace come with migration 0015.
+    overage: null,
+    graceDays: 0,
     providerPriceId: r.providerPriceId,
   }));
 }

@@ -15,6 +15,13 @@ export const planOfferSchema = z
     ratePerMinute: z.int().min(0).meta({ description: 'Requests a minute per key.', example: 3000 }),
     maxApiKeys: z.int().min(0).meta({ example: 5 }),
     price: price.nullable().meta({ description: 'Null: the plan needs no payment.' }),
+    overage: z
+      .strictObject({
+        per1000Minor: z.int().min(0).max(100_000_000).meta({ description: 'Price of each 1 000 units beyond the monthly quota, in minor units of the plan currency.', example: 40 }),
+      })
+      .nullable()
+      .meta({ description: 'Null: calls beyond the quota are refused (429 quota_exceeded). Set: they go on and are billed with the next invoice.' }),
+    graceDays: z.int().min(0).max(90).meta({ description: 'Days a paid plan stays in force after a failed payment before the organisation falls back to free.', example: 7 }),
   })
   .meta({ id: 'PlanOffer' });
 
@@ -36,7 +43,9 @@ export const billingOverviewSchema = z
       used: z.int().min(0),
       monthlyQuota: z.int().min(0),
       remaining: z.int().min(0),
+      overage: z.int().min(0).meta({ description: 'Units used beyond the quota this month, billed as overage (0 on a plan without overage).' }),
     }),
+    graceEndsAt: z.iso.datetime().nullable().meta({ description: 'While a payment is past due: when the organisation falls back to the free plan unless the payment succeeds.' }),
     plans: z.array(planOfferSchema).max(50).meta({ description: 'The plans on offer, cheapest first.' }),
     simulated: z.boolean().meta({ description: 'True when payments go to the local simulation, not a real provider.' }),
   })
