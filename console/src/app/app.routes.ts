@@ -64,6 +64,12 @@ export const routes: Routes = [
         loadComponent: () => import('./activity/activity-page.js').then((m) => m.ActivityPage),
       },
       {
+        path: 'billing',
+        title: 'Billing · Treadwise',
+        canActivate: [requireRole('billing:read')],
+        loadComponent: () => import('./billing/billing-page.js').then((m) => m.BillingPage),
+      },
+      {
         path: 'operator/organizations',
         title: 'Organisations & plans · Treadwise',
         canActivate: [requireOperator],

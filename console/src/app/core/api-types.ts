@@ -79,3 +79,10 @@ export type Batch = Schemas['Batch'];
 export type BatchPage = Schemas['BatchPage'];
 export type BatchStatus = Batch['status'];
 export type EmbedManifest = Schemas['EmbedManifest'];
+
+export type BillingOverview = Schemas['BillingOverview'];
+export type BillingState = BillingOverview['state'];
+export type PlanOffer = Schemas['PlanOffer'];
+export type CheckoutResult = Schemas['CheckoutResult'];
+export type Invoice = Schemas['Invoice'];
+export type InvoiceList = Schemas['InvoiceList'];

@@ -12,7 +12,9 @@ export type Capability =
   | 'projects:read'
   | 'projects:write'
   | 'batches:read'
-  | 'batches:write';
+  | 'batches:write'
+  | 'billing:read'
+  | 'billing:manage';
 
 const LEAST_ROLE: Record<Capability, Role> = {
   'keys:manage': 'admin',
@@ -26,6 +28,8 @@ const LEAST_ROLE: Record<Capability, Role> = {
   'projects:write': 'estimator',
   'batches:read': 'viewer',
   'batches:write': 'estimator',
+  'billing:read': 'viewer',
+  'billing:manage': 'admin',
 };
 
 const RANK: Record<Role, number> = { admin: 3, estimator: 2, viewer: 1 };

@@ -40,6 +40,8 @@ const CONSOLE_ICONS: Readonly<Record<string, string>> = {
   mail: `<svg viewBox="0 0 24 24"><rect ${stroke} x="3" y="5.5" width="18" height="13" rx="2"/><path ${stroke} d="m3.5 7 8.5 6.5L20.5 7"/></svg>`,
   // Sheets stacked like treads: many stairs sized in one job.
   batch: `<svg viewBox="0 0 24 24"><path ${stroke} d="M7 4.5h12v11M4.5 7.5h12v12h-12z"/><path ${stroke} d="M7.5 12h6M7.5 15.5h4"/></svg>`,
+  // A bill with a corner folded over and two lines of figures.
+  billing: `<svg viewBox="0 0 24 24"><path ${stroke} d="M6 3.5h8.5l4 4v13H6z"/><path ${stroke} d="M14.5 3.5v4h4M9 12h7M9 16h4.5"/></svg>`,
   open: `<svg viewBox="0 0 24 24"><path ${stroke} d="M14 4.5h5.5V10M19 5l-8 8M17 14v4.5a1.5 1.5 0 0 1-1.5 1.5h-10A1.5 1.5 0 0 1 4 18.5v-10A1.5 1.5 0 0 1 5.5 7H10"/></svg>`,
 };
 

@@ -22,6 +22,7 @@ export const DESTINATIONS: readonly Destination[] = [
   { path: '/bench', label: 'Bench', icon: 'tw:bench', needs: 'sizing:run' },
   { path: '/team', label: 'Team', icon: 'tw:team', needs: 'members:manage' },
   { path: '/activity', label: 'Activity', icon: 'tw:activity', needs: 'audit:read' },
+  { path: '/billing', label: 'Billing', icon: 'tw:billing', needs: 'billing:read' },
   { path: '/operator/organizations', label: 'Organisations', icon: 'tw:organizations', operatorOnly: true },
   { path: '/operator/outbox', label: 'Mail outbox', icon: 'tw:mail', operatorOnly: true },
   { path: '/status', label: 'Status', icon: 'tw:status' },
