@@ -39,6 +39,7 @@ describe('console routes', () => {
     ['/catalog', '/catalog'],
     ['/projects', '/projects'],
     ['/batches', '/batches'],
+    ['/billing?checkout=done', '/billing?checkout=done'], // the payment provider sends the browser back here
   ])('sends a visitor who is not signed in from %s to sign in', async (url, next) => {
     const harness = await RouterTestingHarness.create();
     await harness.navigateByUrl(url, SignInPage);

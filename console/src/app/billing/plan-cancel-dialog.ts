@@ -23,7 +23,7 @@ export interface PlanCancelData {
       </p>
     </mat-dialog-content>
     <mat-dialog-actions align="end">
-      <button matButton type="button" [mat-dialog-close]="false">Keep {{ data.planName }}</button>
+      <button matButton type="button" [mat-dialog-close]="false" data-testid="cancel-plan-keep">Keep {{ data.planName }}</button>
       <button matButton="filled" class="tw-danger" type="button" [mat-dialog-close]="true" data-testid="cancel-plan-confirm">
         Switch to {{ data.freeName }}
       </button>

@@ -35,6 +35,11 @@ describe('destinationsFor', () => {
     expect(labels('viewer')).not.toContain('Activity');
   });
 
+  it('offers billing to every role (GET /v1/billing needs the viewer role; only admins change the plan on the page)', () => {
+    for (const role of ['admin', 'estimator', 'viewer'] as const) expect(labels(role)).toContain('Billing');
+    expect(labels(null, true)).not.toContain('Billing'); // the operator acting in no organisation has no bill
+  });
+
   it('offers the bench to estimators and admins, not viewers (the calculations need the estimator role)', () => {
     expect(labels('estimator')).toContain('Bench');
     expect(labels('admin')).toContain('Bench');
