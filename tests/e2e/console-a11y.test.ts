@@ -47,7 +47,7 @@ describe('accessibility of the console (axe-core: no serious or critical violati
     expect(await scan(page, 'sign-in', '/sign-in', '[data-testid="email"]')).toEqual({});
   });
 
-  it('passes on the admin’s screens: keys, traffic, bench, team, activity', async () => {
+  it('passes on the admin’s screens: keys, traffic, bench, team, activity, billing', async () => {
     const page = await profiles.page();
     await page.goto(`${server.url}/keys`, { waitUntil: 'networkidle' });
     await signIn(page, 'mira@harborlane.test'); // demo-scenario.md: Harbor Lane's admin
@@ -57,6 +57,7 @@ describe('accessibility of the console (axe-core: no serious or critical violati
       ...(await scan(page, 'bench', '/bench', '[data-testid="bench-calculate"]')),
       ...(await scan(page, 'team', '/team', '[data-testid="member-table"]')),
       ...(await scan(page, 'activity', '/activity', '[data-testid="activity-list"], [data-testid="activity-empty"]')),
+      ...(await scan(page, 'billing', '/billing', '[data-testid="invoice-table"], [data-testid="invoices-empty"]')),
     };
     // An answer and an error beside a field are part of the bench too.
     await page.setViewportSize({ width: WIDTHS.desktop, height: 800 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
 import { FREE, PAID_INVOICE, PARTNER, SHOP, overview, subscribed } from './billing-fixtures.js';
-import { describeState, formatMoney, formatMonth, formatOverage, formatPlanPrice, invoiceStatus, planAction, subscriptionInForce } from './billing-format.js';
+import { describeState, formatGrace, formatMoney, formatMonth, formatOverage, formatPlanPrice, invoiceStatus, planAction, subscriptionInForce } from './billing-format.js';
 
 const UTC = 'UTC'; // dates in the specs are read in UTC, whatever the machine's zone
 
@@ -32,6 +32,12 @@ describe('the plan card’s wording', () => {
   it('names the overage price, or says calls past the quota are refused', () => {
     expect(formatOverage(PARTNER)).toBe('Beyond the quota: €0.40 per 1,000 units');
     expect(formatOverage(SHOP)).toBe('Calls beyond the quota are refused');
+  });
+
+  it('says how long a paid plan outlasts a failed payment', () => {
+    expect(formatGrace(14)).toBe("14 days' grace after a failed payment");
+    expect(formatGrace(1)).toBe("1 day's grace after a failed payment");
+    expect(formatGrace(0)).toBe('Back to Free at once after a failed payment');
   });
 
   it('writes the usage month in words', () => {

@@ -33,6 +33,12 @@ export function formatOverage(offer: PlanOffer): string {
   return `Beyond the quota: ${formatMoney(offer.overage.per1000Minor, currency)} per 1,000 units`;
 }
 
+/** How long a paid plan stays after a failed payment. */
+export function formatGrace(days: number): string {
+  if (days === 0) return 'Back to Free at once after a failed payment';
+  return `${days} ${days === 1 ? "day's" : "days'"} grace after a failed payment`;
+}
+
 /** "2026-12" → "December 2026". */
 export function formatMonth(month: string): string {
   const [year, monthNumber] = month.split('-').map(Number);

@@ -20,6 +20,7 @@ import {
   describeState,
   formatCount,
   formatDay,
+  formatGrace,
   formatMoney,
   formatMonth,
   formatOverage,
@@ -84,6 +85,7 @@ export class BillingPage implements OnInit {
   protected readonly describeState = describeState;
   protected readonly formatCount = formatCount;
   protected readonly formatMoney = formatMoney;
+  protected readonly formatGrace = formatGrace;
   protected readonly formatMonth = formatMonth;
   protected readonly formatOverage = formatOverage;
   protected readonly formatPlanPrice = formatPlanPrice;
