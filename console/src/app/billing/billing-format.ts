@@ -26,11 +26,19 @@ export function formatPlanPrice(offer: PlanOffer): string {
   return offer.price ? `${formatMoney(offer.price.monthlyMinor, offer.price.currency)} a month` : 'No charge';
 }
 
+/**
+ * The price of 1,000 units past the quota ("€0.40"), or null where such calls are refused. The
+ * overage is billed in the plan's currency; a plan without a price has none to name.
+ */
+export function overagePrice(offer: PlanOffer): string | null {
+  if (!offer.overage) return null;
+  return offer.price ? formatMoney(offer.overage.per1000Minor, offer.price.currency) : `${formatCount(offer.overage.per1000Minor)} minor units`;
+}
+
 /** What happens past the quota: its price per 1,000 units, or that such calls are refused. */
 export function formatOverage(offer: PlanOffer): string {
-  if (!offer.overage) return 'Calls beyond the quota are refused';
-  const currency = offer.price?.currency ?? 'eur';
-  return `Beyond the quota: ${formatMoney(offer.overage.per1000Minor, currency)} per 1,000 units`;
+  const price = overagePrice(offer);
+  return price ? `Beyond the quota: ${price} per 1,000 units` : 'Calls beyond the quota are refused';
 }
 
 /** How long a paid plan stays after a failed payment. */

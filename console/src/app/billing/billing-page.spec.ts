@@ -111,6 +111,18 @@ describe('BillingPage', () => {
     expect(page().querySelector('[data-testid="invoices-empty"]')).not.toBeNull();
   });
 
+  it('after a failed payment: says until when the plan stays, and that calls past a used-up quota are refused', async () => {
+    await render('admin');
+    await answerOverview(
+      subscribed(SHOP, { state: 'past_due', graceEndsAt: '2026-12-09T10:00:00.000Z', usage: { month: '2026-12', used: 50_000, monthlyQuota: 50_000, remaining: 0, overage: 0 } }),
+    );
+    await answerInvoices([{ ...PAID_INVOICE, status: 'open', amountDue: 2900, amountPaid: 0 }]);
+    expect(text('[data-testid="billing-plan"] .tw-chip')).toBe('Payment failed');
+    expect(text('[data-testid="billing-state"]')).toMatch(/^A payment failed; your Shop plan stays until Dec (8|9|10), 2026, then falls back to Free — update your payment details\.$/);
+    expect(text('[data-testid="billing-overage"]')).toBe('The quota is used up: further calls are refused until the month ends.');
+    expect(text('[data-testid="invoice-status"]')).toBe('Due');
+  });
+
   it('says what the API answered when billing cannot be loaded', async () => {
     await render('admin');
     http

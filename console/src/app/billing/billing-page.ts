@@ -26,6 +26,7 @@ import {
   formatOverage,
   formatPlanPrice,
   invoiceStatus,
+  overagePrice,
   planAction,
   subscriptionInForce,
 } from './billing-format.js';
@@ -73,6 +74,11 @@ export class BillingPage implements OnInit {
   protected readonly currentOffer = computed(() => {
     const overview = this.overview();
     return overview?.plans.find((p) => p.id === overview.plan.id) ?? null;
+  });
+  /** The price of 1,000 units past the quota on the plan in force, or null where such calls are refused. */
+  protected readonly currentOverage = computed(() => {
+    const offer = this.currentOffer();
+    return offer ? overagePrice(offer) : null;
   });
   protected readonly usedPercent = computed(() => {
     const usage = this.overview()?.usage;
