@@ -14,6 +14,7 @@ import type { Database } from '../../api/db/client.js';
 import { billingAccounts, organizations, outboxMessages, overageReports, usageCounters } from '../../api/db/schema.js';
 import { createLogger } from '../../api/logger.js';
 import { startFakeProvider, type FakeProvider } from '../../api/payments/fake-provider.js';
+import { signPayload } from '../../api/payments/signature.js';
 import { overageByDay } from '../../api/services/billing-overage.js';
 import { providerPrices } from '../../api/services/plans.js';
 import { alderRowTownhouse } from '../../shared/schemas/estimate-examples.js';
@@ -197,6 +198,17 @@ describe('a failed payment', () => {
     offsetMs = 0;
   });
 
+  it('a failure event arriving after the payment went through starts no grace and sends no e-mail', async () => {
+    const s = await subscribed('shop');
+    const customer = (await accountOf(s.org.id)).customerId;
+    const late = { id: 'evt_late_failure_1', object: 'event', type: 'invoice.payment_failed', created: Math.floor(Date.now() / 1000) - 600, data: { object: { id: 'in_late_1', object: 'invoice', customer, amount_due: 2900, currency: 'eur' } } };
+    const payload = JSON.stringify(late);
+    await request(t.app).post('/v1/billing/webhook').set('content-type', 'application/json').set('stripe-signature', signPayload(payload, WEBHOOK_SECRET, Math.floor(Date.now() / 1000))).send(payload).expect(200);
+    expect((await accountOf(s.org.id)).pastDueSince).toBeNull();
+    expect(await planOf(s.org.id)).toBe('shop');
+    expect(await database.db.select().from(outboxMessages).where(eq(outboxMessages.to, s.adminEmail))).toHaveLength(0);
+  });
+
   it('falls back on reading the overview too, before the sweep runs', async () => {
     const s = await subscribed('shop');
     await simulate(s.subscriptionId, 'fail-renewal');
@@ -231,6 +243,17 @@ describe('overage', () => {
   };
   const used = (organizationId: string, day: string, units: number) =>
     database.db.insert(usageCounters).values({ organizationId, keyId: 'seeded', day, route: 'POST /v1/estimates', statusClass: '2xx', count: units, units, latencyMsTotal: 0, latencyBuckets: [] });
+
+  it('the simulation keeps the first meter event of an identifier and refuses one for an unknown customer', async () => {
+    const s = await subscribed('partner');
+    const customer = (await accountOf(s.org.id)).customerId;
+    const event = { event_name: 'treadwise_units', identifier: `probe:${s.org.id}`, timestamp: Math.floor(Date.now() / 1000) - 60 };
+    await sdk.billing.meterEvents.create({ ...event, payload: { stripe_customer_id: customer, value: '5' } });
+    const again = await sdk.billing.meterEvents.create({ ...event, payload: { stripe_customer_id: customer, value: '9' } });
+    expect(again.payload.value).toBe('5');
+    expect(fake.meterEvents().filter((e) => e.identifier === event.identifier)).toHaveLength(1);
+    await expect(sdk.billing.meterEvents.create({ ...event, identifier: 'probe:nobody', payload: { stripe_customer_id: 'cus_nobody', value: '1' } })).rejects.toThrow(/customer/);
+  });
 
   it('lets a partner organisation past its quota go on (calls and batch jobs) while the shop plan refuses', async () => {
     const today = clock().toISOString().slice(0, 10);
