@@ -155,8 +155,10 @@ export function createBillingService(deps: BillingDeps) {
       case 'invoice.paid': {
         const acc = await accountOfCustomer(event.data.object.customer);
         if (!acc) return;
+        // The subscription says whether this payment settled what was owed (active again: past-due
+        // cleared, the paid plan back); a late receipt of an older invoice restarts no grace.
+        if (acc.subscriptionId) return refreshSubscription(acc.subscriptionId);
         await db.update(billingAccounts).set({ pastDueSince: null, updatedAt: deps.clock() }).where(eq(billingAccounts.organizationId, acc.organizationId));
-        if (acc.subscriptionId) await refreshSubscription(acc.subscriptionId);
         return;
       }
       case 'invoice.payment_failed': {
