@@ -1,4 +1,4 @@
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, ne, sql } from 'drizzle-orm';
 import type { Logger } from 'pino';
 import type Stripe from 'stripe';
 import type { Db } from '../db/client.js';
@@ -64,7 +64,7 @@ export function createBillingService(deps: BillingDeps) {
     const [changed] = await db
       .update(organizations)
       .set({ planId, updatedAt: deps.clock() })
-      .where(and(eq(organizations.id, organizationId), sql`${organizations.planId} <> ${planId}`))
+      .where(and(eq(organizations.id, organizationId), ne(organizations.planId, planId)))
       .returning({ id: organizations.id });
     if (changed) await deps.planChanged(organizationId);
   };
