@@ -38,7 +38,9 @@ export function overageByDay(days: { day: string; units: number }[], monthlyQuot
  * overage, for each finished UTC day not yet reported. Exactly once per organisation and day:
  * the overage_reports row is written first (a second instance or run finds it), the event carries
  * the row's identifier (the provider drops a second event with it, so a crash between the call
- * and `reported_at` costs nothing), and rows left unreported are sent again on the next run.
+ * and `reported_at` costs nothing), and rows left unreported are sent again on the next run. The
+ * provider keeps identifiers (and idempotency keys) for at least 24 hours; the next run comes
+ * within minutes, so only a crash followed by a day's downtime could bill a day twice.
  */
 export async function reportOverage({ db, sdk, clock, logger }: { db: Db; sdk: Stripe; clock: () => Date; logger: Logger }): Promise<number> {
   const now = clock();
@@ -85,7 +87,7 @@ export async function reportOverage({ db, sdk, clock, logger }: { db: Db; sdk: S
         identifier: row.identifier,
         // The last second of the day the units were used on.
         timestamp: Math.floor(Date.parse(`${row.day}T23:59:59Z`) / 1000),
-      });
+      }, { idempotencyKey: `overage:${row.identifier}` }); // a second guard: a retried request is answered from the first
     } catch (err) {
       // Left unreported: the next run sends it again under the same identifier.
       logger.warn({ err: { message: (err as Error).message }, organizationId: row.organizationId, day: row.day }, 'billing: overage not reported yet');
