@@ -163,6 +163,21 @@ describe('plan changes', () => {
   });
 });
 
+describe('the simulation', () => {
+  it('keeps create_prorations lines for the next renewal invoice instead of invoicing them at once', async () => {
+    const s = await subscribed('shop');
+    const sub = await sdk.subscriptions.retrieve(s.subscriptionId);
+    await sdk.subscriptions.update(s.subscriptionId, { items: [{ id: sub.items.data[0].id, price: 'price_treadwise_partner_monthly' }], proration_behavior: 'create_prorations' });
+    await fake.drained();
+    expect(await invoices(s.admin)).toHaveLength(1);
+    await simulate(s.subscriptionId, 'advance-period');
+    const [renewal] = await invoices(s.admin);
+    // 99 EUR for the new period plus 99 − 29 EUR for (almost all of) the one before.
+    expect(renewal.amountPaid).toBeGreaterThan(9900 + 6900);
+    expect(renewal.amountPaid).toBeLessThanOrEqual(9900 + 7000);
+  });
+});
+
 describe('a failed payment', () => {
   it('e-mails the fall-back date, keeps the plan during the grace, falls back to free after it, and comes back when paid', async () => {
     const s = await subscribed('shop');
