@@ -86,6 +86,8 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
     });
     // Jobs left queued or running by an earlier process (a crash, a restart) resume here.
     await app.locals.services.batchJobs.start();
+    // Grace fall-backs and the daily overage report (idempotent: every instance may run them).
+    app.locals.services.billing?.maintenance.start();
   } catch (err) {
     await payments?.fake?.close();
     await demoShop?.close();
@@ -111,6 +113,7 @@ async function listening(config: Config, logger: Logger, lock: DataDirLock | und
       // In-flight requests are done: write the buffered usage and last-used times, then close.
       await app.locals.services.passwordResets.settled(); // reset mails started before the stop
       await app.locals.services.batchJobs.close(); // the chunk under way is written; later ones resume at the next start
+      await app.locals.services.billing?.maintenance.close();
       await app.locals.services.usageMeter.close();
       await app.locals.services.rateLimitStores.close();
       await database.close();

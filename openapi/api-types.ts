@@ -1220,7 +1220,7 @@ export interface paths {
         };
         /**
          * Plan, billing state, usage and the plans on offer
-         * @description Any member of the organisation acted in. The plans on offer carry their monthly price; the internal plan is never listed.
+         * @description Any member of the organisation acted in. The plans on offer carry their monthly price, overage price and grace days; the internal plan is never listed. After a failed payment (state past_due) the paid plan stays until graceEndsAt, then the organisation falls back to free until the payment succeeds. On a plan with overage, usage.overage counts the units beyond the quota this month: they are reported to the provider once a day and billed with the next invoice.
          */
         get: operations["getBilling"];
         put?: never;
@@ -1242,7 +1242,7 @@ export interface paths {
         put?: never;
         /**
          * Upgrade or change the paid plan
-         * @description Organisation admins. Without a subscription: creates the provider customer (once) and a hosted checkout in subscription mode, and answers its URL; the plan changes when the provider confirms payment (webhook). With a subscription in place: moves that subscription to the plan (never a second one).
+         * @description Organisation admins. Without a subscription: creates the provider customer (once) and a hosted checkout in subscription mode, and answers its URL; the plan changes when the provider confirms payment (webhook). With a subscription in place, that subscription moves to the plan (never a second one): a dearer plan applies at once and the rest of the period is invoiced now, prorated (outcome changed); a cheaper one is scheduled: the subscription bills it from the next period, the organisation keeps the plan paid for until the period ends (outcome scheduled). Choosing the plan paid for again drops a scheduled downgrade or cancellation.
          */
         post: operations["startCheckout"];
         delete?: never;
@@ -9100,6 +9100,11 @@ export interface components {
                 /** Format: date-time */
                 currentPeriodEnd: string | null;
                 cancelAtPeriodEnd: boolean;
+                /**
+                 * @description A downgrade waiting for the period end: the plan in force from currentPeriodEnd (the current plan stays until then).
+                 * @example shop
+                 */
+                scheduledPlanId?: string | null;
             } | null;
             usage: {
                 /** @example 2026-12 */
@@ -9166,10 +9171,10 @@ export interface components {
         };
         CheckoutResult: {
             /**
-             * @description checkout: open `url` to pay; changed: the subscription in place moved to the plan.
+             * @description checkout: open `url` to pay; changed: the subscription in place moved to the plan now (an upgrade: the rest of the period is invoiced at once, prorated); scheduled: a cheaper plan, in force from the end of the period already paid (the current plan stays until then).
              * @enum {string}
              */
-            outcome: "checkout" | "changed";
+            outcome: "checkout" | "changed" | "scheduled";
             /** Format: uri */
             url: string | null;
         };

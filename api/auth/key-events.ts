@@ -5,6 +5,8 @@ import type { KeyCache } from './key-cache.js';
 
 /** Payloads for the catalog cache; key ids never contain a colon. */
 const CATALOG_PREFIX = 'catalog:';
+/** Payloads for the plan cache: an organisation's plan changed (billing, the operator). */
+const PLAN_PREFIX = 'plan:';
 
 /**
  * Makes a key change (rotate, revoke, create) effective at once on every instance: the instance
@@ -15,6 +17,7 @@ export function createKeyEvents({
   keyCache,
   allowedOrigins,
   catalog,
+  plans,
   logger,
 }: {
   database: Database;
@@ -22,11 +25,14 @@ export function createKeyEvents({
   allowedOrigins: AllowedOrigins;
   /** The priced-catalog cache rides on the same channel (one listening connection per instance). */
   catalog?: { forget(organizationId: string): void };
+  /** The plan cache rides on it too, so a plan change is in force on every instance from the next call. */
+  plans?: { invalidate(organizationId: string): void };
   logger: Logger;
 }) {
   const channel = `treadwise_keys_${database.schemaName}`.slice(0, 63);
   const forget = (payload: string) => {
     if (payload.startsWith(CATALOG_PREFIX)) return catalog?.forget(payload.slice(CATALOG_PREFIX.length));
+    if (payload.startsWith(PLAN_PREFIX)) return plans?.invalidate(payload.slice(PLAN_PREFIX.length));
     keyCache.invalidate(payload);
     allowedOrigins.invalidate();
   };
@@ -45,6 +51,13 @@ export function createKeyEvents({
       void database
         .publish(channel, `${CATALOG_PREFIX}${organizationId}`)
         .catch((err: Error) => logger.warn({ err: { message: err.message } }, 'catalog change not broadcast'));
+    },
+    /** An organisation's plan changed here: this instance and the others load it afresh. */
+    async planChanged(organizationId: string): Promise<void> {
+      forget(`${PLAN_PREFIX}${organizationId}`);
+      await database
+        .publish(channel, `${PLAN_PREFIX}${organizationId}`)
+        .catch((err: Error) => logger.warn({ err: { message: err.message } }, 'plan change not broadcast'));
     },
   };
 }

@@ -46,6 +46,16 @@ export const plans = pgTable('plans', {
   providerPriceId: text('provider_price_id').unique(),
   /** Shown to organisations on the billing page; the internal plan never is. */
   offered: boolean('offered').notNull().default(false),
+  /** Days a paid plan stays in force after a payment first failed, before the organisation falls back to free. */
+  graceDays: integer('grace_days').notNull().default(0),
+  /**
+   * Price of each 1 000 units beyond the monthly quota (minor units of `currency`). Set: the plan
+   * never refuses for the quota, the units beyond it are reported to the provider once a day.
+   * Null: calls beyond the quota are refused.
+   */
+  overagePer1000Minor: integer('overage_per_1000_minor'),
+  /** The provider meter (its event name) the overage units are reported to; set with the overage price. */
+  overageMeter: text('overage_meter'),
   createdAt: createdAt(),
 });
 
@@ -460,6 +470,8 @@ export const billingAccounts = pgTable('billing_accounts', {
   providerPriceId: text('provider_price_id'),
   currentPeriodEnd: timestamp('current_period_end', { withTimezone: true }),
   cancelAtPeriodEnd: boolean('cancel_at_period_end').notNull().default(false),
+  /** When a payment first failed (kept through the provider's retries); null once paid. The grace runs from here. */
+  pastDueSince: timestamp('past_due_since', { withTimezone: true }),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
 
@@ -469,3 +481,24 @@ export const billingEvents = pgTable('billing_events', {
   type: text('type').notNull(),
   receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
 });
+
+/**
+ * Overage units reported to the provider, one row per organisation and finished UTC day. The row
+ * is written before the provider call and `identifier` is sent with it, so a retry after a crash
+ * in between is deduplicated by the provider: each day is billed exactly once.
+ */
+export const overageReports = pgTable(
+  'overage_reports',
+  {
+    organizationId: uuid('organization_id')
+      .notNull()
+      .references(() => organizations.id, { onDelete: 'cascade' }),
+    day: date('day').notNull(),
+    units: integer('units').notNull(),
+    /** `<organizationId>:<YYYY-MM-DD>`: the provider's idempotent identifier of the meter event. */
+    identifier: text('identifier').notNull().unique(),
+    reportedAt: timestamp('reported_at', { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.day] })],
+);

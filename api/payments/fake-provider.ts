@@ -3,7 +3,7 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import express, { type Request, type Response } from 'express';
 import type { Logger } from 'pino';
-import { fakeStateFile, type FakeEvent, type FakeInvoice, type FakeState, type FakeSubscription } from './fake-state.js';
+import { fakeStateFile, type FakeEvent, type FakeInvoice, type FakeInvoiceLine, type FakeMeterEvent, type FakeState, type FakeSubscription } from './fake-state.js';
 import { signPayload } from './signature.js';
 
 /** A price the fake can bill: the plans table supplies them (id, amount in minor units, currency). */
@@ -11,6 +11,8 @@ export interface FakePrice {
   id: string;
   unitAmount: number;
   currency: string;
+  /** The meter whose events this price bills beyond the plan (per 1 000 units), if any. */
+  meter?: { eventName: string; per1000Minor: number };
 }
 
 export interface FakeProviderOptions {
@@ -38,6 +40,8 @@ export interface FakeProvider {
   setPrices(prices: FakePrice[]): void;
   /** Where events go; until set, they wait (and survive a restart). */
   setWebhookUrl(url: string): void;
+  /** The meter events received (tests read what was reported). */
+  meterEvents(): FakeMeterEvent[];
   /** Resolves once no event waits for delivery (tests; a shutdown does not need it). */
   drained(): Promise<void>;
   close(): Promise<void>;
@@ -50,7 +54,7 @@ const BANNER = 'Simulated payment provider: no real payment takes place and no c
 /**
  * A local stand-in for the payment provider, so billing runs and is tested offline. It answers
  * only the calls the API makes through the SDK (customers, checkout sessions in subscription
- * mode, subscriptions, invoices), serves a plain checkout page with pay and decline buttons, and
+ * mode, subscriptions, invoices, meter events), serves a plain checkout page with pay and decline buttons, and
  * delivers signed webhooks with retries. Its state lives in DATA_DIR, written atomically.
  */
 export async function startFakeProvider(options: FakeProviderOptions): Promise<FakeProvider> {
@@ -118,6 +122,10 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     delivering = pass;
     return pass;
   };
+
+  /** A customer's meter events before `before` not yet on an invoice. */
+  const unbilledEvents = (customer: string, before: number) =>
+    Object.values(state.meterEvents).filter((e) => e.payload.stripe_customer_id === customer && e.invoiced === null && e.timestamp < before);
 
   const changed = () => {
     save();
@@ -196,14 +204,30 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     const b = body(req);
     const items = Array.isArray(b.items) ? (b.items as Record<string, unknown>[]) : [];
     const price = text(items[0]?.price);
+    let proration: FakeInvoice | undefined;
     if (price !== undefined) {
       const known = prices.get(price);
       if (!known) return void refuse(res, 400, 'No such price.');
-      sub.items.data[0].price = { id: known.id, object: 'price', unit_amount: known.unitAmount, currency: known.currency };
+      const item = sub.items.data[0];
+      const behavior = text(b.proration_behavior) ?? 'create_prorations';
+      // The unused rest of the period: credited at the old price, charged at the new one.
+      const rest = Math.max(0, item.current_period_end - now()) / Math.max(1, item.current_period_end - item.current_period_start);
+      const amount = Math.round((known.unitAmount - item.price.unit_amount) * rest);
+      if (behavior !== 'none' && amount !== 0 && known.id !== item.price.id) {
+        const line = { id: id('il'), object: 'line_item' as const, description: `Rest of the period: ${item.price.id} to ${known.id} (prorated)`, amount, currency: known.currency, proration: true };
+        if (behavior === 'always_invoice' && amount > 0) proration = invoiceWith(sub, 'paid', [line]);
+        else sub.pending_lines = [...(sub.pending_lines ?? []), line];
+      }
+      item.price = { id: known.id, object: 'price', unit_amount: known.unitAmount, currency: known.currency };
     }
     if (b.cancel_at_period_end === 'true' || b.cancel_at_period_end === 'false') sub.cancel_at_period_end = b.cancel_at_period_end === 'true';
-    if (b.metadata) sub.metadata = { ...sub.metadata, ...record(b.metadata) };
+    if (b.metadata) {
+      // As the provider does: an empty value removes the key.
+      const merged = { ...sub.metadata, ...record(b.metadata) };
+      sub.metadata = Object.fromEntries(Object.entries(merged).filter(([, v]) => v !== ''));
+    }
     emit('customer.subscription.updated', sub);
+    if (proration) emit('invoice.paid', proration);
     changed();
     res.json(sub);
   });
@@ -230,25 +254,52 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     const data = all.slice(0, limit).map((i) => ({ ...i, hosted_invoice_url: `${baseUrl}/invoices/${i.id}` }));
     res.json({ object: 'list', url: '/v1/invoices', has_more: all.length > limit, data });
   });
+  api.post('/billing/meter_events', (req, res) => {
+    const b = body(req);
+    const payload = record(b.payload);
+    const eventName = text(b.event_name);
+    const identifier = text(b.identifier) ?? id('mev');
+    const timestamp = Number(text(b.timestamp) ?? now());
+    if (!eventName) return void refuse(res, 400, 'Missing event_name.');
+    if (!payload.stripe_customer_id || !state.customers[payload.stripe_customer_id]) return void refuse(res, 400, 'No such customer in payload.stripe_customer_id.');
+    if (!/^\d{1,12}$/.test(payload.value ?? '')) return void refuse(res, 400, 'payload.value must be a whole number.');
+    if (!Number.isInteger(timestamp) || timestamp < now() - 35 * 24 * 3600 || timestamp > now() + 300) return void refuse(res, 400, 'timestamp must be within the past 35 days.');
+    // A second event with an identifier already seen is dropped: the first one stands.
+    const seen = state.meterEvents[identifier];
+    if (seen) return void res.json(seen);
+    const event: FakeMeterEvent = { object: 'billing.meter_event', event_name: eventName, identifier, payload, timestamp, created: now(), livemode: false, invoiced: null };
+    state.meterEvents[identifier] = event;
+    changed();
+    res.json(event);
+  });
   api.use((_req, res) => void refuse(res, 404, 'This call is not simulated.'));
   app.use('/v1', api);
 
-  const invoiceFor = (sub: FakeSubscription, status: FakeInvoice['status']): FakeInvoice => {
+  /** An invoice of the subscription's price for its current period, with any extra lines. */
+  const invoiceFor = (sub: FakeSubscription, status: FakeInvoice['status'], extra: FakeInvoiceLine[] = []): FakeInvoice => {
     const item = sub.items.data[0];
+    const base: FakeInvoiceLine = { id: id('il'), object: 'line_item', description: `Subscription ${item.price.id}`, amount: item.price.unit_amount, currency: item.price.currency, proration: false };
+    return invoiceWith(sub, status, [base, ...extra]);
+  };
+
+  const invoiceWith = (sub: FakeSubscription, status: FakeInvoice['status'], lines: FakeInvoiceLine[]): FakeInvoice => {
+    const item = sub.items.data[0];
+    const total = Math.max(0, lines.reduce((sum, l) => sum + l.amount, 0));
     const invoice: FakeInvoice = {
       id: id('in'),
       object: 'invoice',
       customer: sub.customer,
       subscription: sub.id,
       status,
-      amount_due: item.price.unit_amount,
-      amount_paid: status === 'paid' ? item.price.unit_amount : 0,
+      amount_due: total,
+      amount_paid: status === 'paid' ? total : 0,
       currency: item.price.currency,
       created: now(),
       period_start: item.current_period_start,
       period_end: item.current_period_end,
       hosted_invoice_url: '',
       number: `SIM-${String(Object.keys(state.invoices).length + 1).padStart(5, '0')}`,
+      lines: { object: 'list', data: lines },
     };
     invoice.hosted_invoice_url = `${baseUrl}/invoices/${invoice.id}`;
     state.invoices[invoice.id] = invoice;
@@ -330,6 +381,7 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
       `Invoice ${invoice.number}`,
       `<p>To: ${escape(customer?.name ?? customer?.email ?? invoice.customer)}</p>` +
         `<p>Period: ${day(invoice.period_start)} to ${day(invoice.period_end)}</p>` +
+        `<ul>${(invoice.lines?.data ?? []).map((l) => `<li>${escape(l.description)}: ${(l.amount / 100).toFixed(2)} ${escape(l.currency.toUpperCase())}</li>`).join('')}</ul>` +
         `<p>Amount: ${(invoice.amount_due / 100).toFixed(2)} ${escape(invoice.currency.toUpperCase())}, status: ${escape(invoice.status)}</p>`,
     );
   });
@@ -344,6 +396,55 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     emit('customer.subscription.updated', sub);
     changed();
     res.json({ subscription: sub.id, invoice: invoice.id });
+  });
+
+  // The end of the current period, on demand: a subscription set to cancel ends; any other renews
+  // (paid), its invoice carrying the pending prorations and the metered overage of the period.
+  app.post('/simulation/subscriptions/:id/advance-period', (req, res) => {
+    const sub = state.subscriptions[String(req.params.id)];
+    if (!sub || sub.status === 'canceled') return void res.status(404).json({ error: 'no such active subscription' });
+    const item = sub.items.data[0];
+    if (sub.cancel_at_period_end) {
+      sub.status = 'canceled';
+      sub.canceled_at = item.current_period_end;
+      emit('customer.subscription.deleted', sub);
+      changed();
+      return void res.json({ subscription: sub.id, status: sub.status, invoice: null });
+    }
+    const ended = item.current_period_end;
+    const overage: FakeInvoiceLine[] = [];
+    const unitsByMeter = new Map<string, number>();
+    for (const e of unbilledEvents(sub.customer, ended)) unitsByMeter.set(e.event_name, (unitsByMeter.get(e.event_name) ?? 0) + Number(e.payload.value));
+    for (const [eventName, units] of unitsByMeter) {
+      const meter = [...prices.values()].find((p) => p.meter?.eventName === eventName)?.meter;
+      if (!meter || units === 0) continue;
+      overage.push({ id: id('il'), object: 'line_item', description: `Usage beyond the plan: ${units} units (${eventName})`, amount: Math.round((units * meter.per1000Minor) / 1000), currency: item.price.currency, proration: false });
+    }
+    item.current_period_start = ended;
+    item.current_period_end = ended + MONTH_SECONDS;
+    const invoice = invoiceFor(sub, 'paid', [...(sub.pending_lines ?? []), ...overage]);
+    for (const e of unbilledEvents(sub.customer, ended)) e.invoiced = invoice.id;
+    sub.pending_lines = [];
+    sub.status = 'active';
+    emit('invoice.paid', invoice);
+    emit('customer.subscription.updated', sub);
+    changed();
+    res.json({ subscription: sub.id, status: sub.status, invoice: invoice.id });
+  });
+
+  // A retried payment that goes through: the open invoices are paid, the subscription is active again.
+  app.post('/simulation/subscriptions/:id/pay-open-invoices', (req, res) => {
+    const sub = state.subscriptions[String(req.params.id)];
+    if (!sub || sub.status === 'canceled') return void res.status(404).json({ error: 'no such active subscription' });
+    const open = Object.values(state.invoices).filter((i) => i.subscription === sub.id && i.status === 'open');
+    for (const invoice of open) {
+      Object.assign(invoice, { status: 'paid', amount_paid: invoice.amount_due });
+      emit('invoice.paid', invoice);
+    }
+    sub.status = 'active';
+    emit('customer.subscription.updated', sub);
+    changed();
+    res.json({ subscription: sub.id, paid: open.map((i) => i.id) });
   });
 
   const server: Server = createServer(app);
@@ -364,6 +465,9 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     url: baseUrl,
     setPrices(list) {
       prices = new Map(list.map((p) => [p.id, p]));
+    },
+    meterEvents() {
+      return structuredClone(Object.values(state.meterEvents));
     },
     setWebhookUrl(url) {
       webhookUrl = url;

@@ -8,6 +8,8 @@ export interface FakeState {
   sessions: Record<string, FakeSession>;
   subscriptions: Record<string, FakeSubscription>;
   invoices: Record<string, FakeInvoice>;
+  /** Usage reported to meters, by identifier (a second event with one is dropped, as the provider does). */
+  meterEvents: Record<string, FakeMeterEvent>;
   /** Events not yet acknowledged with a 2xx by the webhook endpoint (a restart resumes them). */
   pending: { event: FakeEvent; attempts: number }[];
 }
@@ -39,6 +41,8 @@ export interface FakeSubscription {
   canceled_at: number | null;
   metadata: Record<string, string>;
   created: number;
+  /** Proration lines (create_prorations) waiting for the next invoice. */
+  pending_lines?: FakeInvoiceLine[];
   items: { object: 'list'; data: { id: string; object: 'subscription_item'; price: { id: string; object: 'price'; unit_amount: number; currency: string }; current_period_start: number; current_period_end: number }[] };
 }
 
@@ -56,6 +60,30 @@ export interface FakeInvoice {
   period_end: number;
   hosted_invoice_url: string;
   number: string;
+  /** Absent on invoices written by an older simulation. */
+  lines?: { object: 'list'; data: FakeInvoiceLine[] };
+}
+
+export interface FakeInvoiceLine {
+  id: string;
+  object: 'line_item';
+  description: string;
+  amount: number;
+  currency: string;
+  /** Pending proration lines (create_prorations) wait for the next invoice under this key. */
+  proration: boolean;
+}
+
+export interface FakeMeterEvent {
+  object: 'billing.meter_event';
+  event_name: string;
+  identifier: string;
+  payload: Record<string, string>;
+  timestamp: number;
+  created: number;
+  livemode: false;
+  /** The renewal invoice that billed it; null until then. */
+  invoiced: string | null;
 }
 
 export interface FakeEvent {
@@ -68,7 +96,7 @@ export interface FakeEvent {
   data: { object: unknown };
 }
 
-const empty = (): FakeState => ({ seq: 0, customers: {}, sessions: {}, subscriptions: {}, invoices: {}, pending: [] });
+const empty = (): FakeState => ({ seq: 0, customers: {}, sessions: {}, subscriptions: {}, invoices: {}, meterEvents: {}, pending: [] });
 
 /** The fake's state in one JSON file, replaced atomically (write beside, then rename) after every change. */
 export function fakeStateFile(dataDir: string) {

@@ -31,7 +31,7 @@ export const billingRoutes: RouteModule = {
     router.get('/', async (_req, res) => {
       const organizationId = organizationOf(res);
       const billing = billingOf(services);
-      const { planId, account, offers } = await billing.overview(organizationId);
+      const { planId, account, offers, graceEndsAt, scheduledPlanId } = await billing.overview(organizationId);
       const plan = await services.plans.forOrganization(organizationId);
       const standing = await services.quotas.standing(organizationId);
       const paid = account?.subscriptionId && account.status !== 'canceled';
@@ -40,11 +40,16 @@ export const billingRoutes: RouteModule = {
         plan: { id: plan.id, name: plan.name },
         state,
         subscription: account?.subscriptionId
-          ? { status: account.status ?? 'unknown', currentPeriodEnd: account.currentPeriodEnd?.toISOString() ?? null, cancelAtPeriodEnd: account.cancelAtPeriodEnd }
+          ? { status: account.status ?? 'unknown', currentPeriodEnd: account.currentPeriodEnd?.toISOString() ?? null, cancelAtPeriodEnd: account.cancelAtPeriodEnd, scheduledPlanId }
           : null,
-        usage: { month: standing.month, used: standing.used, monthlyQuota: standing.plan.monthlyQuota, remaining: standing.remaining, overage: Math.max(0, standing.used - standing.plan.monthlyQuota) },
-        // Filled in by the grace period work (billing accounts gain the date a payment first failed).
-        graceEndsAt: null,
+        usage: {
+          month: standing.month,
+          used: standing.used,
+          monthlyQuota: standing.plan.monthlyQuota,
+          remaining: standing.remaining,
+          overage: standing.plan.overage ? Math.max(0, standing.used - standing.plan.monthlyQuota) : 0,
+        },
+        graceEndsAt: account?.pastDueSince ? (graceEndsAt?.toISOString() ?? null) : null,
         plans: offers.map(({ providerPriceId: _p, ...offer }) => offer),
         simulated: billing.simulated,
       } satisfies z.infer<typeof billingOverviewSchema>);
@@ -97,7 +102,10 @@ export const billingRoutes: RouteModule = {
       tags: ['Billing'],
       operationId: 'getBilling',
       summary: 'Plan, billing state, usage and the plans on offer',
-      description: 'Any member of the organisation acted in. The plans on offer carry their monthly price; the internal plan is never listed.',
+      description:
+        'Any member of the organisation acted in. The plans on offer carry their monthly price, overage price and grace days; the internal plan is never listed. ' +
+        'After a failed payment (state past_due) the paid plan stays until graceEndsAt, then the organisation falls back to free until the payment succeeds. ' +
+        'On a plan with overage, usage.overage counts the units beyond the quota this month: they are reported to the provider once a day and billed with the next invoice.',
       security,
       responses: {
         200: { description: 'The billing overview.', content: { 'application/json': { schema: billingOverviewSchema } } },
@@ -114,7 +122,10 @@ export const billingRoutes: RouteModule = {
       summary: 'Upgrade or change the paid plan',
       description:
         'Organisation admins. Without a subscription: creates the provider customer (once) and a hosted checkout in subscription mode, and answers its URL; ' +
-        'the plan changes when the provider confirms payment (webhook). With a subscription in place: moves that subscription to the plan (never a second one).',
+        'the plan changes when the provider confirms payment (webhook). With a subscription in place, that subscription moves to the plan (never a second one): ' +
+        'a dearer plan applies at once and the rest of the period is invoiced now, prorated (outcome changed); ' +
+        'a cheaper one is scheduled: the subscription bills it from the next period, the organisation keeps the plan paid for until the period ends (outcome scheduled). ' +
+        'Choosing the plan paid for again drops a scheduled downgrade or cancellation.',
       security,
       request: { body: { content: { 'application/json': { schema: checkoutRequestSchema } } } },
       responses: {

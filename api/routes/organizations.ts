@@ -64,7 +64,7 @@ export const organizationRoutes: RouteModule = {
 
     router.patch('/:id', validateBody(updateOrganizationRequestSchema), async (req, res) => {
       const { organization, changes } = await organizations.update(idParam(req), res.locals.body as UpdateOrganizationRequest);
-      services.plans.invalidate(organization.id); // a new plan's limits apply from the next call
+      await services.keyEvents.planChanged(organization.id); // a new plan's limits apply from the next call, on every instance
       if (Object.keys(changes).length > 0) {
         await audit.record(auditContext(req, res), {
           action: 'organization.updated',

@@ -48,7 +48,7 @@ export function createServices(deps: AppDeps) {
   const allowedOrigins = createAllowedOrigins({ db, clock });
   // Catalog changes reach the other instances' priced-catalog caches through the key-change channel.
   const catalog = createCatalogService({ db, clock, onChange: (organizationId) => keyEvents.catalogChanged(organizationId) });
-  const keyEvents = createKeyEvents({ database: deps.database, keyCache, allowedOrigins, catalog, logger: deps.logger });
+  const keyEvents = createKeyEvents({ database: deps.database, keyCache, allowedOrigins, catalog, plans, logger: deps.logger });
   const metrics = createMetrics();
   const pricedEstimates = createPricedEstimates(catalog, metrics.timeEngine);
   const projects = createProjectService({ db, clock });
@@ -70,7 +70,17 @@ export function createServices(deps: AppDeps) {
   metrics.readBatchesFrom(() => batchJobs.progress());
   // Billing exists only with a payment provider (or the local simulation server.ts starts).
   const billing = deps.payments
-    ? createBillingService({ db, sdk: createPaymentsClient(deps.payments), connection: deps.payments, plans, mailer, logger: deps.logger, clock, publicUrl: deps.config.publicUrl, adminEmails: (id) => adminEmails(db, id) })
+    ? createBillingService({
+        db,
+        sdk: createPaymentsClient(deps.payments),
+        connection: deps.payments,
+        planChanged: (id) => keyEvents.planChanged(id),
+        mailer,
+        logger: deps.logger,
+        clock,
+        publicUrl: deps.config.publicUrl,
+        adminEmails: (id) => adminEmails(db, id),
+      })
     : undefined;
   return {
     apiKeys,

@@ -10,6 +10,8 @@ export interface Plan {
   maxApiKeys: number;
   /** Sizing work units one key may spend per minute (the cost budget). */
   costPerMinute: number;
+  /** Set: calls beyond the monthly quota go on and are billed (never quota_exceeded). */
+  overage: { per1000Minor: number; currency: string } | null;
 }
 
 interface Entry {
@@ -20,19 +22,30 @@ interface Entry {
 /**
  * The plan of each organisation (plans are rows in `plans`, joined via organizations.plan_id),
  * cached so the rate limiter and the quota check never query on the hot path. A plan change
- * made on another instance is seen within `ttlMs`.
+ * reaches the other instances at once through the key-change channel (`plan:<id>`), and within
+ * `ttlMs` if that channel is down.
  */
 export function createPlanService({ db, clock, ttlMs = 60_000 }: { db: Db; clock: () => Date; ttlMs?: number }) {
   const cache = new Map<string, Entry>();
 
   const load = async (organizationId: string): Promise<Plan> => {
     const [row] = await db
-      .select({ id: plans.id, name: plans.name, monthlyQuota: plans.monthlyQuota, ratePerMinute: plans.ratePerMinute, maxApiKeys: plans.maxApiKeys, costPerMinute: plans.costPerMinute })
+      .select({
+        id: plans.id,
+        name: plans.name,
+        monthlyQuota: plans.monthlyQuota,
+        ratePerMinute: plans.ratePerMinute,
+        maxApiKeys: plans.maxApiKeys,
+        costPerMinute: plans.costPerMinute,
+        overagePer1000Minor: plans.overagePer1000Minor,
+        currency: plans.currency,
+      })
       .from(organizations)
       .innerJoin(plans, eq(plans.id, organizations.planId))
       .where(eq(organizations.id, organizationId));
     if (!row) throw new Error(`organisation ${organizationId} has no plan`);
-    return row;
+    const { overagePer1000Minor, currency, ...plan } = row;
+    return { ...plan, overage: overagePer1000Minor !== null && currency ? { per1000Minor: overagePer1000Minor, currency } : null };
   };
 
   return {
@@ -80,17 +93,35 @@ export async function offeredPlans(db: Db): Promise<PlanOffer[]> {
     ratePerMinute: r.ratePerMinute,
     maxApiKeys: r.maxApiKeys,
     price: r.monthlyPriceMinor !== null && r.currency !== null ? { monthlyMinor: r.monthlyPriceMinor, currency: r.currency } : null,
-    // Plan columns for overage and grace come with migration 0015.
-    overage: null,
-    graceDays: 0,
+    overage: r.overagePer1000Minor !== null ? { per1000Minor: r.overagePer1000Minor } : null,
+    graceDays: r.graceDays,
     providerPriceId: r.providerPriceId,
   }));
 }
 
+/** A price the provider sells, with the meter its overage is reported to (if any). */
+export interface ProviderPrice {
+  id: string;
+  unitAmount: number;
+  currency: string;
+  meter?: { eventName: string; per1000Minor: number };
+}
+
 /** Every plan sold through the provider, for the local simulation's price list. */
-export async function providerPrices(db: Db): Promise<{ id: string; unitAmount: number; currency: string }[]> {
+export async function providerPrices(db: Db): Promise<ProviderPrice[]> {
   const rows = await db.select().from(plans).where(isNotNull(plans.providerPriceId));
-  return rows.flatMap((r) => (r.providerPriceId && r.monthlyPriceMinor !== null && r.currency ? [{ id: r.providerPriceId, unitAmount: r.monthlyPriceMinor, currency: r.currency }] : []));
+  return rows.flatMap((r) =>
+    r.providerPriceId && r.monthlyPriceMinor !== null && r.currency
+      ? [
+          {
+            id: r.providerPriceId,
+            unitAmount: r.monthlyPriceMinor,
+            currency: r.currency,
+            ...(r.overageMeter && r.overagePer1000Minor !== null && { meter: { eventName: r.overageMeter, per1000Minor: r.overagePer1000Minor } }),
+          },
+        ]
+      : [],
+  );
 }
 
 export type PlanService = ReturnType<typeof createPlanService>;

@@ -194,10 +194,14 @@ export function createQuotaService({
     },
   };
 
-  /** Holds `units` more for a call if all of them fit in what is left; none otherwise. */
+  /**
+   * Holds `units` more for a call if all of them fit in what is left; none otherwise. A plan with
+   * overage always has room: the units beyond the quota are billed (billing-overage.ts reports them).
+   */
   const take = (tally: MonthTally, plan: Plan, units: number, ticket: () => QuotaTicket, notify = true): QuotaDecision => {
     const used = tally.base + tally.unsynced + tally.inFlight;
-    if (used + units > plan.monthlyQuota) return { admitted: false, ...standing(tally, plan, used) };
+    const fits = used + units <= plan.monthlyQuota || (plan.overage !== null && Number.isFinite(units));
+    if (!fits) return { admitted: false, ...standing(tally, plan, used) };
     tally.inFlight += units;
     if (notify) warnIfDue(tally, plan, used + units);
     return { admitted: true, ticket: ticket(), ...standing(tally, plan, used + units) };
@@ -265,9 +269,14 @@ function noticeText(orgName: string, percent: number, plan: Plan, used: number, 
   const subject = reached
     ? `Treadwise: ${orgName} has used its monthly quota units`
     : `Treadwise: ${orgName} has used ${percent} % of its monthly quota units`;
-  const consequence = reached
-    ? `Further calls with the organisation's API keys are refused (HTTP 429, quota_exceeded), and running batch jobs stop, until the quota starts again on ${resets} at 00:00 UTC.`
-    : `When all of them are used, calls with the organisation's API keys are refused and running batch jobs stop until the quota starts again on ${resets} at 00:00 UTC.`;
+  const rate = plan.overage ? `${(plan.overage.per1000Minor / 100).toFixed(2)} ${plan.overage.currency.toUpperCase()} per 1 000 units` : '';
+  const consequence = plan.overage
+    ? reached
+      ? `Calls and batch jobs go on: the units beyond the quota are billed as overage (${rate}) with the next invoice, until the quota starts again on ${resets} at 00:00 UTC.`
+      : `When all of them are used, calls and batch jobs go on and the units beyond the quota are billed as overage (${rate}) with the next invoice.`
+    : reached
+      ? `Further calls with the organisation's API keys are refused (HTTP 429, quota_exceeded), and running batch jobs stop, until the quota starts again on ${resets} at 00:00 UTC.`
+      : `When all of them are used, calls with the organisation's API keys are refused and running batch jobs stop until the quota starts again on ${resets} at 00:00 UTC.`;
   const text = [
     'Hello,',
     '',
@@ -276,7 +285,7 @@ function noticeText(orgName: string, percent: number, plan: Plan, used: number, 
     consequence,
     '',
     `Usage by day, key and route: GET ${publicUrl}/v1/usage (or the usage page of the console at ${publicUrl}/).`,
-    'For a larger plan, ask the Treadwise team.',
+    plan.overage ? `Plans and invoices: ${publicUrl}/billing.` : `For a larger plan, see ${publicUrl}/billing.`,
     '',
     '— Treadwise',
   ].join('\n');

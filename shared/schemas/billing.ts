@@ -36,6 +36,13 @@ export const billingOverviewSchema = z
         status: z.string().min(1).max(40).meta({ example: 'active' }),
         currentPeriodEnd: z.iso.datetime().nullable(),
         cancelAtPeriodEnd: z.boolean(),
+        scheduledPlanId: z
+          .string()
+          .min(1)
+          .max(64)
+          .nullable()
+          .optional()
+          .meta({ description: 'A downgrade waiting for the period end: the plan in force from currentPeriodEnd (the current plan stays until then).', example: 'shop' }),
       })
       .nullable(),
     usage: z.strictObject({
@@ -57,7 +64,11 @@ export const checkoutRequestSchema = z
 
 export const checkoutResultSchema = z
   .strictObject({
-    outcome: z.enum(['checkout', 'changed']).meta({ description: 'checkout: open `url` to pay; changed: the subscription in place moved to the plan.' }),
+    outcome: z.enum(['checkout', 'changed', 'scheduled']).meta({
+      description:
+        'checkout: open `url` to pay; changed: the subscription in place moved to the plan now (an upgrade: the rest of the period is invoiced at once, prorated); ' +
+        'scheduled: a cheaper plan, in force from the end of the period already paid (the current plan stays until then).',
+    }),
     url: z.url().max(2000).nullable(),
   })
   .meta({ id: 'CheckoutResult' });

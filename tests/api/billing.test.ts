@@ -104,7 +104,7 @@ describe('billing', () => {
     const after = await request(t.app).post('/v1/calculations/voltage-drop').set(bearer(s.key)).send(VOLTAGE_DROP);
     expect(after.headers['ratelimit-policy']).toContain('"api-key"; q=3000;');
     const now = await request(t.app).get('/v1/billing').set(bearer(s.admin));
-    expect(now.body).toMatchObject({ plan: { id: 'partner' }, state: 'active', subscription: { status: 'active', cancelAtPeriodEnd: false } });
+    expect(now.body).toMatchObject({ plan: { id: 'partner' }, state: 'active', subscription: { status: 'active', cancelAtPeriodEnd: false }, usage: { monthlyQuota: 500000 } });
     const invoices = await request(t.app).get('/v1/billing/invoices').set(bearer(s.admin));
     expect(invoices.body.items.map((i: { status: string; amountPaid: number; currency: string }) => [i.status, i.amountPaid, i.currency])).toEqual([['paid', 9900, 'eur']]);
   });

@@ -11,21 +11,26 @@ beforeAll(async () => {
 afterAll(() => t.close());
 
 describe('plan prices', () => {
-  it('offers free, shop and partner with their monthly prices, never the internal plan', async () => {
+  it('offers free, shop and partner with their monthly prices, overage and grace, never the internal plan', async () => {
     const offers = await offeredPlans(t.database.db);
     expect(offers.map((o) => [o.id, o.price, o.providerPriceId])).toEqual([
       ['free', null, null],
       ['shop', { monthlyMinor: 2900, currency: 'eur' }, 'price_treadwise_shop_monthly'],
       ['partner', { monthlyMinor: 9900, currency: 'eur' }, 'price_treadwise_partner_monthly'],
     ]);
+    expect(offers.map((o) => [o.id, o.overage, o.graceDays])).toEqual([
+      ['free', null, 0],
+      ['shop', null, 7],
+      ['partner', { per1000Minor: 40 }, 7],
+    ]);
     const [platform] = await t.database.db.select().from(plans).where(eq(plans.id, 'platform'));
     expect(platform).toMatchObject({ offered: false, monthlyPriceMinor: null, providerPriceId: null });
   });
 
-  it('gives the simulation exactly the priced plans to sell', async () => {
+  it('gives the simulation exactly the priced plans to sell, with the overage meter', async () => {
     expect((await providerPrices(t.database.db)).sort((a, b) => a.unitAmount - b.unitAmount)).toEqual([
       { id: 'price_treadwise_shop_monthly', unitAmount: 2900, currency: 'eur' },
-      { id: 'price_treadwise_partner_monthly', unitAmount: 9900, currency: 'eur' },
+      { id: 'price_treadwise_partner_monthly', unitAmount: 9900, currency: 'eur', meter: { eventName: 'treadwise_units', per1000Minor: 40 } },
     ]);
   });
 
