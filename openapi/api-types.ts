@@ -1271,6 +1271,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/billing/payment-details": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * A link to change the card at the payment provider
+         * @description Organisation admins. Answers the provider's hosted page (valid for a short while) where the card is changed; after a failed payment, the unpaid invoice is paid with the new card and the plan stays (the webhook confirms it). The page leads back to the console's billing page.
+         */
+        post: operations["openPaymentDetails"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/billing/invoices": {
         parameters: {
             query?: never;
@@ -9182,6 +9202,13 @@ export interface components {
             /** @example partner */
             planId: string;
         };
+        PaymentDetailsLink: {
+            /**
+             * Format: uri
+             * @description The payment provider's hosted page for changing the card; valid for a short while. An unpaid invoice is paid with the new card.
+             */
+            url: string;
+        };
         InvoiceList: {
             items: components["schemas"]["Invoice"][];
         };
@@ -13642,6 +13669,62 @@ export interface operations {
                 };
             };
             /** @description No subscription to cancel. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No payment provider is configured. */
+            503: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    openPaymentDetails: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The link. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["PaymentDetailsLink"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not an admin. */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The organisation has never paid for a plan. */
             409: {
                 headers: {
                     [name: string]: unknown;

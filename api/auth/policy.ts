@@ -108,6 +108,7 @@ export const POLICIES: Record<string, Policy> = {
   'GET /v1/billing': { role: 'viewer' },
   'POST /v1/billing/checkout': { role: 'admin' },
   'POST /v1/billing/cancel': { role: 'admin' },
+  'POST /v1/billing/payment-details': { role: 'admin' },
   'GET /v1/billing/invoices': { role: 'admin' },
   'POST /v1/billing/webhook': { public: true },
 

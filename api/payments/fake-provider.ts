@@ -3,7 +3,7 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import express, { type Request, type Response } from 'express';
 import type { Logger } from 'pino';
-import { fakeStateFile, type FakeEvent, type FakeInvoice, type FakeInvoiceLine, type FakeMeterEvent, type FakeState, type FakeSubscription } from './fake-state.js';
+import { fakeStateFile, type FakeEvent, type FakeInvoice, type FakeInvoiceLine, type FakeMeterEvent, type FakePortalSession, type FakeState, type FakeSubscription } from './fake-state.js';
 import { signPayload } from './signature.js';
 
 /** A price the fake can bill: the plans table supplies them (id, amount in minor units, currency). */
@@ -272,6 +272,16 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     changed();
     res.json(event);
   });
+  api.post('/billing_portal/sessions', (req, res) => {
+    const b = body(req);
+    const customer = text(b.customer);
+    if (!customer || !state.customers[customer]) return void refuse(res, 400, 'No such customer.');
+    const sessionId = id('bps');
+    const session: FakePortalSession = { id: sessionId, object: 'billing_portal.session', customer, return_url: text(b.return_url) ?? null, url: `${baseUrl}/portal/${sessionId}`, created: now(), livemode: false };
+    state.portalSessions[sessionId] = session;
+    changed();
+    res.json(session);
+  });
   api.use((_req, res) => void refuse(res, 404, 'This call is not simulated.'));
   app.use('/v1', api);
 
@@ -432,11 +442,9 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     res.json({ subscription: sub.id, status: sub.status, invoice: invoice.id });
   });
 
-  // A retried payment that goes through: the open invoices are paid, the subscription is active again.
-  app.post('/simulation/subscriptions/:id/pay-open-invoices', (req, res) => {
-    const sub = state.subscriptions[String(req.params.id)];
-    if (!sub || sub.status === 'canceled') return void res.status(404).json({ error: 'no such active subscription' });
-    const open = Object.values(state.invoices).filter((i) => i.subscription === sub.id && i.status === 'open');
+  /** A retried payment that goes through: the open invoices are paid, the subscription is active again. */
+  const payOpenInvoices = (sub: FakeSubscription): FakeInvoice[] => {
+    const open = openInvoicesOf(sub.id);
     for (const invoice of open) {
       Object.assign(invoice, { status: 'paid', amount_paid: invoice.amount_due });
       emit('invoice.paid', invoice);
@@ -444,7 +452,55 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     sub.status = 'active';
     emit('customer.subscription.updated', sub);
     changed();
-    res.json({ subscription: sub.id, paid: open.map((i) => i.id) });
+    return open;
+  };
+  const openInvoicesOf = (subscriptionId: string) => Object.values(state.invoices).filter((i) => i.subscription === subscriptionId && i.status === 'open');
+
+  app.post('/simulation/subscriptions/:id/pay-open-invoices', (req, res) => {
+    const sub = state.subscriptions[String(req.params.id)];
+    if (!sub || sub.status === 'canceled') return void res.status(404).json({ error: 'no such active subscription' });
+    res.json({ subscription: sub.id, paid: payOpenInvoices(sub).map((i) => i.id) });
+  });
+
+  // The hosted payment-details page: a new (simulated) card, with which any unpaid invoice is paid.
+  const PORTAL_TTL_SECONDS = 3600;
+  const portalOr404 = (req: Request, res: Response): FakePortalSession | undefined => {
+    const session = state.portalSessions[String(req.params.id)];
+    if (!session || now() - session.created > PORTAL_TTL_SECONDS) {
+      page(res, 'Link expired', '<p>This payment-details link has expired or does not exist. Open it again from your billing page.</p>', 404);
+      return undefined;
+    }
+    return session;
+  };
+  const liveSubscriptionsOf = (customer: string) => Object.values(state.subscriptions).filter((s) => s.customer === customer && s.status !== 'canceled');
+
+  app.get('/portal/:id', (req, res) => {
+    const session = portalOr404(req, res);
+    if (!session) return;
+    const money = (minor: number, currency: string) => `${(minor / 100).toFixed(2)} ${escape(currency.toUpperCase())}`;
+    const subs = liveSubscriptionsOf(session.customer);
+    const open = subs.flatMap((s) => openInvoicesOf(s.id));
+    const rows = subs.map((s) => `<li>Subscription ${escape(s.items.data[0].price.id)}: ${escape(s.status)}</li>`).join('');
+    const unpaid = open.length
+      ? `<p role="alert">Unpaid: ${open.map((i) => `${escape(i.number)} (${money(i.amount_due, i.currency)})`).join(', ')}.</p>`
+      : '<p>Nothing is unpaid.</p>';
+    const back = session.return_url ? `<p><a href="${escape(session.return_url)}">Back without changes</a></p>` : '';
+    page(
+      res,
+      'Payment details',
+      `<ul>${rows || '<li>No subscription.</li>'}</ul>${unpaid}` +
+        `<form method="post" action="/portal/${escape(session.id)}/card"><button type="submit">Use a new card${open.length ? ' and pay now' : ''} (simulated)</button></form>${back}`,
+    );
+  });
+
+  app.post('/portal/:id/card', (req, res) => {
+    const session = portalOr404(req, res);
+    if (!session) return;
+    for (const sub of liveSubscriptionsOf(session.customer)) {
+      if (sub.status !== 'active' || openInvoicesOf(sub.id).length) payOpenInvoices(sub);
+    }
+    if (session.return_url) return void res.redirect(303, session.return_url);
+    page(res, 'Card saved', '<p>The simulated card is saved. You may close this page.</p>');
   });
 
   const server: Server = createServer(app);

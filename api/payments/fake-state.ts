@@ -10,6 +10,8 @@ export interface FakeState {
   invoices: Record<string, FakeInvoice>;
   /** Usage reported to meters, by identifier (a second event with one is dropped, as the provider does). */
   meterEvents: Record<string, FakeMeterEvent>;
+  /** Hosted payment-details pages handed out (billing portal sessions). */
+  portalSessions: Record<string, FakePortalSession>;
   /** Events not yet acknowledged with a 2xx by the webhook endpoint (a restart resumes them). */
   pending: { event: FakeEvent; attempts: number }[];
 }
@@ -30,6 +32,16 @@ export interface FakeSession {
   price: string;
   declined: boolean;
   created: number;
+}
+
+export interface FakePortalSession {
+  id: string;
+  object: 'billing_portal.session';
+  customer: string;
+  return_url: string | null;
+  url: string;
+  created: number;
+  livemode: false;
 }
 
 export interface FakeSubscription {
@@ -96,7 +108,7 @@ export interface FakeEvent {
   data: { object: unknown };
 }
 
-const empty = (): FakeState => ({ seq: 0, customers: {}, sessions: {}, subscriptions: {}, invoices: {}, meterEvents: {}, pending: [] });
+const empty = (): FakeState => ({ seq: 0, customers: {}, sessions: {}, subscriptions: {}, invoices: {}, meterEvents: {}, portalSessions: {}, pending: [] });
 
 /** The fake's state in one JSON file, replaced atomically (write beside, then rename) after every change. */
 export function fakeStateFile(dataDir: string) {

@@ -1,6 +1,6 @@
 import express, { Router } from 'express';
 import { z } from 'zod';
-import { billingOverviewSchema, checkoutRequestSchema, checkoutResultSchema, invoiceListSchema, webhookReceiptSchema } from '../../shared/schemas/billing.js';
+import { billingOverviewSchema, checkoutRequestSchema, checkoutResultSchema, invoiceListSchema, paymentDetailsLinkSchema, webhookReceiptSchema } from '../../shared/schemas/billing.js';
 import { organizationOf, principalOf } from '../auth/principal.js';
 import { validateBody, validateQuery } from '../middleware/validate.js';
 import { problemResponse } from '../openapi/document.js';
@@ -66,6 +66,11 @@ export const billingRoutes: RouteModule = {
     router.post('/cancel', async (_req, res) => {
       await billingOf(services).cancel(organizationOf(res));
       res.status(204).end();
+    });
+
+    router.post('/payment-details', async (_req, res) => {
+      const url = await billingOf(services).paymentDetails(organizationOf(res), returnUrl);
+      res.json({ url } satisfies z.infer<typeof paymentDetailsLinkSchema>);
     });
 
     router.get('/invoices', validateQuery(invoiceQuerySchema), async (_req, res) => {
@@ -151,6 +156,24 @@ export const billingRoutes: RouteModule = {
         401: problemResponse('No or invalid credentials.'),
         403: problemResponse('Not an admin.'),
         409: problemResponse('No subscription to cancel.'),
+        503: problemResponse('No payment provider is configured.'),
+      },
+    });
+    registry.registerPath({
+      method: 'post',
+      path: '/v1/billing/payment-details',
+      tags: ['Billing'],
+      operationId: 'openPaymentDetails',
+      summary: "A link to change the card at the payment provider",
+      description:
+        "Organisation admins. Answers the provider's hosted page (valid for a short while) where the card is changed; after a failed payment, the unpaid invoice is paid " +
+        'with the new card and the plan stays (the webhook confirms it). The page leads back to the console\'s billing page.',
+      security,
+      responses: {
+        200: { description: 'The link.', content: { 'application/json': { schema: paymentDetailsLinkSchema } } },
+        401: problemResponse('No or invalid credentials.'),
+        403: problemResponse('Not an admin.'),
+        409: problemResponse('The organisation has never paid for a plan.'),
         503: problemResponse('No payment provider is configured.'),
       },
     });

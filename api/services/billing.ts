@@ -262,6 +262,14 @@ export function createBillingService(deps: BillingDeps) {
       await applySubscription(await sdk.subscriptions.update(acc.subscriptionId, { cancel_at_period_end: true }));
     },
 
+    /** The provider's hosted page where an admin changes the card; an unpaid invoice is paid with the new one. */
+    async paymentDetails(organizationId: string, returnUrl: string): Promise<string> {
+      const acc = await account(organizationId);
+      if (!acc) throw new HttpProblem(409, 'no_billing_account', 'No billing account', 'This organisation has never paid for a plan, so it has no payment details to change. Choose a paid plan first.');
+      const session = await sdk.billingPortal.sessions.create({ customer: acc.customerId, return_url: returnUrl });
+      return session.url;
+    },
+
     async invoices(organizationId: string, limit: number) {
       const acc = await account(organizationId);
       if (!acc) return [];

@@ -73,6 +73,10 @@ export const checkoutResultSchema = z
   })
   .meta({ id: 'CheckoutResult' });
 
+export const paymentDetailsLinkSchema = z
+  .strictObject({ url: z.url().max(2000).meta({ description: "The payment provider's hosted page for changing the card; valid for a short while. An unpaid invoice is paid with the new card." }) })
+  .meta({ id: 'PaymentDetailsLink' });
+
 export const invoiceSchema = z
   .strictObject({
     id: z.string().min(1).max(255),

@@ -213,6 +213,33 @@ describe('a failed payment', () => {
     offsetMs = 0;
   });
 
+  it('is put right by the admin on the payment-details page: the unpaid invoice is paid with a new card and the grace ends', async () => {
+    const s = await subscribed('shop');
+    await simulate(s.subscriptionId, 'fail-renewal');
+    expect((await accountOf(s.org.id)).pastDueSince).toBeInstanceOf(Date);
+
+    const link = await request(t.app).post('/v1/billing/payment-details').set(bearer(s.admin)).expect(200);
+    expect(link.body.url).toMatch(new RegExp(`^${fake.url}/portal/`));
+    const page = await (await fetch(link.body.url)).text();
+    expect(page).toContain('no real payment takes place');
+    expect(page).toMatch(/Unpaid: SIM-\d+ \(29\.00 EUR\)/);
+
+    const saved = await fetch(`${link.body.url}/card`, { method: 'POST', redirect: 'manual' });
+    expect(saved.status).toBe(303);
+    expect(saved.headers.get('location')).toBe(`${t.config.publicUrl}/billing`);
+    await fake.drained();
+    expect((await accountOf(s.org.id)).pastDueSince).toBeNull();
+    const overview = await request(t.app).get('/v1/billing').set(bearer(s.admin)).expect(200);
+    expect(overview.body).toMatchObject({ plan: { id: 'shop' }, state: 'active', graceEndsAt: null });
+    expect((await invoices(s.admin)).map((i) => i.status)).toEqual(['paid', 'paid']);
+  });
+
+  it('has no payment-details page for an organisation that never paid', async () => {
+    const s = await shop();
+    const refused = await request(t.app).post('/v1/billing/payment-details').set(bearer(s.admin)).expect(409);
+    expect(refused.body.code).toBe('no_billing_account');
+  });
+
   it('a failure event arriving after the payment went through starts no grace and sends no e-mail', async () => {
     const s = await subscribed('shop');
     const customer = (await accountOf(s.org.id)).customerId;

@@ -2,7 +2,7 @@ import { HttpClient, type HttpResponse } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 
-import type { BillingOverview, CheckoutResult, InvoiceList } from '../core/api-types.js';
+import type { BillingOverview, CheckoutResult, InvoiceList, PaymentDetailsLink } from '../core/api-types.js';
 
 /** Enough for a year of monthly invoices and the odd change of plan. */
 const INVOICE_PAGE = 24;
@@ -25,6 +25,11 @@ export class BillingApi {
   /** Ends the subscription at the period's end; the organisation is back on Free then. */
   cancel(): Observable<void> {
     return this.http.post<void>('/v1/billing/cancel', null);
+  }
+
+  /** The provider's page for a new card; an unpaid invoice is paid with it. */
+  paymentDetails(): Observable<PaymentDetailsLink> {
+    return this.http.post<PaymentDetailsLink>('/v1/billing/payment-details', null);
   }
 
   invoices(): Observable<InvoiceList> {

@@ -78,6 +78,19 @@ describe('describeState', () => {
   });
 });
 
+describe('a downgrade already chosen', () => {
+  const scheduled = () => {
+    const o = subscribed(PARTNER);
+    return { ...o, subscription: { ...o.subscription!, scheduledPlanId: 'shop' } };
+  };
+  it('says which plan takes over and when', () => {
+    expect(describeState(scheduled(), UTC)).toBe('Your Partner plan stays until Jan 1, 2027; then Shop takes over (already chosen).');
+  });
+  it('offers no second switch to the plan already chosen', () => {
+    expect(planAction(scheduled(), SHOP, UTC)).toEqual({ kind: 'unavailable', label: 'Switch to Shop', note: 'Already chosen: takes effect at the end of the period, on Jan 1, 2027.' });
+  });
+});
+
 describe('planAction', () => {
   it('marks the plan in force as current', () => {
     expect(planAction(subscribed(PARTNER), PARTNER, UTC)).toEqual({ kind: 'current', label: 'Current plan' });

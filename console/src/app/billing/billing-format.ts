@@ -73,8 +73,11 @@ export function describeState(overview: BillingOverview, timeZone?: string): str
   const periodEnd = overview.subscription?.currentPeriodEnd ?? null;
   const day = (iso: string | null, otherwise: string) => (iso ? formatDay(iso, timeZone) : otherwise);
   switch (overview.state) {
-    case 'active':
+    case 'active': {
+      const next = overview.plans.find((p) => p.id === overview.subscription?.scheduledPlanId);
+      if (next) return `Your ${plan} plan stays until ${day(periodEnd, 'the end of the period')}; then ${next.name} takes over (already chosen).`;
       return `Your ${plan} plan is active and renews on ${day(periodEnd, 'the next billing date')}.`;
+    }
     case 'ending':
       return `Your ${plan} plan ends on ${day(periodEnd, 'the end of the period')} — back to Free then.`;
     case 'past_due': {
@@ -117,6 +120,7 @@ export function planAction(overview: BillingOverview, offer: PlanOffer, timeZone
     if (overview.state === 'ending') return { kind: 'unavailable', label: `Switch to ${offer.name}`, note: `Already set: your plan ends ${atPeriodEnd}.` };
     return { kind: 'unavailable', label: `Switch to ${offer.name}`, note: 'Your plan was set by the operator: ask them to change it.' };
   }
+  if (offer.id === overview.subscription?.scheduledPlanId) return { kind: 'unavailable', label: `Switch to ${offer.name}`, note: `Already chosen: takes effect ${atPeriodEnd}.` };
   // More units a month than the plan in force is an upgrade, whether or not that plan is on offer.
   if (offer.monthlyQuota > overview.usage.monthlyQuota) return { kind: 'checkout', label: `Upgrade to ${offer.name}` };
   const subscribed = LIVE.has(overview.state) || overview.state === 'ending';

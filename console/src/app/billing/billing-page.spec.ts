@@ -123,6 +123,26 @@ describe('BillingPage', () => {
     expect(text('[data-testid="invoice-status"]')).toBe('Due');
   });
 
+  it('after a failed payment: sends the admin to the provider’s page to change the card, once', async () => {
+    await render('admin');
+    await answerOverview(subscribed(SHOP, { state: 'past_due', graceEndsAt: '2026-12-09T10:00:00.000Z' }));
+    await answerInvoices([]);
+    const card = page().querySelector<HTMLButtonElement>('[data-testid="billing-payment-details"]')!;
+    expect(card.textContent?.trim()).toBe('Update payment details and pay');
+    card.click();
+    await settle();
+    http.expectOne((r) => r.method === 'POST' && r.url === '/v1/billing/payment-details').flush({ url: 'http://127.0.0.1:4999/portal/bps_1' });
+    await settle();
+    expect(leftFor).toEqual(['http://127.0.0.1:4999/portal/bps_1']);
+    expect(card.disabled).toBe(true);
+  });
+
+  it('shows a viewer no payment-details button', async () => {
+    await render('viewer');
+    await answerOverview(subscribed(SHOP, { state: 'past_due', graceEndsAt: '2026-12-09T10:00:00.000Z' }));
+    expect(page().querySelector('[data-testid="billing-payment-details"]')).toBeNull();
+  });
+
   it('says what the API answered when billing cannot be loaded', async () => {
     await render('admin');
     http

@@ -65,6 +65,8 @@ export class BillingPage implements OnInit {
   protected readonly confirming = signal<Confirming>('no');
   /** The plan whose button was pressed, while its change is on its way. */
   protected readonly busyPlan = signal<string | null>(null);
+  /** True once the payment-details link is asked for: the browser is about to leave. */
+  protected readonly leavingForCard = signal(false);
   protected readonly mayManage = computed(() => roleMay(this.auth.role(), 'billing:manage'));
 
   protected readonly overview = computed(() => {
@@ -173,6 +175,18 @@ export class BillingPage implements OnInit {
       this.tell(problemMessage(error));
     }
     this.busyPlan.set(null);
+  }
+
+  /** Off to the provider's page to change the card; it sends the browser back here. */
+  protected async openPaymentDetails(): Promise<void> {
+    if (this.leavingForCard()) return;
+    this.leavingForCard.set(true);
+    try {
+      this.leaveFor((await firstValueFrom(this.api.paymentDetails())).url);
+    } catch (error) {
+      this.tell(problemMessage(error));
+      this.leavingForCard.set(false);
+    }
   }
 
   private async cancel(overview: BillingOverview, free: PlanOffer): Promise<void> {

@@ -84,5 +84,6 @@ export type BillingOverview = Schemas['BillingOverview'];
 export type BillingState = BillingOverview['state'];
 export type PlanOffer = Schemas['PlanOffer'];
 export type CheckoutResult = Schemas['CheckoutResult'];
+export type PaymentDetailsLink = Schemas['PaymentDetailsLink'];
 export type Invoice = Schemas['Invoice'];
 export type InvoiceList = Schemas['InvoiceList'];
