@@ -1180,7 +1180,7 @@ export interface paths {
         };
         /**
          * The estimator element script (one version, immutable)
-         * @description The same script under its version: cached for a year, never changed. Load it with the `integrity` of the manifest.
+         * @description The same script under its version: cached for a year, never changed, and still served after later releases. Load it with the `integrity` of the manifest.
          */
         get: operations["getEmbedScriptVersion"];
         put?: never;

@@ -502,3 +502,15 @@ export const overageReports = pgTable(
   },
   (t) => [primaryKey({ columns: [t.organizationId, t.day] })],
 );
+
+/**
+ * Every estimator script this deployment has served, by version: a shop that pinned a versioned
+ * URL with its SRI hash keeps working after the next release (one instance publishes, all serve).
+ */
+export const embedScripts = pgTable('embed_scripts', {
+  version: text('version').primaryKey(),
+  /** The script as built (UTF-8 JavaScript; stored as text, sent back byte for byte). */
+  script: text('script').notNull(),
+  integrity: text('integrity').notNull(),
+  createdAt: createdAt(),
+});

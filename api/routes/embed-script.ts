@@ -9,6 +9,8 @@ import type { RouteModule } from './route-module.js';
 /** The moving name is re-checked within minutes of a release; the versioned copy never changes. */
 const MOVING_CACHE = 'public, max-age=300, must-revalidate';
 const IMMUTABLE_CACHE = 'public, max-age=31536000, immutable';
+/** What `npm run build:embed` names a version: the release and a content hash. */
+const VERSION_PATTERN = /^[0-9A-Za-z.+-]{1,64}$/;
 
 /**
  * Shops load the script from their own pages: helmet's same-origin resource policy would block
@@ -33,27 +35,37 @@ const manifestSchema = z
 export const embedScriptRoutes: RouteModule = {
   basePath: EMBED_BASE_PATH,
 
-  router({ config }) {
+  router({ config }, services) {
     // Read once: the script changes only with a new build, which is a new start.
     const bundle: EmbedBundle | undefined = readEmbedBundle(config.embedDir);
+    if (bundle) void services.embedScripts.remember(bundle);
     const built = (): EmbedBundle => {
       if (!bundle) throw problems.notFound('The estimator script is not built on this server (npm run build:embed).');
       return bundle;
     };
-    const sendScript = (res: Response, b: EmbedBundle, cacheControl: string) => {
+    const sendScript = (res: Response, version: string, script: Buffer, cacheControl: string) => {
       res.setHeader('Cache-Control', cacheControl);
-      res.setHeader('ETag', `"${b.manifest.version}"`);
+      res.setHeader('ETag', `"${version}"`);
       res.type('text/javascript; charset=utf-8');
-      res.send(b.script); // answers 304 to a matching If-None-Match
+      res.send(script); // answers 304 to a matching If-None-Match
     };
 
     const router = Router();
     router.use(openToShops, compression());
-    router.get(`/${EMBED_SCRIPT_FILE}`, (_req, res) => sendScript(res, built(), MOVING_CACHE));
-    router.get(`/:version/${EMBED_SCRIPT_FILE}`, (req, res) => {
+    router.get(`/${EMBED_SCRIPT_FILE}`, (_req, res) => {
       const b = built();
-      if (req.params.version !== b.manifest.version) throw problems.notFound(`No estimator script of version ${req.params.version} here; the current one is ${b.manifest.version}.`);
-      sendScript(res, b, IMMUTABLE_CACHE);
+      sendScript(res, b.manifest.version, b.script, MOVING_CACHE);
+    });
+    router.get(`/:version/${EMBED_SCRIPT_FILE}`, async (req, res) => {
+      const { version } = req.params;
+      if (bundle && version === bundle.manifest.version) return sendScript(res, version, bundle.script, IMMUTABLE_CACHE);
+      // An earlier release's script, as this deployment first served it.
+      const script = VERSION_PATTERN.test(version) ? await services.embedScripts.find(version) : undefined;
+      if (!script) {
+        const current = bundle ? `; the current one is ${bundle.manifest.version}` : '';
+        throw problems.notFound(`No estimator script of version ${version.slice(0, 64)} here${current}.`);
+      }
+      sendScript(res, version, script, IMMUTABLE_CACHE);
     });
     router.get(`/${EMBED_MANIFEST_FILE}`, (_req, res) => {
       const { version, integrity, url, bytes, gzipBytes } = built().manifest;
@@ -90,7 +102,7 @@ export const embedScriptRoutes: RouteModule = {
       operationId: 'getEmbedScriptVersion',
       security: [],
       summary: 'The estimator element script (one version, immutable)',
-      description: 'The same script under its version: cached for a year, never changed. Load it with the `integrity` of the manifest.',
+      description: 'The same script under its version: cached for a year, never changed, and still served after later releases. Load it with the `integrity` of the manifest.',
       request: { params: z.object({ version: z.string().min(1).max(64).meta({ description: 'The version from the manifest.', example: '0.1.0-28e3e4ccde33' }) }) },
       responses: { 200: { description: 'The script.', headers: cors, content: script }, 404: notBuilt },
     });

@@ -6,6 +6,7 @@ import type { AppDeps } from '../deps.js';
 import { createApiKeyService } from './api-keys.js';
 import { createAuditService } from './audit.js';
 import { createCatalogService } from './catalog.js';
+import { createEmbedScriptArchive } from '../embed/script-archive.js';
 import { createPricedEstimates } from './priced-estimates.js';
 import { createProjectService } from './projects.js';
 import { createStairService } from './stairs.js';
@@ -82,7 +83,9 @@ export function createServices(deps: AppDeps) {
         adminEmails: (id) => adminEmails(db, id),
       })
     : undefined;
+  const embedScripts = createEmbedScriptArchive({ db, logger: deps.logger });
   return {
+    embedScripts,
     apiKeys,
     keyCache,
     keyEvents,

@@ -5,6 +5,7 @@ import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { EmbedManifest } from '../../api/embed/bundle.js';
+import { anotherInstance, closeTraffic } from '../support/app-instance.js';
 import { createTestApp, type TestApp } from '../support/test-app.js';
 
 // A stand-in for the built element: the routes serve whatever `npm run build:embed` wrote.
@@ -77,6 +78,30 @@ describe('the estimator script', () => {
     await request(t.app).get('/embed/v1/other.js').expect(404);
     const missing = await request(unbuilt.app).get('/embed/v1/treadwise-estimator.js').expect(404);
     expect(missing.body.code).toBe('not_found');
+  });
+
+  it('keeps serving an earlier release’s versioned URL, byte for byte, after a new build is deployed', async () => {
+    const nextDir = mkdtempSync(path.join(tmpdir(), 'treadwise-embed-next-'));
+    const next = Buffer.from(`(()=>{/* ${'next release '.repeat(100)} */})();\n`);
+    const nextManifest: EmbedManifest = { ...manifest, version: '0.2.0-fedcba987654', url: '/embed/v1/0.2.0-fedcba987654/treadwise-estimator.js', bytes: next.length };
+    writeFileSync(path.join(nextDir, 'treadwise-estimator.js'), next);
+    writeFileSync(path.join(nextDir, 'manifest.json'), JSON.stringify(nextManifest));
+    const upgraded = anotherInstance(t, { EMBED_DIR: nextDir });
+    try {
+      // The earlier release stored its script when it started (asynchronously, so wait for it).
+      await expect.poll(async () => (await request(upgraded).get(manifest.url)).status, { timeout: 5000, interval: 50 }).toBe(200);
+      const old = await request(upgraded).get(manifest.url).buffer(true).parse(asBytes).expect(200);
+      expect(old.headers['cache-control']).toBe('public, max-age=31536000, immutable');
+      expectOpenToShops(old);
+      // The shop's pinned integrity attribute still matches.
+      expect(`sha384-${createHash('sha384').update(old.body as Buffer).digest('base64')}`).toBe(manifest.integrity);
+      const moving = await request(upgraded).get('/embed/v1/treadwise-estimator.js').buffer(true).parse(asBytes).expect(200);
+      expect(Buffer.compare(moving.body as Buffer, next)).toBe(0);
+      await request(upgraded).get('/embed/v1/0.0.1-never/treadwise-estimator.js').expect(404);
+    } finally {
+      await closeTraffic(upgraded);
+      rmSync(nextDir, { recursive: true, force: true });
+    }
   });
 
   it('keeps helmet’s same-origin policy everywhere else', async () => {
