@@ -9,6 +9,8 @@ import { signPayload } from './signature.js';
 /** A price the fake can bill: the plans table supplies them (id, amount in minor units, currency). */
 export interface FakePrice {
   id: string;
+  /** What the hosted pages call it (the provider's product name). */
+  name?: string;
   unitAmount: number;
   currency: string;
   /** The meter whose events this price bills beyond the plan (per 1 000 units), if any. */
@@ -339,7 +341,7 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     page(
       res,
       'Subscribe',
-      `${declined}<p>Subscription: <strong>${escape(session.price)}</strong>, ${escape(amount)}.</p>` +
+      `${declined}<p>Subscription: <strong>${escape(price?.name ?? session.price)}</strong>, ${escape(amount)}.</p>` +
         `<form method="post" action="/checkout/${escape(session.id)}/pay" style="display:inline"><button type="submit">Pay (simulated)</button></form>` +
         `<form method="post" action="/checkout/${escape(session.id)}/decline" style="display:inline"><button type="submit">Decline (simulated)</button></form>`,
     );
@@ -480,7 +482,7 @@ export async function startFakeProvider(options: FakeProviderOptions): Promise<F
     const money = (minor: number, currency: string) => `${(minor / 100).toFixed(2)} ${escape(currency.toUpperCase())}`;
     const subs = liveSubscriptionsOf(session.customer);
     const open = subs.flatMap((s) => openInvoicesOf(s.id));
-    const rows = subs.map((s) => `<li>Subscription ${escape(s.items.data[0].price.id)}: ${escape(s.status)}</li>`).join('');
+    const rows = subs.map((s) => `<li>${escape(prices.get(s.items.data[0].price.id)?.name ?? s.items.data[0].price.id)}: ${escape(s.status)}</li>`).join('');
     const unpaid = open.length
       ? `<p role="alert">Unpaid: ${open.map((i) => `${escape(i.number)} (${money(i.amount_due, i.currency)})`).join(', ')}.</p>`
       : '<p>Nothing is unpaid.</p>';

@@ -102,6 +102,7 @@ export async function offeredPlans(db: Db): Promise<PlanOffer[]> {
 /** A price the provider sells, with the meter its overage is reported to (if any). */
 export interface ProviderPrice {
   id: string;
+  name: string;
   unitAmount: number;
   currency: string;
   meter?: { eventName: string; per1000Minor: number };
@@ -115,6 +116,7 @@ export async function providerPrices(db: Db): Promise<ProviderPrice[]> {
       ? [
           {
             id: r.providerPriceId,
+            name: `Treadwise ${r.name} plan`,
             unitAmount: r.monthlyPriceMinor,
             currency: r.currency,
             ...(r.overageMeter && r.overagePer1000Minor !== null && { meter: { eventName: r.overageMeter, per1000Minor: r.overagePer1000Minor } }),

@@ -223,6 +223,7 @@ describe('a failed payment', () => {
     const page = await (await fetch(link.body.url)).text();
     expect(page).toContain('no real payment takes place');
     expect(page).toMatch(/Unpaid: SIM-\d+ \(29\.00 EUR\)/);
+    expect(page).toContain('Treadwise Shop plan: past_due');
 
     const saved = await fetch(`${link.body.url}/card`, { method: 'POST', redirect: 'manual' });
     expect(saved.status).toBe(303);

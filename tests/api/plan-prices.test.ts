@@ -29,8 +29,8 @@ describe('plan prices', () => {
 
   it('gives the simulation exactly the priced plans to sell, with the overage meter', async () => {
     expect((await providerPrices(t.database.db)).sort((a, b) => a.unitAmount - b.unitAmount)).toEqual([
-      { id: 'price_treadwise_shop_monthly', unitAmount: 2900, currency: 'eur' },
-      { id: 'price_treadwise_partner_monthly', unitAmount: 9900, currency: 'eur', meter: { eventName: 'treadwise_units', per1000Minor: 40 } },
+      { id: 'price_treadwise_shop_monthly', name: 'Treadwise Shop plan', unitAmount: 2900, currency: 'eur' },
+      { id: 'price_treadwise_partner_monthly', name: 'Treadwise Partner plan', unitAmount: 9900, currency: 'eur', meter: { eventName: 'treadwise_units', per1000Minor: 40 } },
     ]);
   });
 
