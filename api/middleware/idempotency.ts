@@ -1,5 +1,5 @@
 import { createCipheriv, createDecipheriv, createHash, createHmac, randomBytes } from 'node:crypto';
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { and, eq, lt } from 'drizzle-orm';
 import type { Db } from '../db/client.js';
 import { idempotencyRecords } from '../db/schema.js';
@@ -47,6 +47,11 @@ interface IdempotencyOptions {
   pepper: Buffer;
   /** Set on routes whose answer carries a secret: replays end after this long instead of 24 h. */
   secretReplayMs?: number;
+  /**
+   * What the request carries beyond its parsed body (an uploaded file, read from disk), so the
+   * same key with another file is a 422 and not a replay of the first file's answer.
+   */
+  fingerprint?: (req: Request) => Promise<string | undefined>;
 }
 
 const inProgress = () => new HttpProblem(409, 'idempotency_request_in_progress', 'Request in progress', 'A request with this Idempotency-Key is still running.');
@@ -57,7 +62,7 @@ const inProgress = () => new HttpProblem(409, 'idempotency_request_in_progress',
  * header marks it; the same key with another body is a 422, and a retry while the first is
  * still running a 409.
  */
-export function idempotent({ db, clock, pepper, secretReplayMs }: IdempotencyOptions): RequestHandler {
+export function idempotent({ db, clock, pepper, secretReplayMs, fingerprint }: IdempotencyOptions): RequestHandler {
   const { seal, open } = sealer(pepper);
   return async (req, res, next) => {
     const key = req.get('Idempotency-Key');
@@ -70,8 +75,9 @@ export function idempotent({ db, clock, pepper, secretReplayMs }: IdempotencyOpt
     // made the first call, a key's within that key.
     const credential = principal.type === 'user' ? `${actorRef(principal)}/${principal.sessionId}` : actorRef(principal);
     const owner = `${credential}@${principal.type === 'anonymous' ? '-' : (principal.organizationId ?? '-')}`;
+    const extra = fingerprint ? await fingerprint(req) : undefined;
     const requestHash = createHash('sha256')
-      .update(`${req.method} ${req.baseUrl}${req.path}\n${JSON.stringify(req.body ?? null)}`)
+      .update(`${req.method} ${req.baseUrl}${req.path}\n${JSON.stringify(req.body ?? null)}${extra === undefined ? '' : `\n${extra}`}`)
       .digest('hex');
     const where = and(eq(idempotencyRecords.owner, owner), eq(idempotencyRecords.key, key));
     const now = clock();

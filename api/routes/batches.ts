@@ -1,4 +1,7 @@
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
 import { unlink } from 'node:fs/promises';
+import { pipeline } from 'node:stream/promises';
 import { tmpdir } from 'node:os';
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
@@ -75,6 +78,22 @@ const validateJobJson = validateBody(createBatchJobSchema);
 /** Multipart (a file) or JSON (items): each read its own way. */
 const receiveInput: RequestHandler = (req, res, next) => (req.is('multipart/form-data') ? receiveFile(req, res, next) : validateJobJson(req, res, next));
 
+/** The uploaded file is removed once the answer is out, whether a job was made or a replay answered. */
+const removeUploadWhenDone: RequestHandler = (req, res, next) => {
+  const file = req.file;
+  if (file) res.once('close', () => void unlink(file.path).catch(() => undefined));
+  next();
+};
+
+/** An upload's bytes, name and type, so an Idempotency-Key reused with another file is told apart. */
+async function uploadFingerprint(req: Request): Promise<string | undefined> {
+  const file = req.file;
+  if (!file) return undefined;
+  const hash = createHash('sha256');
+  await pipeline(createReadStream(file.path), hash);
+  return `${file.originalname}\n${file.mimetype}\n${hash.digest('hex')}`;
+}
+
 /** Who created the job, and the key id its rows' usage is counted under (as the creating call's was). */
 function creatorOf(res: Response): Pick<NewJob, 'createdBy' | 'meteredKeyId'> {
   const p = principalOf(res);
@@ -121,8 +140,10 @@ export const batchRoutes: RouteModule = {
     router.post(
       '/',
       validateQuery(createBatchJobQuerySchema),
-      idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper }),
+      // After the upload is read, so the file's bytes are part of what the key stands for.
       receiveInput,
+      removeUploadWhenDone,
+      idempotent({ db: deps.database.db, clock: deps.clock, pepper: deps.secrets.pepper, fingerprint: uploadFingerprint }),
       async (req, res) => {
         const { detail } = res.locals.query as { detail: BatchDetail };
         const base = { organizationId: organizationOf(res), detail, ...creatorOf(res) };

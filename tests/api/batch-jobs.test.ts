@@ -187,6 +187,21 @@ describe('POST /v1/batches with a file', () => {
     expect(csv.text).toBe(writeCsv([BATCH_RESULT_COLUMNS, ...ndjson.map(batchResultRow)]));
   });
 
+  it('tells uploads apart under one Idempotency-Key: the same file is replayed, another file is a 422', async () => {
+    const key = `upload-${randomBytes(4).toString('hex')}`;
+    const count = async () => (await t.database.db.select({ id: batchJobs.id }).from(batchJobs).where(eq(batchJobs.organizationId, orgId))).length;
+    const before = await count();
+    const file = csvOf(ITEMS.slice(0, 2));
+    const first = await upload(batchKey, file, 'plots.csv', 'text/csv').set('Idempotency-Key', key).expect(202);
+    const again = await upload(batchKey, file, 'plots.csv', 'text/csv').set('Idempotency-Key', key).expect(202);
+    expect(again.body).toEqual(first.body);
+    // Same name, same size class, other rows: not the request the key stands for.
+    const other = await upload(batchKey, csvOf(ITEMS.slice(1, 3)), 'plots.csv', 'text/csv').set('Idempotency-Key', key).expect(422);
+    expect(other.body.code).toBe('idempotency_key_reused');
+    expect(await count()).toBe(before + 1);
+    await jobs().drain();
+  });
+
   it('reads NDJSON line by line: a line that is not JSON is its own error', async () => {
     const text = [JSON.stringify(ITEMS[0]), '{ not json', '', JSON.stringify({ ref: 'Corridor', request: quaysideCorridor }), JSON.stringify({ request: alderRowTownhouse, extra: 1 })].join('\n');
     const created = await upload(batchKey, text, 'plots.ndjson', 'application/octet-stream').expect(202);
