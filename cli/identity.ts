@@ -24,9 +24,10 @@ export interface Identity {
 }
 
 /**
- * The API has no "who am I" route for keys, so this asks what it can: GET /v1/organizations (a key
- * sees only its own; needs usage:read) and GET /v1/keys (its own row; needs keys:manage). A 403
- * still proves the key valid; a 401 is the one failure.
+ * A server key asks GET /v1/keys/current (its row, organisation and plan, whatever its scopes).
+ * An embed key, or a server older than that route, falls back to what it may read:
+ * GET /v1/organizations (needs usage:read) and GET /v1/keys (needs keys:manage). A 403 still
+ * proves the key valid; a 401 is the one failure.
  */
 export async function identify(io: CliIo, target: Required<ApiTarget>): Promise<Identity> {
   const api = createApiClient(io, target);
@@ -48,6 +49,16 @@ export async function identify(io: CliIo, target: Required<ApiTarget>): Promise<
     if (me.error !== undefined) throw new CliError(problemLine(me.error, me.response));
     identity.user = me.data;
     return identity;
+  }
+
+  if (parsed.kind === 'server') {
+    const current = await api.GET('/v1/keys/current');
+    if (current.data) {
+      identity.key = current.data.key;
+      identity.organization = current.data.organization;
+      return identity;
+    }
+    if (current.response.status !== 404) throw new CliError(problemLine(current.error, current.response));
   }
 
   const orgs = await api.GET('/v1/organizations', { params: { query: { limit: 1 } } });

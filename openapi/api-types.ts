@@ -245,6 +245,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/keys/current": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The server key making the call
+         * @description Any server key, whatever its scopes: its own row (name, scopes, expiry, last use; never the secret), its organisation and the plan it runs under. Signed-in users get 403 `keys_only` (they have `GET /v1/auth/me`); embed keys get 403.
+         */
+        get: operations["getCurrentApiKey"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/keys/{id}": {
         parameters: {
             query?: never;
@@ -7247,6 +7267,37 @@ export interface components {
          * @enum {string}
          */
         KeyKind: "server" | "embed";
+        /** @description The server key that made the call: its own row (never its secret), its organisation and plan. */
+        CurrentKey: {
+            key: components["schemas"]["ApiKey"];
+            organization: components["schemas"]["Organization"];
+            /** @description The plan whose limits the key runs under. */
+            plan: {
+                id: string;
+                name: string;
+            };
+        };
+        /**
+         * @example {
+         *       "id": "7c1e9b52-3d4a-4e8f-b6a1-2f0d5c8e9a71",
+         *       "slug": "harbor-lane",
+         *       "name": "Harbor Lane Lighting",
+         *       "planId": "shop",
+         *       "createdAt": "2026-11-01T08:00:00.000Z",
+         *       "updatedAt": "2026-11-01T08:00:00.000Z"
+         *     }
+         */
+        Organization: {
+            /** Format: uuid */
+            id: string;
+            slug: string;
+            name: string;
+            planId: string;
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            updatedAt: string;
+        };
         ApiKeyWithToken: {
             key: components["schemas"]["ApiKey"];
             /**
@@ -7601,27 +7652,6 @@ export interface components {
             items: components["schemas"]["Organization"][];
             /** @description Pass as `cursor` for the next page; `null` on the last page. */
             nextCursor: string | null;
-        };
-        /**
-         * @example {
-         *       "id": "7c1e9b52-3d4a-4e8f-b6a1-2f0d5c8e9a71",
-         *       "slug": "harbor-lane",
-         *       "name": "Harbor Lane Lighting",
-         *       "planId": "shop",
-         *       "createdAt": "2026-11-01T08:00:00.000Z",
-         *       "updatedAt": "2026-11-01T08:00:00.000Z"
-         *     }
-         */
-        Organization: {
-            /** Format: uuid */
-            id: string;
-            slug: string;
-            name: string;
-            planId: string;
-            /** Format: date-time */
-            createdAt: string;
-            /** Format: date-time */
-            updatedAt: string;
         };
         CreatedOrganization: {
             /** Format: uuid */
@@ -10004,6 +10034,44 @@ export interface operations {
             };
             /** @description Idempotency-Key reused with another body. */
             422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getCurrentApiKey: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The key, its organisation and plan. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["CurrentKey"];
+                };
+            };
+            /** @description No or invalid credentials. */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not a server key. */
+            403: {
                 headers: {
                     [name: string]: unknown;
                 };

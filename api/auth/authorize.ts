@@ -26,11 +26,16 @@ export const authorize: RequestHandler = (req, res, next) => {
     case 'anonymous':
       throw problems.unauthenticated(undefined, 'credential_missing');
     case 'api_key':
+      if (policy.serverKeyItself) {
+        if (p.kind === 'embed') throw problems.forbidden('Embed keys may only run sizing.', 'embed_key_not_allowed');
+        return next();
+      }
       if (!policy.scope) throw problems.forbidden('This route is for signed-in users, not API keys.', 'keys_not_allowed');
       if (p.kind === 'embed' && !policy.embed) throw problems.forbidden('Embed keys may only run sizing.', 'embed_key_not_allowed');
       if (!scopeGranted(p.scopes, policy.scope)) throw problems.forbidden(`This key lacks the scope ${policy.scope}.`, 'insufficient_scope');
       return next();
     case 'user':
+      if (policy.serverKeyItself) throw problems.forbidden('This route describes the API key that calls it; signed-in users have GET /v1/auth/me.', 'keys_only');
       if (policy.operator && !p.operator) throw problems.forbidden('Only the platform operator may do this.', 'operator_only');
       if (policy.role) {
         if (!p.organizationId || !p.role) {

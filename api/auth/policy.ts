@@ -12,6 +12,8 @@ export type Policy =
       public?: false;
       /** Scope an API key needs; absent: keys may not call the route. */
       scope?: Scope;
+      /** Any server key, whatever its scopes (the route describes that key itself); signed-in users may not call it. */
+      serverKeyItself?: true;
       /** Least role a user needs in the organisation; absent: any signed-in user. */
       role?: Role;
       /** Only the platform operator (users only). */
@@ -72,6 +74,8 @@ export const POLICIES: Record<string, Policy> = {
 
   'GET /v1/keys': keysAdmin,
   'POST /v1/keys': keysAdmin,
+  // Who am I, for a server key: its own row and organisation (before /:id, which would match "current").
+  'GET /v1/keys/current': { serverKeyItself: true, quotaFree: true },
   'GET /v1/keys/:id': keysAdmin,
   'POST /v1/keys/:id/rotate': keysAdmin,
   'POST /v1/keys/:id/revoke': keysAdmin,

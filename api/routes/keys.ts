@@ -5,6 +5,7 @@ import {
   apiKeySchema,
   apiKeyWithTokenSchema,
   createApiKeyRequestSchema,
+  currentKeySchema,
   rotateApiKeyRequestSchema,
   type CreateApiKeyRequest,
 } from '../../shared/schemas/api-keys.js';
@@ -117,6 +118,15 @@ export const keyRoutes: RouteModule = {
       res.status(201).json({ key, requestId: String(req.id), token });
     });
 
+    router.get('/current', async (_req, res) => {
+      const p = principalOf(res);
+      if (p.type !== 'api_key') throw new Error('GET /v1/keys/current reached without a key'); // authorize() lets only keys through
+      const organization = await services.organizations.get(p.organizationId);
+      if (!organization) throw new HttpProblem(404, 'not_found', 'Not found', 'The organisation of this key no longer exists.');
+      const [key, plan] = await Promise.all([apiKeys.get(p.organizationId, p.apiKeyId), services.plans.forOrganization(p.organizationId)]);
+      res.json({ key, organization, plan: { id: plan.id, name: plan.name } } satisfies z.input<typeof currentKeySchema>);
+    });
+
     router.get('/:id', async (req, res) => {
       res.json(await apiKeys.get(organizationOf(res), idParam(req)));
     });
@@ -167,6 +177,22 @@ export const keyRoutes: RouteModule = {
         200: { description: 'A page of keys.', content: { 'application/json': { schema: apiKeyPageSchema } } },
         400: problemResponse('A malformed or unknown query parameter (`validation_failed`) or cursor (`invalid_cursor`).'),
         ...problems,
+      },
+    });
+    registry.registerPath({
+      method: 'get',
+      path: '/v1/keys/current',
+      tags: ['API keys'],
+      operationId: 'getCurrentApiKey',
+      summary: 'The server key making the call',
+      description:
+        'Any server key, whatever its scopes: its own row (name, scopes, expiry, last use; never the secret), its organisation and the plan it runs under. ' +
+        'Signed-in users get 403 `keys_only` (they have `GET /v1/auth/me`); embed keys get 403.',
+      security,
+      responses: {
+        200: { description: 'The key, its organisation and plan.', content: { 'application/json': { schema: currentKeySchema } } },
+        401: problemResponse('No or invalid credentials.'),
+        403: problemResponse('Not a server key.'),
       },
     });
     registry.registerPath({

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { SCOPE_VALUES } from '../tables/access.js';
+import { organizationSchema } from './accounts.js';
 import { createdByRequestIdSchema } from './common.js';
 import { pageOf } from './page.js';
 import { nameText } from './text.js';
@@ -94,5 +95,13 @@ export const apiKeyWithTokenSchema = z
   .meta({ id: 'ApiKeyWithToken' });
 
 export const apiKeyPageSchema = pageOf(apiKeySchema, 'ApiKeyPage');
+
+export const currentKeySchema = z
+  .object({
+    key: apiKeySchema,
+    organization: organizationSchema,
+    plan: z.object({ id: z.string(), name: z.string() }).meta({ description: 'The plan whose limits the key runs under.' }),
+  })
+  .meta({ id: 'CurrentKey', description: 'The server key that made the call: its own row (never its secret), its organisation and plan.' });
 
 export type CreateApiKeyRequest = z.output<typeof createApiKeyRequestSchema>;

@@ -70,6 +70,8 @@ afterAll(() => t.close());
 /** The expected outcome, read from the policy by rules stated here rather than by authorize(). */
 function expected(policy: Policy, cred: Credential): 'allow' | 'deny' {
   if (policy.public) return 'allow';
+  // A key's own description: every server key, nobody else.
+  if (policy.serverKeyItself) return cred.as.kind === 'key' && !cred.as.embed ? 'allow' : 'deny';
   if (cred.as.kind === 'user') {
     if (policy.operator) return cred.as.operator ? 'allow' : 'deny';
     if (!policy.role) return 'allow';

@@ -353,3 +353,22 @@ describe('limits on keys per organisation', () => {
     advance(3600_000);
   });
 });
+
+describe('GET /v1/keys/current', () => {
+  it('tells any server key, whatever its scopes, its own row, organisation and plan, and never its secret', async () => {
+    const { key, token } = await newSecretKey(['sizing:run']);
+    const res = await as(token).get('/v1/keys/current').expect(200);
+    expect(res.body.key).toMatchObject({ id: key.id, keyId: key.keyId, name: 'Checkout server', scopes: ['sizing:run'] });
+    expect(res.body.organization).toMatchObject({ id: orgA.id, slug: 'harbor-lane-test' });
+    expect(res.body.plan).toEqual({ id: 'platform', name: expect.any(String) });
+    expect(JSON.stringify(res.body)).not.toContain(parseKey(token)!.secret);
+  });
+
+  it('is refused to embed keys and to signed-in users, and a revoked key is unknown', async () => {
+    const embed = await createKey(t, orgB.id, { kind: 'embed', allowedOrigins: ['https://shop.kestrelfinch.test'] });
+    expect((await as(embed.token).get('/v1/keys/current').set('Origin', 'https://shop.kestrelfinch.test').expect(403)).body.code).toBe('embed_key_not_allowed');
+    const { key, token } = await newSecretKey(['sizing:run']);
+    await as(managerA).post(`/v1/keys/${key.id}/revoke`).expect(200);
+    expect((await as(token).get('/v1/keys/current').expect(401)).body.code).toBe('credential_revoked');
+  });
+});

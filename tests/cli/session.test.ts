@@ -72,11 +72,21 @@ describe('treadwise login, whoami, logout', () => {
     expect(JSON.parse(viaFlags.stdout).credential.keyId).toBe(s.keyId);
   });
 
-  it('says what a key with few scopes cannot see, instead of failing', async () => {
+  it('shows a server key with a single scope its name, scopes and organisation', async () => {
     const { key, token } = await createKey(s.t, s.organization.id, { scopes: ['sizing:run'] });
     const run = await runCli(['whoami', '--api-url', s.apiUrl, '--api-key', token]);
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(new RegExp(`^Key +${key.keyId} \\(server key\\)$`, 'm'));
+    expect(run.stdout).toMatch(/^Scopes +sizing:run$/m);
+    expect(run.stdout).toMatch(new RegExp(`^Organisation +${s.organization.name} \\(${s.organization.slug}\\), plan \\w+$`, 'm'));
+    expect(run.stdout).not.toContain('Not shown');
+  });
+
+  it('says what an embed key cannot see, instead of failing', async () => {
+    const { key, token } = await createKey(s.t, s.organization.id, { kind: 'embed', allowedOrigins: ['https://shop.harborlane.test'] });
+    const run = await runCli(['whoami', '--api-url', s.apiUrl, '--api-key', token]);
+    expect(run.code).toBe(0);
+    expect(run.stdout).toMatch(new RegExp(`^Key +${key.keyId} \\(embed key\\)$`, 'm'));
     expect(run.stdout).toMatch(/^Not shown +organisation \(needs usage:read\); name and scopes \(needs keys:manage\)$/m);
   });
 
