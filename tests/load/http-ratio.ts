@@ -12,6 +12,11 @@ export interface Load {
   rps: number;
   p99Ms: number;
   bytesPerAnswer: number;
+  /**
+   * CPU time (user + system) the server process spent per answer over the measured run. Unlike
+   * req/s it barely moves when other work shares the machine, so it is the steadier yardstick.
+   */
+  cpuUsPerAnswer: number;
 }
 
 export interface HttpFigures {
@@ -26,11 +31,29 @@ const CONNECTIONS = 20;
 export const VOLTAGE_DROP_BODY = JSON.stringify({ supplyVoltageV: 24, currentA: 2, lengthM: 10, conductor: { crossSectionMm2: 0.75 } });
 export const ESTIMATE_BODY = JSON.stringify(alderRowTownhouse); // 14 treads, trace on
 
-export async function load(url: string, seconds: number, opts: Partial<autocannon.Options> = {}): Promise<Load> {
+/** Clock ticks a second in /proc/<pid>/stat (USER_HZ: 100 on Linux everywhere in practice). */
+const TICKS_PER_S = 100;
+
+/** User + system CPU time of a process so far, in µs (Linux /proc); NaN where there is no /proc. */
+function cpuUs(pid: number | undefined): number {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return ((Number(fields[11]) + Number(fields[12])) * 1e6) / TICKS_PER_S; // utime, stime
+  } catch {
+    return Number.NaN;
+  }
+}
+
+/** Loads `url` for `seconds` after a warm-up; `server` is the process answering (for its CPU time). */
+export async function load(url: string, seconds: number, opts: Partial<autocannon.Options> = {}, server?: ChildProcess): Promise<Load> {
   await autocannon({ url, connections: CONNECTIONS, duration: 2, ...opts }); // warm-up: JIT and first-use costs
+  const cpuBefore = cpuUs(server?.pid);
   const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, ...opts });
+  const cpu = cpuUs(server?.pid) - cpuBefore;
   if (r.non2xx || r.errors || r.timeouts) throw new Error(`${url}: ${r.non2xx} non-2xx, ${r.errors} errors, ${r.timeouts} timeouts`);
-  return { rps: r.requests.average, p99Ms: r.latency.p99, bytesPerAnswer: r.throughput.total / Math.max(1, r.requests.total) };
+  const answers = Math.max(1, r.requests.total);
+  return { rps: r.requests.average, p99Ms: r.latency.p99, bytesPerAnswer: r.throughput.total / answers, cpuUsPerAnswer: cpu / answers };
 }
 
 async function json(url: string, init: RequestInit) {
@@ -116,12 +139,12 @@ export async function measureHttp(seconds: number): Promise<HttpFigures> {
     stack = await startServer();
     const { base, key } = stack;
     return {
-      bareGet: await load(`${bareUrl}/get`, seconds),
-      barePost: await load(`${bareUrl}/post`, seconds, post(VOLTAGE_DROP_BODY)),
-      health: await load(`${base}/v1/health`, seconds),
-      voltageDrop: await load(`${base}/v1/calculations/voltage-drop`, seconds, post(VOLTAGE_DROP_BODY, key)),
+      bareGet: await load(`${bareUrl}/get`, seconds, {}, bare),
+      barePost: await load(`${bareUrl}/post`, seconds, post(VOLTAGE_DROP_BODY), bare),
+      health: await load(`${base}/v1/health`, seconds, {}, stack.server),
+      voltageDrop: await load(`${base}/v1/calculations/voltage-drop`, seconds, post(VOLTAGE_DROP_BODY, key), stack.server),
       // Uncompressed, as autocannon asks: the answer is built and written in full.
-      estimate: await load(`${base}/v1/estimates`, seconds, post(ESTIMATE_BODY, key)),
+      estimate: await load(`${base}/v1/estimates`, seconds, post(ESTIMATE_BODY, key), stack.server),
     };
   } finally {
     await Promise.all([stop(bare), stack?.stop()]);
