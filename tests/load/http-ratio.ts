@@ -96,10 +96,10 @@ export interface RunningStack {
  * the limits measure their cost, not their refusals. `nodeArgs` go before the script (e.g.
  * `--cpu-prof` for `npm run bench:profile`).
  */
-export async function startServer(nodeArgs: string[] = []): Promise<RunningStack> {
+export async function startServer(nodeArgs: string[] = [], script = 'dist/server/main.js'): Promise<RunningStack> {
   const dir = mkdtempSync(path.join(tmpdir(), 'treadwise-bench-'));
   const serverOut = path.join(dir, 'server.out');
-  const server = spawn(process.execPath, [...nodeArgs, 'dist/server/main.js'], {
+  const server = spawn(process.execPath, [...nodeArgs, script], {
     env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATA_DIR: path.join(dir, 'data'), LOG_LEVEL: 'info' },
     stdio: ['ignore', openSync(serverOut, 'w'), 'inherit'],
   });
