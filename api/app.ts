@@ -1,7 +1,6 @@
 import compression from 'compression';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import { authenticate } from './auth/authenticate.js';
 import { authorize } from './auth/authorize.js';
 import type { AppDeps } from './deps.js';
@@ -11,7 +10,7 @@ import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
 import { COMPRESS_ABOVE_BYTES } from './middleware/compress.js';
 import { jsonBodyOnly } from './middleware/json-body.js';
 import { trafficMiddleware } from './middleware/rate-limit.js';
-import { requestId } from './middleware/request-id.js';
+import { accessLog } from './middleware/access-log.js';
 import { requestMetrics } from './middleware/request-metrics.js';
 import { chain, isUnder } from './middleware/chain.js';
 import { metricsRouter } from './routes/metrics.js';
@@ -38,17 +37,7 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
   app.use(
     chain(
       requestMetrics(services.metrics), // first, so the time counted is the whole chain's
-      pinoHttp({
-        logger: deps.logger,
-        genReqId: requestId,
-        // Method, path and status are enough to follow a request; headers may carry credentials.
-        serializers: {
-          // The query string is dropped: e-mailed links carry single-use tokens there.
-          req: (req) => ({ id: req.id, method: req.method, url: String(req.url).split('?')[0], remoteAddress: req.remoteAddress }),
-          res: (res) => ({ statusCode: res.statusCode }),
-        },
-        customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
-      }),
+      accessLog(deps.logger),
       // The demo serves plain HTTP on localhost; don't ask browsers to upgrade to HTTPS.
       helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }),
     ),
