@@ -1,6 +1,5 @@
 import compression from 'compression';
 import express, { type Express } from 'express';
-import helmet from 'helmet';
 import { authenticate } from './auth/authenticate.js';
 import { authorize } from './auth/authorize.js';
 import type { AppDeps } from './deps.js';
@@ -11,6 +10,7 @@ import { COMPRESS_ABOVE_BYTES } from './middleware/compress.js';
 import { jsonBodyOnly } from './middleware/json-body.js';
 import { trafficMiddleware } from './middleware/rate-limit.js';
 import { accessLog } from './middleware/access-log.js';
+import { securityHeaders } from './middleware/security-headers.js';
 import { requestMetrics } from './middleware/request-metrics.js';
 import { chain, isUnder } from './middleware/chain.js';
 import { metricsRouter } from './routes/metrics.js';
@@ -39,7 +39,7 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
       requestMetrics(services.metrics), // first, so the time counted is the whole chain's
       accessLog(deps.logger),
       // The demo serves plain HTTP on localhost; don't ask browsers to upgrade to HTTPS.
-      helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }),
+      securityHeaders({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }),
     ),
   );
   // After helmet: /docs replaces the CSP with its own. Its paths are outside /v1, so API calls skip its router.
