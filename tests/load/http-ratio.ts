@@ -136,7 +136,8 @@ export async function measureHttp(seconds: number): Promise<HttpFigures> {
   let stack: RunningStack | undefined;
   try {
     const bareUrl = /listening at (\S+)/.exec(await started(bare, bareOut, /listening at/))![1];
-    stack = await startServer();
+    // BENCH_SERVER: another build to measure the same way (e.g. main's, built into dist/base/main.js).
+    stack = await startServer([], process.env.BENCH_SERVER ?? 'dist/server/main.js');
     const { base, key } = stack;
     return {
       bareGet: await load(`${bareUrl}/get`, seconds, {}, bare),
