@@ -61,7 +61,7 @@ export function createApp(deps: AppDeps): Express & { locals: { services: Servic
     const full = path(req);
     if (isUnder(full, ESTIMATE_BATCH_PATH)) return batchJson(req, res, next);
     if (isUnder(full, BATCHES_PATH) && req.method === 'POST' && (full.length === BATCHES_PATH.length || full.length === BATCHES_PATH.length + 1)) return jobJson(req, res, next);
-    if (isUnder(full, BILLING_WEBHOOK_PATH)) return webhookRaw(req, res, () => bodyJson(req, res, next));
+    if (isUnder(full, BILLING_WEBHOOK_PATH)) return webhookRaw(req, res, (err?: unknown) => (err ? next(err) : bodyJson(req, res, next)));
     bodyJson(req, res, next);
   };
   app.use(

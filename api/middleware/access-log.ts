@@ -24,7 +24,8 @@ const levelOf = (status: number) => (status >= 500 ? 'error' : status >= 400 ? '
 
 /**
  * The access log: one line per request once it is answered (or the client went away), at info,
- * warn for 4xx, error for 5xx, with `req`, `res.statusCode` and `responseTime` (ms), the same
+ * warn for 4xx, error for 5xx (`request completed`, `request aborted` when the client went
+ * away first, `request errored`), with `req`, `res.statusCode` and `responseTime` (ms), the same
  * line pino-http wrote. Also sets `req.id` (see request-id.ts) and `req.log`, a child logger
  * made only when a handler logs (most requests never do; making one per request cost more than
  * writing the line).
@@ -44,7 +45,7 @@ export function accessLog(logger: Logger): RequestHandler {
       const fields = { req: requestFields(req), res: { statusCode: status }, responseTime: Date.now() - started };
       const level = levelOf(status);
       if (status >= 500) logger[level]({ ...fields, err: new Error(`failed with status code ${status}`) }, 'request errored');
-      else logger[level](fields, 'request completed');
+      else logger[level](fields, !req.readableAborted && res.writableEnded ? 'request completed' : 'request aborted');
     });
     next();
   };
