@@ -54,9 +54,13 @@ async function keyPrincipal(deps: AuthenticateDeps, token: string, origin: strin
   const row = await deps.keyCache.get(parsed.keyId);
   const now = deps.clock();
   if (!row || row.kind !== parsed.kind) throw unknownCredential('API key');
-  const digest = hashSecret(deps.pepper, parsed.keyId, parsed.secret);
-  const nowIso = now.toISOString();
-  const valid = digestsEqual(digest, row.secretHash) || row.overlappingSecrets.some((s) => s.validUntil > nowIso && digestsEqual(digest, s.hash));
+  const valid = deps.keyCache.secretValid(row, token, () => {
+    const digest = hashSecret(deps.pepper, parsed.keyId, parsed.secret);
+    if (digestsEqual(digest, row.secretHash)) return { validUntil: Number.POSITIVE_INFINITY };
+    const nowIso = now.toISOString();
+    const overlap = row.overlappingSecrets.find((s) => s.validUntil > nowIso && digestsEqual(digest, s.hash));
+    return overlap ? { validUntil: Date.parse(overlap.validUntil) } : null;
+  });
   if (!valid) throw unknownCredential('API key');
   if (row.revokedAt) throw problems.unauthenticated('The API key has been revoked.', 'credential_revoked');
   if (row.expiresAt && row.expiresAt <= now) throw expiredCredential('API key');

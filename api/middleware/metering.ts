@@ -3,6 +3,7 @@ import type { Policy } from '../auth/policy.js';
 import { principalOf } from '../auth/principal.js';
 import type { AppDeps } from '../deps.js';
 import { HttpProblem } from '../problem.js';
+import { whenAnswered } from './answered.js';
 import type { Services } from '../services/container.js';
 import type { QuotaDecision, QuotaTicket } from '../services/quotas.js';
 
@@ -77,8 +78,7 @@ export function meterRequests(deps: AppDeps, services: Services): RequestHandler
         units: l.quotaTicket?.units ?? (quotaFree(res) ? 0 : 1),
       });
     };
-    res.once('finish', done);
-    res.once('close', done);
+    whenAnswered(res, done);
     next();
   };
 }

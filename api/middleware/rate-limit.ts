@@ -7,6 +7,7 @@ import type { AppDeps } from '../deps.js';
 import { HttpProblem } from '../problem.js';
 import type { Services } from '../services/container.js';
 import { enforceQuota, meterRequests, routeOf } from './metering.js';
+import { runInOrder } from './chain.js';
 
 const MINUTE_MS = 60_000;
 const QUARTER_HOUR_MS = 15 * MINUTE_MS;
@@ -194,19 +195,5 @@ export function trafficMiddleware(deps: AppDeps, services: Services): RequestHan
 
 /** Runs the chosen handlers in order, as if each were mounted, stopping at the first error. */
 function runApplicable(choose: (req: Request, res: Response) => RequestHandler[]): RequestHandler {
-  return (req, res, next) => {
-    const chain = choose(req, res);
-    let i = 0;
-    const step = (err?: unknown): void => {
-      if (err !== undefined || i === chain.length) return next(err);
-      const handler = chain[i++];
-      try {
-        const result = handler(req, res, step) as unknown;
-        if (result instanceof Promise) result.catch(next);
-      } catch (e) {
-        next(e);
-      }
-    };
-    step();
-  };
+  return (req, res, next) => runInOrder(choose(req, res), req, res, next);
 }

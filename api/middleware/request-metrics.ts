@@ -1,6 +1,7 @@
 import type { RequestHandler } from 'express';
 import type { Metrics } from '../metrics/metrics.js';
 import { routeOf } from './metering.js';
+import { whenAnswered } from './answered.js';
 
 interface MeteredLocals {
   routePattern?: string;
@@ -16,10 +17,7 @@ interface MeteredLocals {
 export function requestMetrics(metrics: Metrics): RequestHandler {
   return (req, res, next) => {
     const started = performance.now();
-    let counted = false;
-    const done = () => {
-      if (counted) return;
-      counted = true;
+    whenAnswered(res, () => {
       const l = res.locals as MeteredLocals;
       const route = l.routePattern ? routeOf(req, res) : req.path === '/metrics' ? 'GET /metrics' : `${req.method} (unmatched)`;
       const status = res.headersSent ? res.statusCode : 499; // 499: the client went away before an answer
@@ -27,9 +25,7 @@ export function requestMetrics(metrics: Metrics): RequestHandler {
       metrics.httpDuration.observe({ route, status_class: `${Math.floor(status / 100)}xx` }, (performance.now() - started) / 1000);
       if (l.limitedBy) metrics.refusals.inc({ reason: l.limitedBy });
       else if (l.quotaTicket) metrics.quotaUnits.inc(l.quotaTicket.units);
-    };
-    res.once('finish', done);
-    res.once('close', done);
+    });
     next();
   };
 }
