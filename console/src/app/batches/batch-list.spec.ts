@@ -8,7 +8,7 @@ import type { Batch, Role } from '../core/api-types.js';
 import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { alderRowJob, alderRowJobDone } from './batch-fixtures.js';
 import { BatchList } from './batch-list.js';
-import { POLL_WAIT } from './batch-watch.js';
+import { POLL_WAIT } from '../core/poll.js';
 
 const RUNNING = alderRowJob();
 const DONE = alderRowJobDone({ id: '7a4e1c9b-2d3f-4e5a-8b6c-0d1e2f3a4b5c', name: null });

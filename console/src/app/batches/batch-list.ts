@@ -15,7 +15,7 @@ import { problemMessage } from '../core/problem-details.js';
 import { BatchStatusChip } from './batch-status-chip.js';
 import { formatEta, formatRate, isFinal, jobLabel } from './batch-status.js';
 import { BatchUpload } from './batch-upload.js';
-import { DEFAULT_POLL_MS, POLL_WAIT } from './batch-watch.js';
+import { DEFAULT_POLL_MS, POLL_WAIT } from '../core/poll.js';
 import { BatchesApi } from './batches-api.js';
 
 type Listing = { state: 'loading' } | { state: 'ready'; jobs: Batch[]; nextCursor: string | null } | { state: 'failed'; reason: string };

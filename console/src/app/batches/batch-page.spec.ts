@@ -8,7 +8,7 @@ import type { Batch, Role } from '../core/api-types.js';
 import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { alderRowJob, alderRowJobDone } from './batch-fixtures.js';
 import { BatchPage } from './batch-page.js';
-import { POLL_WAIT } from './batch-watch.js';
+import { POLL_WAIT } from '../core/poll.js';
 
 const JOB = alderRowJob();
 const SELF = `/v1/batches/${JOB.id}`;

@@ -17,7 +17,8 @@ import { problemMessage } from '../core/problem-details.js';
 import { BatchCancelDialog } from './batch-cancel-dialog.js';
 import { BatchStatusChip } from './batch-status-chip.js';
 import { formatEta, formatRate, isFinal, jobLabel } from './batch-status.js';
-import { POLL_WAIT, watchBatch } from './batch-watch.js';
+import { POLL_WAIT } from '../core/poll.js';
+import { watchBatch } from './batch-watch.js';
 import { BatchesApi, type ResultFormat } from './batches-api.js';
 
 type Watched =

@@ -4,7 +4,8 @@ import { describe, expect, it } from 'vitest';
 
 import type { Batch } from '../core/api-types.js';
 import { alderRowJob, alderRowJobDone } from './batch-fixtures.js';
-import { DEFAULT_POLL_MS, pollDelayMs, retryAfterMs, watchBatch } from './batch-watch.js';
+import { DEFAULT_POLL_MS, pollDelayMs, retryAfterMs } from '../core/poll.js';
+import { watchBatch } from './batch-watch.js';
 
 type Answer = { batch: Batch; retryAfter?: string } | { error: HttpErrorResponse };
 

@@ -5,7 +5,7 @@ import { type ComponentFixture, TestBed } from '@angular/core/testing';
 import { Subject } from 'rxjs';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 
-import { POLL_WAIT } from '../batches/batch-watch.js';
+import { POLL_WAIT } from '../core/poll.js';
 import type { BillingOverview, Invoice, Role } from '../core/api-types.js';
 import { pageSpecProviders } from '../core/page-spec-providers.js';
 import { PAID_INVOICE, PARTNER, SHOP, overview, subscribed } from './billing-fixtures.js';

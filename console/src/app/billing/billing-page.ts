@@ -7,7 +7,7 @@ import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { type Subscription, firstValueFrom, map } from 'rxjs';
 
-import { POLL_WAIT } from '../batches/batch-watch.js';
+import { POLL_WAIT } from '../core/poll.js';
 import type { BillingOverview, Invoice, PlanOffer } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';

@@ -1,7 +1,7 @@
-import { HttpErrorResponse, type HttpResponse } from '@angular/common/http';
+import type { HttpResponse } from '@angular/common/http';
 import { EMPTY, type Observable, defer, expand, map, retry, switchMap, take, throwError } from 'rxjs';
 
-import { type PollWait, pollDelayMs } from '../batches/batch-watch.js';
+import { type PollWait, isTransient, pollDelayMs } from '../core/poll.js';
 import type { BillingOverview } from '../core/api-types.js';
 
 /** About half a minute at the API's usual pace: the provider's webhook normally lands within a second or two. */
@@ -9,9 +9,6 @@ export const MAX_ASKS = 15;
 // An ask that fails for a passing reason (rate limit, gateway, network) is tried again this often.
 const TRANSIENT_TRIES = 3;
 
-function transient(error: unknown): error is HttpErrorResponse {
-  return error instanceof HttpErrorResponse && [0, 429, 502, 503, 504].includes(error.status);
-}
 
 /**
  * The overview while a payment is being applied: asks at once, then again after each answer's
@@ -31,7 +28,7 @@ export function watchPlan(
       return ask().pipe(
         retry({
           count: TRANSIENT_TRIES,
-          delay: (error: unknown) => (transient(error) ? wait(pollDelayMs(error.headers.get('Retry-After'))) : throwError(() => error)),
+          delay: (error: unknown) => (isTransient(error) ? wait(pollDelayMs(error.headers.get('Retry-After'))) : throwError(() => error)),
         }),
       );
     });
