@@ -22,12 +22,6 @@ import { jobLabel } from './batch-status.js';
       <button matButton="filled" class="tw-danger" type="button" [mat-dialog-close]="true" data-testid="cancel-confirm">Cancel the job</button>
     </mat-dialog-actions>
   `,
-  styles: `
-    .tw-danger {
-      --mat-button-filled-container-color: var(--mat-sys-error);
-      --mat-button-filled-label-text-color: var(--mat-sys-on-error);
-    }
-  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class BatchCancelDialog {

@@ -29,12 +29,6 @@ export interface PlanCancelData {
       </button>
     </mat-dialog-actions>
   `,
-  styles: `
-    .tw-danger {
-      --mat-button-filled-container-color: var(--mat-sys-error);
-      --mat-button-filled-label-text-color: var(--mat-sys-on-error);
-    }
-  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PlanCancelDialog {

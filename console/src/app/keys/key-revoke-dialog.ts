@@ -21,12 +21,6 @@ import type { ApiKey } from '../core/api-types.js';
       <button matButton="filled" class="tw-danger" type="button" [mat-dialog-close]="true" data-testid="revoke-confirm">Revoke {{ key.name }}</button>
     </mat-dialog-actions>
   `,
-  styles: `
-    .tw-danger {
-      --mat-button-filled-container-color: var(--mat-sys-error);
-      --mat-button-filled-label-text-color: var(--mat-sys-on-error);
-    }
-  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class KeyRevokeDialog {
