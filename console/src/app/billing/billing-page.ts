@@ -12,6 +12,7 @@ import type { BillingOverview, Invoice, PlanOffer } from '../core/api-types.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { LoadFailure } from '../core/load-failure.js';
+import { QuotaMeter } from '../core/quota-meter.js';
 import { problemMessage } from '../core/problem-details.js';
 import { BillingApi } from './billing-api.js';
 import {
@@ -42,7 +43,7 @@ type Confirming = 'no' | 'waiting' | 'late';
 /** The organisation's plan and what it costs: state, usage, the plans on offer, invoices. */
 @Component({
   selector: 'tw-billing-page',
-  imports: [DatePipe, MatButton, MatIcon, MatProgressBar, LoadFailure],
+  imports: [DatePipe, MatButton, MatIcon, MatProgressBar, LoadFailure, QuotaMeter],
   templateUrl: './billing-page.html',
   styleUrl: './billing-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -11,6 +11,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { type Observable, type Subscription, catchError, firstValueFrom, forkJoin, map, of, switchMap } from 'rxjs';
 
 import type { UsageReport } from '../core/api-types.js';
+import { QuotaMeter } from '../core/quota-meter.js';
 import { Auth } from '../core/auth.js';
 import { roleMay } from '../core/capabilities.js';
 import { CLOCK } from '../core/clock.js';
@@ -38,7 +39,7 @@ type View = { state: 'loading' } | { state: 'ready'; report: UsageReport; keys: 
 /** The organisation's API traffic: calls per day per key, errors and 429s, latency, the month's quota. */
 @Component({
   selector: 'tw-traffic-page',
-  imports: [DatePipe, ReactiveFormsModule, MatButton, MatIcon, MatFormField, MatLabel, MatInput, MatSelect, MatOption, MatProgressBar, TrafficChart],
+  imports: [DatePipe, ReactiveFormsModule, MatButton, MatIcon, MatFormField, MatLabel, MatInput, MatSelect, MatOption, MatProgressBar, TrafficChart, QuotaMeter],
   templateUrl: './traffic-page.html',
   styleUrl: './traffic-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
