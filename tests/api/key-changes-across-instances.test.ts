@@ -56,3 +56,26 @@ describe('a stored catalog changed on one instance', () => {
     expect((await priceOn(b)).net).toBeGreaterThan(before.net);
   });
 });
+
+const keys = (path: string, body: object = {}) => request(t.app).post(path).set('Authorization', `Bearer ${manager}`).send(body);
+
+// Its secret is remembered for a few seconds (KeyCache): a change must end that at once too.
+describe('a key whose secret was just verified', () => {
+  it('is refused at once when revoked, on the instance that revoked it', async () => {
+    const created = await keys('/v1/keys', { name: 'Just used' }).expect(201);
+    await sizeOn(t.app, created.body.token).expect(200);
+    await sizeOn(t.app, created.body.token).expect(200); // verified from the cache now
+    await keys(`/v1/keys/${created.body.key.id}/revoke`).expect(200);
+    expect((await sizeOn(t.app, created.body.token).expect(401)).body.code).toBe('credential_revoked');
+  });
+
+  it('loses its old secret at once when rotated without overlap, here and on another instance', async () => {
+    const created = await keys('/v1/keys', { name: 'Rotated while hot' }).expect(201);
+    for (const app of [t.app, b, t.app, b]) await sizeOn(app, created.body.token).expect(200);
+    const rotated = await keys(`/v1/keys/${created.body.key.id}/rotate`, { overlapHours: 0 }).expect(200);
+    expect((await sizeOn(t.app, created.body.token).expect(401)).body.code).toBe('credential_unknown');
+    await expect.poll(async () => (await sizeOn(b, created.body.token)).status, { timeout: 3000, interval: 50 }).toBe(401);
+    await sizeOn(t.app, rotated.body.token).expect(200);
+    await sizeOn(b, rotated.body.token).expect(200);
+  });
+});
